@@ -1,4 +1,204 @@
+import { z } from 'zod';
 import type { CalcVerb } from '../calc/verbs';
+import { InvalidInputError, parseOrThrow, type FieldIssue } from '../api/errors';
+import { GAS_CODES, isLiquefiedGas, type GasCode, type LiquefiedGasCode } from './gases';
+import { compressibility } from './eos';
+import { REFERENCE_CODES, type ReferenceCode } from './reference-conditions';
+import { compressedContents, cylinderDuration, liquefiedContents, pressureAtTemperature } from './contents';
+import { PLANNING_CAUTION } from './mixture-cautions';
 
-/** Calc verbs of the gas module (filled in by the gas work). */
-export const gasCalcVerbs: Record<string, CalcVerb> = {};
+/**
+ * Calc verbs of the gas module (`npm run --silent calc -- VERB`, JSON in, JSON out). Field names
+ * are a public contract: snake_case with units.
+ */
+
+const gasSchema = z.enum(GAS_CODES as [GasCode, ...GasCode[]]);
+const referenceSchema = z.enum(REFERENCE_CODES as [ReferenceCode, ...ReferenceCode[]]);
+const num = z.number();
+
+const zItemSchema = z.object({ gas: gasSchema, temperature_C: num, pressure_bar_abs: num });
+
+const compressedSchema = z.object({
+  gas: gasSchema,
+  water_capacity_L: num,
+  gauge_bar: num.optional(),
+  pressure_bar_abs: num.optional(),
+  temperature_C: num,
+  atmospheric_bar: num.optional(),
+  reference: referenceSchema.optional(),
+});
+
+const liquefiedSchema = z.object({
+  gas: z.enum(['CO2', 'N2O']),
+  gross_kg: num,
+  tare_kg: num,
+  water_capacity_L: num,
+  temperature_C: num,
+  atmospheric_bar: num.optional(),
+  reference: referenceSchema.optional(),
+});
+
+const durationExtra = z.object({ flow_L_min: num, reserve_gauge_bar: num.optional(), reserve_kg: num.optional() });
+
+const pressureAtSchema = z.object({
+  gas: gasSchema,
+  gauge_bar: num.optional(),
+  pressure_bar_abs: num.optional(),
+  temperature_C: num,
+  new_temperature_C: num,
+  atmospheric_bar: num.optional(),
+});
+
+function isWeighed(item: unknown): boolean {
+  return typeof item === 'object' && item !== null && 'gross_kg' in item;
+}
+
+/** Runs `fn` on one item, prefixing error paths with the item's index when the input was an array. */
+function withIndex<T>(index: number | null, fn: () => T): T {
+  try {
+    return fn();
+  } catch (e) {
+    if (e instanceof InvalidInputError && index !== null) {
+      const details: FieldIssue[] = e.details.map((d) => ({ path: `${index}.${d.path}`, message: d.message }));
+      throw new InvalidInputError(`Item ${index}: ${e.message}`, details.length ? details : [{ path: String(index), message: e.message }]);
+    }
+    throw e;
+  }
+}
+
+function oneOrMany(input: unknown, fn: (item: unknown) => unknown): unknown {
+  if (Array.isArray(input)) {
+    if (input.length === 0) throw new InvalidInputError('Empty array: give at least one cylinder', [{ path: '(root)', message: 'empty array' }]);
+    return input.map((item, i) => withIndex(i, () => fn(item)));
+  }
+  if (typeof input !== 'object' || input === null) {
+    throw new InvalidInputError('Expected an object or an array of objects', [{ path: '(root)', message: 'expected an object or an array of objects' }]);
+  }
+  return fn(input);
+}
+
+function contentsOf(item: unknown): Record<string, unknown> {
+  if (isWeighed(item)) {
+    const v = parseOrThrow(liquefiedSchema, item, 'liquefied-gas cylinder');
+    const r = liquefiedContents({
+      gas: v.gas as LiquefiedGasCode,
+      grossKg: v.gross_kg,
+      tareKg: v.tare_kg,
+      waterCapacityL: v.water_capacity_L,
+      temperatureC: v.temperature_C,
+      atmosphericBar: v.atmospheric_bar,
+      reference: v.reference,
+    });
+    return {
+      mass_kg: r.massKg,
+      free_gas_L: r.freeGasL,
+      filling_ratio_kg_per_L: r.fillingRatioKgPerL,
+      vapour_pressure_bar_abs: r.vapourPressureBarAbs,
+      pressure_bar_abs: r.pressureBarAbs,
+      liquid_present: r.liquidPresent,
+      liquid_volume_fraction: r.liquidVolumeFraction,
+      reference: r.reference,
+      cautions: [...r.cautions, PLANNING_CAUTION],
+    };
+  }
+  const v = parseOrThrow(compressedSchema, item, 'cylinder');
+  if (isLiquefiedGas(v.gas) && v.gauge_bar === undefined && v.pressure_bar_abs === undefined) {
+    throw new InvalidInputError(`${v.gas} is liquefied: give gross_kg, tare_kg, water_capacity_L and temperature_C`, [
+      { path: 'gross_kg', message: 'required for a liquefied gas' },
+    ]);
+  }
+  const r = compressedContents({
+    gas: v.gas,
+    waterCapacityL: v.water_capacity_L,
+    gaugeBar: v.gauge_bar,
+    pressureBarAbs: v.pressure_bar_abs,
+    temperatureC: v.temperature_C,
+    atmosphericBar: v.atmospheric_bar,
+    reference: v.reference,
+  });
+  return {
+    moles: r.moles,
+    mass_kg: r.massKg,
+    free_gas_L: r.freeGasL,
+    ideal_free_gas_L: r.idealFreeGasL,
+    Z: r.Z,
+    equivalent_gauge_bar_at_reference_temperature: r.equivalentGaugeBarAtReferenceTemperature,
+    pressure_bar_abs: r.pressureBarAbs,
+    gauge_bar: r.gaugeBar,
+    reference: r.reference,
+    method: r.method,
+    cautions: [...r.cautions, PLANNING_CAUTION],
+  };
+}
+
+function durationOf(item: unknown): Record<string, unknown> {
+  const extra = parseOrThrow(durationExtra, item, 'duration input');
+  let r;
+  if (isWeighed(item)) {
+    const v = parseOrThrow(liquefiedSchema, item, 'liquefied-gas cylinder');
+    r = cylinderDuration({
+      gas: v.gas as LiquefiedGasCode,
+      grossKg: v.gross_kg,
+      tareKg: v.tare_kg,
+      waterCapacityL: v.water_capacity_L,
+      temperatureC: v.temperature_C,
+      atmosphericBar: v.atmospheric_bar,
+      reference: v.reference,
+      flowLMin: extra.flow_L_min,
+      reserveGaugeBar: extra.reserve_gauge_bar,
+      reserveKg: extra.reserve_kg,
+    });
+  } else {
+    const v = parseOrThrow(compressedSchema, item, 'cylinder');
+    r = cylinderDuration({
+      gas: v.gas,
+      waterCapacityL: v.water_capacity_L,
+      gaugeBar: v.gauge_bar,
+      pressureBarAbs: v.pressure_bar_abs,
+      temperatureC: v.temperature_C,
+      atmosphericBar: v.atmospheric_bar,
+      reference: v.reference,
+      flowLMin: extra.flow_L_min,
+      reserveGaugeBar: extra.reserve_gauge_bar,
+    });
+  }
+  return { minutes: r.minutes, usable_free_gas_L: r.usableFreeGasL, reference: r.reference, cautions: [...r.cautions, PLANNING_CAUTION] };
+}
+
+const zVerb: CalcVerb = (input) => {
+  if (!Array.isArray(input)) {
+    throw new InvalidInputError('Expected an array of {gas, temperature_C, pressure_bar_abs}', [{ path: '(root)', message: 'expected an array' }]);
+  }
+  return input.map((item) => {
+    try {
+      const v = parseOrThrow(zItemSchema, item, 'state');
+      const r = compressibility(v.gas, v.temperature_C + 273.15, v.pressure_bar_abs);
+      return { Z: r.Z, density_kg_m3: r.densityKgM3, ideal_density_kg_m3: r.idealDensityKgM3, phase: r.phase, method: r.method };
+    } catch (e) {
+      if (e instanceof InvalidInputError) return { error: { code: e.code, message: e.message, details: e.details } };
+      return { error: { code: 'internal_error', message: (e as Error).message } };
+    }
+  });
+};
+
+const pressureAtVerb: CalcVerb = (input) =>
+  oneOrMany(input, (item) => {
+    const v = parseOrThrow(pressureAtSchema, item, 'pressure-at-temperature input');
+    const r = pressureAtTemperature({
+      gas: v.gas,
+      gaugeBar: v.gauge_bar,
+      pressureBarAbs: v.pressure_bar_abs,
+      temperatureC: v.temperature_C,
+      newTemperatureC: v.new_temperature_C,
+      atmosphericBar: v.atmospheric_bar,
+    });
+    return { pressure_bar_abs: r.pressureBarAbs, gauge_bar: r.gaugeBar, cautions: [...r.cautions, PLANNING_CAUTION] };
+  });
+
+/** Calc verbs of the gas module. */
+export const gasCalcVerbs: Record<string, CalcVerb> = {
+  z: zVerb,
+  contents: (input) => oneOrMany(input, contentsOf),
+  duration: (input) => oneOrMany(input, durationOf),
+  pressure_at_temperature: pressureAtVerb,
+};

@@ -1,0 +1,101 @@
+import { InvalidInputError } from '../api/errors';
+import { freeGasLitresPerKg, type ReferenceCode } from './reference-conditions';
+import { requireFinite, requireInRange, requireNonNegative, requirePositive, fail } from './validate-input';
+
+/**
+ * Bulk liquid oxygen (vacuum-insulated evaporators). Quantities go through mass: litres of liquid
+ * depend on the liquid's temperature, litres of gas on the reference conditions.
+ */
+
+/**
+ * Density of saturated liquid oxygen at the normal boiling point (90.19 K, 1.01325 bar), kg/L:
+ * 1141.2 kg/m³ from the reference equation of state for oxygen (Schmidt & Wagner 1985), checked in
+ * fit-eos by solving the phase equilibrium of that equation; the usual handbook figure is 1.141 kg/L.
+ * Warm liquid in a working tank is lighter (≈ 0.97 kg/L at ~120 K), so litres read from a tank
+ * gauge calibrated for boiling-point liquid overstate the mass.
+ */
+export const LOX_DENSITY_KG_PER_L = 1.1412;
+
+/** Litres of liquid oxygen at the normal boiling point → kg. @param litres L of liquid */
+export function loxLitresToKg(litres: number, densityKgPerL: number = LOX_DENSITY_KG_PER_L): number {
+  requireNonNegative('litres', litres, 'Liquid volume');
+  requirePositive('densityKgPerL', densityKgPerL, 'Liquid density');
+  return litres * densityKgPerL;
+}
+
+/** kg of oxygen → litres of liquid at the normal boiling point. @param kg mass, kg */
+export function kgToLoxLitres(kg: number, densityKgPerL: number = LOX_DENSITY_KG_PER_L): number {
+  requireNonNegative('kg', kg, 'Mass');
+  requirePositive('densityKgPerL', densityKgPerL, 'Liquid density');
+  return kg / densityKgPerL;
+}
+
+/**
+ * Free gas (real volume at the reference conditions) from litres of boiling-point liquid, L.
+ * About 842 L per L at 15 °C and 860 L per L at 70 °F.
+ */
+export function loxLitresToFreeGasL(litres: number, reference: ReferenceCode = '15C'): number {
+  return loxLitresToKg(litres) * freeGasLitresPerKg('O2', reference);
+}
+
+/** Free gas at the reference conditions → litres of boiling-point liquid. */
+export function freeGasLToLoxLitres(freeGasL: number, reference: ReferenceCode = '15C'): number {
+  requireNonNegative('freeGasL', freeGasL, 'Gas volume');
+  return kgToLoxLitres(freeGasL / freeGasLitresPerKg('O2', reference));
+}
+
+/**
+ * Mass in a tank from a contents gauge that reads percent of full, kg (linear in mass).
+ * @param capacityKg full contents, kg; @param percent reading, 0–100
+ */
+export function levelPercentToKg(capacityKg: number, percent: number): number {
+  requirePositive('capacityKg', capacityKg, 'Tank capacity');
+  requireInRange('percent', percent, 0, 100, '%', 'Level');
+  return (capacityKg * percent) / 100;
+}
+
+export interface CalibrationPoint {
+  /** Gauge reading (e.g. inches of water column, percent, mbar differential). */
+  reading: number;
+  /** Contents at that reading, kg. */
+  kg: number;
+}
+
+/**
+ * Contents from a tank's calibration table by linear interpolation between neighbouring points.
+ * The table must have at least two points with strictly increasing readings and non-decreasing
+ * contents (sorted here); readings outside the table are rejected, never extrapolated.
+ * @param table calibration points (reading → kg); @param reading gauge reading in the table's unit
+ * @returns contents, kg
+ */
+export function contentsFromCalibrationTable(table: readonly CalibrationPoint[], reading: number): number {
+  if (!Array.isArray(table) || table.length < 2) {
+    throw new InvalidInputError('A calibration table needs at least two points', [{ path: 'table', message: 'at least two points' }]);
+  }
+  table.forEach((p, i) => {
+    requireFinite(`table.${i}.reading`, p?.reading, `Calibration reading ${i}`);
+    requireNonNegative(`table.${i}.kg`, p?.kg, `Calibration contents ${i}`);
+  });
+  requireFinite('reading', reading, 'Reading');
+  const points = [...table].sort((a, b) => a.reading - b.reading);
+  for (let i = 1; i < points.length; i++) {
+    if (points[i].reading === points[i - 1].reading) {
+      fail('table', `reading ${points[i].reading} appears twice`, `The calibration table has the reading ${points[i].reading} twice`);
+    }
+    if (points[i].kg < points[i - 1].kg) {
+      fail('table', 'contents must not fall as the reading rises', `The calibration table is not monotone: ${points[i].kg} kg at ${points[i].reading} is below ${points[i - 1].kg} kg at ${points[i - 1].reading}`);
+    }
+  }
+  const lo = points[0];
+  const hi = points[points.length - 1];
+  if (reading < lo.reading || reading > hi.reading) {
+    throw new InvalidInputError(`Reading ${reading} is outside the calibration table (${lo.reading}–${hi.reading})`, [
+      { path: 'reading', message: `must be between ${lo.reading} and ${hi.reading}` },
+    ]);
+  }
+  let i = 1;
+  while (points[i].reading < reading) i++;
+  const a = points[i - 1];
+  const b = points[i];
+  return a.kg + ((reading - a.reading) / (b.reading - a.reading)) * (b.kg - a.kg);
+}
