@@ -1,0 +1,69 @@
+import { z } from 'zod';
+
+/**
+ * The one place that reads process.env. Parsed once at start-up; a bad value stops the process with a
+ * list of every problem, rather than failing later in a request.
+ */
+const envSchema = z.object({
+  NODE_ENV: z.enum(['development', 'test', 'production']).default('development'),
+  HOST: z.string().default('127.0.0.1'),
+  PORT: z.coerce.number().int().min(1).max(65535).default(8080),
+  DB_HOST: z.string().default('127.0.0.1'),
+  DB_PORT: z.coerce.number().int().min(1).max(65535).default(3307),
+  DB_USER: z.string().default('plenum'),
+  DB_PASSWORD: z.string().default('plenum-dev'),
+  DB_NAME: z.string().default('plenum'),
+  DB_POOL_SIZE: z.coerce.number().int().min(1).max(200).default(10),
+  SESSION_SECRET: z.string().min(16, 'SESSION_SECRET must be at least 16 characters').default('plenum-development-session-secret'),
+  SESSION_MAX_AGE_HOURS: z.coerce.number().positive().default(12),
+  COOKIE_SECURE: z
+    .enum(['true', 'false'])
+    .default('false')
+    .transform((v) => v === 'true'),
+  TRUST_PROXY: z.string().default('loopback'),
+  SMTP_HOST: z.string().default('127.0.0.1'),
+  SMTP_PORT: z.coerce.number().int().min(1).max(65535).default(2525),
+  SMTP_USER: z.string().optional(),
+  SMTP_PASSWORD: z.string().optional(),
+  SMTP_SECURE: z
+    .enum(['true', 'false'])
+    .default('false')
+    .transform((v) => v === 'true'),
+  MAIL_FROM: z.string().default('Plenum <plenum@plenum.example>'),
+  MAIL_CAPTURE: z
+    .enum(['true', 'false'])
+    .default('true')
+    .transform((v) => v === 'true'),
+  LOGIN_RATE_LIMIT_PER_15_MIN: z.coerce.number().int().min(1).default(50),
+  SERVE_FRONTEND: z
+    .enum(['true', 'false'])
+    .default('true')
+    .transform((v) => v === 'true'),
+  LOG_LEVEL: z.enum(['silent', 'error', 'info', 'debug']).default('info'),
+});
+
+export type Env = z.infer<typeof envSchema>;
+
+export function parseEnv(source: Record<string, string | undefined> = process.env): Env {
+  const result = envSchema.safeParse(source);
+  if (!result.success) {
+    const lines = result.error.issues.map((i) => `  ${i.path.join('.')}: ${i.message}`);
+    throw new Error(`Configuration is invalid:\n${lines.join('\n')}`);
+  }
+  const env = result.data;
+  if (env.NODE_ENV === 'production' && env.SESSION_SECRET === 'plenum-development-session-secret') {
+    throw new Error('Configuration is invalid:\n  SESSION_SECRET: set a secret of your own in production');
+  }
+  return env;
+}
+
+let cached: Env | undefined;
+/** The configuration of this process (parsed on first use). */
+export function env(): Env {
+  cached ??= parseEnv();
+  return cached;
+}
+/** For tests: replace the configuration. */
+export function setEnv(next: Env): void {
+  cached = next;
+}

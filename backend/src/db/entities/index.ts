@@ -1,0 +1,9 @@
+import { Organisation } from './organisation.entity';
+import { Site } from './site.entity';
+import { User, UserRole, UserSite } from './user.entity';
+import { CylinderType, Gas, Supplier, SupplierPrice } from './catalogue.entity';
+import { AuditLog } from './audit-log.entity';
+import { MailAttachment, MailMessage } from './mail.entity';
+
+/** Every entity of the DataSource, in one list. */
+export const entities = [Organisation, Site, User, UserRole, UserSite, Gas, CylinderType, Supplier, SupplierPrice, AuditLog, MailMessage, MailAttachment];

@@ -1,0 +1,13 @@
+import type { DataSource } from 'typeorm';
+import { Organisation } from '../entities/organisation.entity';
+import { DEMO_ORGANISATION, seedFoundation } from './demo-foundation';
+
+/** Creates the whole demo organisation in one transaction; returns false when it exists already. */
+export async function seedDemo(ds: DataSource): Promise<boolean> {
+  return ds.transaction(async (m) => {
+    const existing = await m.getRepository(Organisation).findOneBy({ name: DEMO_ORGANISATION });
+    if (existing) return false;
+    await seedFoundation(m);
+    return true;
+  });
+}

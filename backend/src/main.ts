@@ -1,0 +1,41 @@
+/** Process entry: configuration, DataSource, listen, and a clean stop on SIGINT/SIGTERM. */
+import 'reflect-metadata';
+import type { Server } from 'node:http';
+import { env } from './config/env';
+import { createDataSource } from './db/data-source';
+import { setDb } from './db/db';
+import { createApp } from './app';
+import { logger } from './logger';
+
+const e = env();
+logger.setLevel(e.LOG_LEVEL);
+const ds = createDataSource();
+await ds.initialize();
+setDb(ds);
+const pending = await ds.showMigrations();
+if (pending) {
+  logger.error('The database has migrations that have not run: run scripts/migrate (scripts/start does it)');
+  process.exit(1);
+}
+const { app, close } = await createApp();
+const server: Server = app.listen(e.PORT, e.HOST, (err?: Error) => {
+  if (err) {
+    logger.error(`Cannot listen on ${e.HOST}:${e.PORT}: ${err.message}`);
+    process.exit(1);
+  }
+  logger.info(`Plenum listening on http://${e.HOST}:${e.PORT}`);
+});
+
+let stopping = false;
+async function stop(signal: string) {
+  if (stopping) return;
+  stopping = true;
+  logger.info(`${signal}: stopping`);
+  server.close();
+  server.closeAllConnections?.();
+  await close().catch(() => undefined);
+  await ds.destroy().catch(() => undefined);
+  process.exit(0);
+}
+process.on('SIGINT', () => void stop('SIGINT'));
+process.on('SIGTERM', () => void stop('SIGTERM'));

@@ -1,0 +1,116 @@
+import bcrypt from 'bcryptjs';
+import { In } from 'typeorm';
+import { LOGIN_LOCK_MINUTES, LOGIN_MAX_FAILURES, type Role } from '@common/api/roles';
+import type { Me } from '@common/schemas/auth.schema';
+import { db } from '../../db/db';
+import { User, UserRole, UserSite } from '../../db/entities/user.entity';
+import { Site } from '../../db/entities/site.entity';
+import { Organisation } from '../../db/entities/organisation.entity';
+import type { AuthUser } from '../../http/context';
+import { AppError, badRequest, unauthorised } from '../../errors/app-error';
+import { recordAudit } from '../audit/audit.service';
+
+export const BCRYPT_COST = 11;
+let dummyHash: string | undefined;
+
+/** Why a sign-in failed; the message never says whether the e-mail exists. */
+export class SignInError extends AppError {}
+
+const INVALID = () => new SignInError(401, 'invalid_credentials', 'E-mail or password is not right');
+
+/**
+ * Checks an e-mail and password. Counts consecutive failures and locks the account for
+ * LOGIN_LOCK_MINUTES after LOGIN_MAX_FAILURES; a locked account is refused before the password is checked.
+ */
+export async function verifyCredentials(email: string, password: string): Promise<AuthUser> {
+  const repo = db().getRepository(User);
+  const user = await repo.findOne({ where: { email: email.trim().toLowerCase() } });
+  if (!user || !user.active) {
+    // Spend the same time as a real check, so timing does not reveal which e-mails exist.
+    dummyHash ??= await bcrypt.hash('no-such-user-password', BCRYPT_COST);
+    await bcrypt.compare(password, dummyHash);
+    throw INVALID();
+  }
+  const now = new Date();
+  if (user.lockedUntil && user.lockedUntil > now) {
+    const minutes = Math.ceil((user.lockedUntil.getTime() - now.getTime()) / 60000);
+    throw new SignInError(423, 'account_locked', `Too many failed sign-ins: this account is locked for ${minutes} more minute${minutes === 1 ? '' : 's'}. An administrator can unlock it.`);
+  }
+  const ok = await bcrypt.compare(password, user.passwordHash);
+  if (!ok) {
+    const failures = user.failedLogins + 1;
+    const lock = failures >= LOGIN_MAX_FAILURES ? new Date(now.getTime() + LOGIN_LOCK_MINUTES * 60000) : null;
+    await repo.update({ id: user.id }, { failedLogins: lock ? 0 : failures, lockedUntil: lock });
+    if (lock) {
+      await recordAudit(db().manager, { organisationId: user.organisationId, userId: user.id, userEmail: user.email, requestId: null }, {
+        action: 'lock',
+        entity: 'user',
+        entityId: String(user.id),
+        after: { lockedUntil: lock.toISOString(), reason: `${LOGIN_MAX_FAILURES} failed sign-ins` },
+      });
+      throw new SignInError(423, 'account_locked', `Too many failed sign-ins: this account is locked for ${LOGIN_LOCK_MINUTES} minutes. An administrator can unlock it.`);
+    }
+    throw INVALID();
+  }
+  if (user.failedLogins > 0 || user.lockedUntil) await repo.update({ id: user.id }, { failedLogins: 0, lockedUntil: null });
+  const loaded = await loadAuthUser(user.id);
+  if (!loaded) throw INVALID();
+  return loaded;
+}
+
+/** Loads the user with roles and granted sites (administrators see every site of their organisation). */
+export async function loadAuthUser(id: number): Promise<AuthUser | null> {
+  const ds = db();
+  const user = await ds.getRepository(User).findOne({ where: { id } });
+  if (!user || !user.active) return null;
+  const roles = (await ds.getRepository(UserRole).find({ where: { userId: id } })).map((r) => r.role as Role);
+  let siteIds: number[];
+  if (roles.includes('administrator')) {
+    siteIds = (await ds.getRepository(Site).find({ select: { id: true }, where: { organisationId: user.organisationId } })).map((s) => s.id);
+  } else {
+    siteIds = (await ds.getRepository(UserSite).find({ where: { userId: id } })).map((s) => s.siteId);
+  }
+  return { id: user.id, organisationId: user.organisationId, email: user.email, name: user.name, roles: roles.sort(), siteIds: siteIds.sort((a, b) => a - b) };
+}
+
+/** What GET /api/auth/me returns. */
+export async function describeMe(user: AuthUser): Promise<Me> {
+  const ds = db();
+  const org = await ds.getRepository(Organisation).findOneByOrFail({ id: user.organisationId });
+  const sites = user.siteIds.length ? await ds.getRepository(Site).find({ where: { id: In(user.siteIds), organisationId: user.organisationId }, order: { name: 'ASC' } }) : [];
+  return {
+    user: { id: user.id, email: user.email, name: user.name, roles: user.roles },
+    organisation: { id: org.id, name: org.name },
+    sites: sites.map((s) => ({
+      id: s.id,
+      name: s.name,
+      kind: s.kind,
+      timeZone: s.timeZone,
+      referenceCode: s.referenceCode,
+      unitSystem: s.unitSystem,
+      cylinderColours: s.cylinderColours,
+      storeTemperatureC: s.storeTemperatureC,
+      atmosphericBar: s.atmosphericBar,
+      currency: s.currency,
+    })),
+  };
+}
+
+export async function hashPassword(password: string): Promise<string> {
+  return bcrypt.hash(password, BCRYPT_COST);
+}
+
+/** Changes the caller's password after checking the current one. */
+export async function changePassword(user: AuthUser, currentPassword: string, newPassword: string, requestId: string): Promise<void> {
+  const repo = db().getRepository(User);
+  const row = await repo.findOneBy({ id: user.id });
+  if (!row) throw unauthorised();
+  if (!(await bcrypt.compare(currentPassword, row.passwordHash))) {
+    throw badRequest('The current password is not right', [{ path: 'currentPassword', message: 'not right' }]);
+  }
+  const hash = await hashPassword(newPassword);
+  await db().transaction(async (m) => {
+    await m.getRepository(User).update({ id: user.id }, { passwordHash: hash, passwordChangedAt: new Date() });
+    await recordAudit(m, { organisationId: user.organisationId, userId: user.id, userEmail: user.email, requestId }, { action: 'update', entity: 'password', entityId: String(user.id), after: { changed: true } });
+  });
+}

@@ -1,0 +1,17 @@
+import type { RouteDef } from './http/route';
+import { healthRoutes } from './modules/health/health.routes';
+import { authRoutes } from './modules/auth/auth.routes';
+import { siteRoutes } from './modules/sites/sites.routes';
+import { userRoutes } from './modules/users/users.routes';
+import { catalogueRoutes } from './modules/catalogue/catalogue.routes';
+import { auditRoutes } from './modules/audit/audit.routes';
+import { mailRoutes } from './modules/mail/mail.routes';
+import { calcRoutes } from './modules/calc/calc.routes';
+
+/**
+ * The route table: every API route with the roles that may call it. The app registers exactly these,
+ * and the role-matrix test reads the same list, so a new route cannot escape the matrix.
+ */
+export function routeTable(): RouteDef[] {
+  return [...healthRoutes(), ...authRoutes(), ...siteRoutes(), ...userRoutes(), ...catalogueRoutes(), ...auditRoutes(), ...mailRoutes(), ...calcRoutes()];
+}

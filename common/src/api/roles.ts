@@ -1,0 +1,18 @@
+/** The five roles of Plenum. A user may hold several. */
+export const ROLES = ['facilities_manager', 'ward_lead', 'purchasing_officer', 'biomedical_engineer', 'administrator'] as const;
+export type Role = (typeof ROLES)[number];
+
+export const ROLE_LABELS: Record<Role, string> = {
+  facilities_manager: 'Facilities manager',
+  ward_lead: 'Ward lead',
+  purchasing_officer: 'Purchasing officer',
+  biomedical_engineer: 'Biomedical engineer',
+  administrator: 'Administrator',
+};
+
+/** Header that carries the CSRF token on every state-changing request. */
+export const CSRF_HEADER = 'x-csrf-token';
+
+/** Sign-in policy: consecutive failures before a temporary lock, and its length. */
+export const LOGIN_MAX_FAILURES = 5;
+export const LOGIN_LOCK_MINUTES = 15;
