@@ -1,0 +1,251 @@
+import { InvalidInputError } from '../api/errors';
+import { compressedContents } from '../gas/contents';
+import type { GasCode } from '../gas/gases';
+import { freeGasLitresPerKg, type ReferenceCode } from '../gas/reference-conditions';
+import { applyScenarios, buildHourlyDemand, type DemandLine } from './demand-lines';
+import { boundaryAtOrAfter, buildHourIndex, resolveLocalTimeUtcMs, type HourIndex } from './hour-index';
+import { projectManifold, type ManifoldEvent } from './manifold';
+import { estimateHoursToEmptyBands, fillLognormalDayMultipliers, mulberry32, percentileOfSorted, type HoursToEmptyBands } from './monte-carlo';
+import { daysOfStock, projectDepletion, type DepletionModel, type DepletionOrder, type ForecastRisk } from './project-depletion';
+import type { CylinderSourceInput, ForecastInput, ManifoldSourceInput } from './forecast-input.schema';
+
+/** Shown with every forecast figure. */
+export const FORECAST_CAUTION =
+  'Planning estimate only: check against the site’s own records, the supplier’s figures and local codes; the site’s authorised person for medical gases decides.';
+
+export interface SourceForecast {
+  index: HourIndex;
+  /** kg for a bulk liquid tank, L of free gas at the reference conditions for cylinders and manifolds. */
+  unit: 'kg' | 'L';
+  /** Unit of order quantities: kg (bulk) or cylinders. */
+  quantityUnit: 'kg' | 'cylinders';
+  /** Contents at the start, in `unit`. */
+  contentsStart: number;
+  /** Contents at the end of every grid hour, in `unit`. */
+  series: Float64Array;
+  /** Demand per grid hour, L of free gas (after scenarios). */
+  demandLPerHour: Float64Array;
+  hoursToEmpty: number | null;
+  orders: DepletionOrder[];
+  firstOrderHours: number | null;
+  daysOfStockAtStart: number | null;
+  firstRisk: ForecastRisk | null;
+  bands: HoursToEmptyBands | null;
+  /** Manifold events (changeovers, bank replacements), elapsed hours; empty for other sources. */
+  manifoldEvents: ManifoldEvent[];
+  /** Conversion factors used, for the method panel. */
+  factors: { freeGasLitresPerKg?: number; fullCylinderFreeGasL?: number; residualPerCylinderL?: number };
+}
+
+/** Re-labels the gas engine's field paths with the forecast request's. */
+function withGasPaths<T>(prefix: string, rename: Record<string, string>, f: () => T): T {
+  try {
+    return f();
+  } catch (e) {
+    if (e instanceof InvalidInputError) {
+      const details = e.details.map((d) => ({ path: `${prefix}.${rename[d.path] ?? d.path}`, message: d.message }));
+      throw new InvalidInputError(e.message, details);
+    }
+    throw e;
+  }
+}
+
+/** Free gas in one cylinder at a gauge reading, L at the reference (gas engine, real gas). */
+function cylinderFreeGasL(gas: GasCode, waterCapacityL: number, gaugeBar: number, temperatureC: number, reference: ReferenceCode, gaugePath: string): number {
+  return withGasPaths('source', { gaugeBar: gaugePath, temperatureC: 'fill_temperature_C', waterCapacityL: 'water_capacity_L', gas: 'gas' }, () =>
+    compressedContents({ gas, waterCapacityL, gaugeBar, temperatureC, reference }).freeGasL,
+  );
+}
+
+function relativeLevel(
+  src: { reorder_level_days?: number; reorder_level_percent?: number },
+  meanDailyLoss: () => number | null,
+  percentBase: number,
+): number | undefined {
+  if (src.reorder_level_days !== undefined) {
+    const perDay = meanDailyLoss();
+    return perDay === null ? 0 : src.reorder_level_days * perDay;
+  }
+  if (src.reorder_level_percent !== undefined) return (src.reorder_level_percent / 100) * percentBase;
+  return undefined;
+}
+
+/**
+ * Forecasts one supply source from a validated request (see forecastInputSchema): builds the hour grid,
+ * the hourly demand with scenarios, converts it to the source's unit with the gas engine (bulk: L → kg
+ * by the real-gas free-gas litres per kg; cylinders: free gas per full cylinder at the fill pressure and
+ * temperature), projects it (projectDepletion or projectManifold) and, if asked, runs the Monte Carlo.
+ * @param input parsed ForecastInput (flows L/min of free gas at `reference`; masses kg; pressures bar(g); °C)
+ */
+export function forecastSource(input: ForecastInput): SourceForecast {
+  const index = buildHourIndex(input.timezone, input.start, input.horizon_days);
+  const lines: DemandLine[] = input.scenarios.length > 0 ? applyScenarios(input.demand, input.scenarios) : input.demand;
+  const demandL = buildHourlyDemand(lines, index);
+  const src = input.source;
+  const boundaryOf = (at: string) => boundaryAtOrAfter(index, resolveLocalTimeUtcMs(at, index.timeZone)!);
+
+  if (src.type === 'manifold') return forecastManifold(input, src, index, demandL, boundaryOf);
+
+  let model: DepletionModel;
+  let unit: 'kg' | 'L';
+  let factors: SourceForecast['factors'];
+  if (src.type === 'bulk_liquid') {
+    unit = 'kg';
+    const lPerKg = withGasPaths('source', {}, () => freeGasLitresPerKg(src.gas, input.reference));
+    factors = { freeGasLitresPerKg: lPerKg };
+    const demandKg = new Float64Array(demandL.length);
+    const kgPerL = 1 / lPerKg;
+    for (let i = 0; i < demandL.length; i++) demandKg[i] = demandL[i] * kgPerL;
+    model = {
+      contentsStart: src.contents_kg,
+      capacity: src.capacity_kg,
+      demandPerHour: demandKg,
+      evaporationPerHour: ((src.evaporation_percent_per_day / 100) * src.capacity_kg) / 24,
+      deliveries: input.deliveries.map((d) => ({ boundary: boundaryOf(d.at), amount: d.kg ?? 0 })),
+      reserveLevel: src.reserve_kg,
+    };
+    const level = src.reorder_level_kg ?? relativeLevel(src, () => meanDailyLoss(model), src.capacity_kg);
+    if (level !== undefined) {
+      model.reorder = { level, orderUpTo: src.order_up_to_kg ?? src.capacity_kg, leadTimeHours: src.lead_time_hours, lotSize: 0 };
+    }
+  } else {
+    unit = 'L';
+    const perCyl = cylinderFreeGasL(src.gas, src.water_capacity_L, src.fill_gauge_bar, src.fill_temperature_C, input.reference, 'fill_gauge_bar');
+    const inUseT = src.in_use_temperature_C ?? src.fill_temperature_C;
+    let inUse = 0;
+    src.in_use_gauge_bar.forEach((g, k) => {
+      inUse += cylinderFreeGasL(src.gas, src.water_capacity_L, g, inUseT, input.reference, `in_use_gauge_bar.${k}`);
+    });
+    factors = { fullCylinderFreeGasL: perCyl };
+    model = {
+      contentsStart: src.full * perCyl + inUse,
+      capacity: Infinity,
+      demandPerHour: demandL,
+      evaporationPerHour: 0,
+      deliveries: input.deliveries.map((d) => ({ boundary: boundaryOf(d.at), amount: (d.cylinders ?? 0) * perCyl })),
+      reserveLevel: src.reserve_cylinders !== undefined ? src.reserve_cylinders * perCyl : undefined,
+    };
+    const levelCyl = cylinderReorderLevel(src, model, perCyl);
+    if (levelCyl !== undefined && src.order_up_to_cylinders !== undefined) {
+      model.reorder = { level: levelCyl * perCyl, orderUpTo: src.order_up_to_cylinders * perCyl, leadTimeHours: src.lead_time_hours, lotSize: perCyl };
+    }
+  }
+  const result = projectDepletion(model);
+  const bands = input.draws > 0 ? estimateHoursToEmptyBands(model, index.dayOfRun, index.days, { draws: input.draws, demandCv: input.demand_cv, seed: input.seed }) : null;
+  return {
+    index,
+    unit,
+    quantityUnit: unit === 'kg' ? 'kg' : 'cylinders',
+    contentsStart: model.contentsStart,
+    series: result.series,
+    demandLPerHour: demandL,
+    hoursToEmpty: result.hoursToEmpty,
+    orders: result.orders,
+    firstOrderHours: result.firstOrderHours,
+    daysOfStockAtStart: result.daysOfStockAtStart,
+    firstRisk: result.firstRisk,
+    bands,
+    manifoldEvents: [],
+    factors,
+  };
+}
+
+/** Mean daily loss over the first 7 days (the days-of-stock denominator), model unit per day. */
+function meanDailyLoss(model: DepletionModel): number | null {
+  const dos = daysOfStock({ ...model, contentsStart: 1 });
+  return dos === null ? null : 1 / dos;
+}
+
+function cylinderReorderLevel(
+  src: CylinderSourceInput | ManifoldSourceInput,
+  model: DepletionModel,
+  perCylL: number,
+): number | undefined {
+  if (src.reorder_level_cylinders !== undefined) return src.reorder_level_cylinders;
+  const perDay = () => {
+    const l = meanDailyLoss(model);
+    return l === null ? null : l / perCylL;
+  };
+  return relativeLevel(src, perDay, src.order_up_to_cylinders ?? 0);
+}
+
+function forecastManifold(
+  input: ForecastInput,
+  src: ManifoldSourceInput,
+  index: HourIndex,
+  demandL: Float64Array,
+  boundaryOf: (at: string) => number,
+): SourceForecast {
+  const perCyl = cylinderFreeGasL(src.gas, src.water_capacity_L, src.fill_gauge_bar, src.fill_temperature_C, input.reference, 'fill_gauge_bar');
+  const inUseT = src.in_use_temperature_C ?? src.fill_temperature_C;
+  const residual = src.changeover_gauge_bar > 0 ? cylinderFreeGasL(src.gas, src.water_capacity_L, src.changeover_gauge_bar, inUseT, input.reference, 'changeover_gauge_bar') : 0;
+  const bankL = (readings: number | number[], key: string) => {
+    const list = Array.isArray(readings) ? readings : new Array<number>(src.cylinders_per_bank).fill(readings);
+    return list.reduce((sum, g, k) => sum + cylinderFreeGasL(src.gas, src.water_capacity_L, g, inUseT, input.reference, Array.isArray(readings) ? `${key}.${k}` : key), 0);
+  };
+  const config = { cylindersPerBank: src.cylinders_per_bank, fullCylinderL: perCyl, residualPerCylinderL: residual, bankReplacementHours: src.bank_replacement_hours };
+  const usablePerCyl = perCyl - residual;
+  const base = {
+    config,
+    dutyBankL: bankL(src.duty_bank_gauge_bar, 'duty_bank_gauge_bar'),
+    standbyBankL: bankL(src.standby_bank_gauge_bar, 'standby_bank_gauge_bar'),
+    spareFull: src.spare_full,
+    demandPerHour: demandL,
+    deliveries: input.deliveries.map((d) => ({ boundary: boundaryOf(d.at), cylinders: d.cylinders ?? 0 })),
+  };
+  const lossModel: DepletionModel = { contentsStart: 0, capacity: Infinity, demandPerHour: demandL, evaporationPerHour: 0 };
+  const levelCyl =
+    src.reorder_level_cylinders ??
+    relativeLevel(src, () => {
+      const l = meanDailyLoss(lossModel);
+      return l === null ? null : l / usablePerCyl;
+    }, src.order_up_to_cylinders ?? 0);
+  const reorder =
+    levelCyl !== undefined && src.order_up_to_cylinders !== undefined
+      ? { levelCylinders: levelCyl, orderUpToCylinders: src.order_up_to_cylinders, leadTimeHours: src.lead_time_hours }
+      : undefined;
+  const result = projectManifold({ ...base, reorder });
+  const contentsStart = Math.max(0, base.dutyBankL - src.cylinders_per_bank * residual) + Math.max(0, base.standbyBankL - src.cylinders_per_bank * residual) + src.spare_full * usablePerCyl;
+  let bands: HoursToEmptyBands | null = null;
+  if (input.draws > 0) {
+    // Same day-multiplier model as estimateHoursToEmptyBands, stepping the manifold per draw.
+    const rng = mulberry32(input.seed);
+    const mult = new Float64Array(Math.max(1, index.days));
+    const hs = new Float64Array(input.draws);
+    let outlasting = 0;
+    for (let k = 0; k < input.draws; k++) {
+      fillLognormalDayMultipliers(rng, input.demand_cv, mult);
+      const h = projectManifold({ ...base, reorder }, { dayMultiplier: mult, dayOfRun: index.dayOfRun, stopAtEmpty: true }).hoursToEmpty;
+      hs[k] = h === null ? Infinity : h;
+      if (h === null) outlasting++;
+    }
+    hs.sort();
+    bands = { p10: percentileOfSorted(hs, 0.1), p50: percentileOfSorted(hs, 0.5), p90: percentileOfSorted(hs, 0.9), draws: input.draws, drawsOutlastingHorizon: outlasting };
+  }
+  const reserveL = src.reserve_cylinders !== undefined ? src.reserve_cylinders * usablePerCyl : undefined;
+  let firstRisk: ForecastRisk | null = null;
+  if (result.hoursToEmpty !== null) firstRisk = { kind: 'runs_empty', atHours: result.hoursToEmpty, message: 'Both banks run out within the horizon.' };
+  if (reserveL !== undefined) {
+    const i = result.series.findIndex((c) => c <= reserveL);
+    if (i >= 0 && (firstRisk === null || i + 1 < firstRisk.atHours)) firstRisk = { kind: 'reserve_touched', atHours: i + 1, message: 'Contents fall into the reserve.' };
+  }
+  return {
+    index,
+    unit: 'L',
+    quantityUnit: 'cylinders',
+    contentsStart,
+    series: result.series,
+    demandLPerHour: demandL,
+    hoursToEmpty: result.hoursToEmpty,
+    orders: result.orders,
+    firstOrderHours: result.orders.length > 0 ? result.orders[0].placedHours : null,
+    daysOfStockAtStart: (() => {
+      const perDay = meanDailyLoss(lossModel);
+      return perDay === null ? null : contentsStart / perDay;
+    })(),
+    firstRisk,
+    bands,
+    manifoldEvents: result.events,
+    factors: { fullCylinderFreeGasL: perCyl, residualPerCylinderL: residual },
+  };
+}
