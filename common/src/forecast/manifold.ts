@@ -107,6 +107,10 @@ export function stepManifold(state: ManifoldState, config: ManifoldConfig, deman
       events?.push({ kind: 'bank_replaced', atHours: hourStart, bank: NAMES[b], cylinders: k });
     }
   }
+  for (const b of [0, 1] as const) {
+    // A bank found exhausted at a boundary (e.g. empty at the start) is queued for replacement too.
+    if (state.replaceFromHours[b] < 0 && usableBankL(state, config, b) <= 0) state.replaceFromHours[b] = hourStart + config.bankReplacementHours;
+  }
   if (usableBankL(state, config, state.duty) <= 0) {
     const other = (1 - state.duty) as 0 | 1;
     if (usableBankL(state, config, other) > 0) {
@@ -125,7 +129,8 @@ export function stepManifold(state: ManifoldState, config: ManifoldConfig, deman
   for (let guard = 0; guard < 3 && need > 0; guard++) {
     const d = state.duty;
     const usable = usableBankL(state, config, d);
-    if (usable >= need) {
+    // Strictly greater: a bank drawn exactly flat at the end of the hour changes over at that instant.
+    if (usable > need) {
       state.bankL[d] -= need;
       return 0;
     }
