@@ -96,7 +96,7 @@ describe('design flow, 50:50 N2O/O2 (HTM 02-01 §§4.31–4.32)', () => {
 
 describe('design flow, oxygen default rules (from memory, unverified)', () => {
   it('WE-7: a 28-bed ward needs 10 + 27 × 6/4 = 50.5 L/min, flagged as from memory', () => {
-    // WE-7 (domain digest), from-memory HTM oxygen ward rule Qw = 10 + (n − 1)·6/4
+    // worked example WE-7 (computed), from-memory HTM 02-01 oxygen ward rule Qw = 10 + (n − 1)·6/4
     const r = computeDesignFlow('O2', [{ name: 'Ward 7', department: 'ward', terminalUnits: 28 }], def());
     expect(r.zones[0].designFlowLMin).toBeCloseTo(50.5, 9);
     expect(r.zones[0].verified).toBe(false);
@@ -115,7 +115,7 @@ describe('design flow, oxygen default rules (from memory, unverified)', () => {
   });
 
   it('ITU 10 beds: 10 + 9·6·3/4 = 50.5; theatres 4: 100 + 3·10 = 130; A&E 2 trolleys: 200; recovery 5 beds: 16', () => {
-    // domain digest §3 oxygen table (from memory)
+    // HTM 02-01 oxygen table as recalled (from memory)
     const r = computeDesignFlow(
       'O2',
       [
@@ -162,7 +162,7 @@ describe('design flow, oxygen default rules (from memory, unverified)', () => {
 
 describe('design flow, GB 50751-2012', () => {
   it('WE-6: 200 ward beds + 10 ICU beds + 6 theatres = 390.6 L/min', () => {
-    // WE-6 (domain digest), GB 50751-2012 as quoted: 189.1 + 64 + 137.5 = 390.6
+    // worked example WE-6 (computed), GB 50751-2012 as quoted: 189.1 + 64 + 137.5 = 390.6
     const r = computeDesignFlow(
       'O2',
       [

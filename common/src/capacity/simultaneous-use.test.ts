@@ -92,13 +92,13 @@ describe('binomial method against a direct count of all 2^n states', () => {
 
 describe('AS 2896-style factor F = 1.3/log10(10n), capped at 1', () => {
   it('0.65 at n = 10 and 0.43 at n = 100', () => {
-    // IHEA seminar paper on AS 2896 (domain digest §3): 0.65 at 10, 0.43 at 100
+    // IHEA seminar paper on AS 2896: 0.65 at 10, 0.43 at 100
     expect(computeAs2896Factor(10)).toBeCloseTo(0.65, 12);
     expect(computeAs2896Factor(100)).toBeCloseTo(0.43, 2);
   });
 
   it('0.325 at n = 1000', () => {
-    // domain digest §3 (computed): 1.3 / 4 = 0.325
+    // computed: 1.3 / log10(10000) = 1.3 / 4 = 0.325
     expect(computeAs2896Factor(1000)).toBeCloseTo(0.325, 12);
   });
 
