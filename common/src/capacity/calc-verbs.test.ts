@@ -93,6 +93,24 @@ describe('design-flow verb', () => {
 });
 
 describe('other verbs', () => {
+  it('diversity-rules lists the shipped sets, and one copied from it runs through design-flow unchanged', () => {
+    const all = verb('diversity-rules', {});
+    expect(all.rule_sets.map((x: any) => x.id)).toEqual(['default', 'gb50751']);
+    const gbSet = { ...verb('diversity-rules', { rule_set: 'gb50751' }).rule_sets[0], id: 'gb-copy' };
+    // WE-6 again through the copied data: 390.6
+    const out = verb('design-flow', {
+      gas: 'O2',
+      rules: gbSet,
+      zones: [
+        { name: 'Wards', department: 'ward', terminal_units: 200 },
+        { name: 'ICU', department: 'critical_care', terminal_units: 10 },
+        { name: 'Theatres', department: 'theatre', terminal_units: 6 },
+      ],
+    });
+    expect(out.total_L_min).toBe(390.6);
+    expect(refusal('diversity-rules', { rule_set: 'nope' }).details[0].path).toBe('rule_set');
+  });
+
   it('pressure-drop: tube by name, defaults stated, VAC refused', () => {
     const out = verb('pressure-drop', { gas: 'O2', flow_L_min: 500, tube: '22x0.9', length_m: 50 });
     expect(out.inner_diameter_mm).toBe(20.2);

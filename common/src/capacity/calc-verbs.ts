@@ -1,6 +1,6 @@
 /**
  * Calc verbs of the capacity module (`npm run --silent calc -- VERB`, JSON in, JSON out):
- * design-flow, pressure-drop, headroom, manifold-sizing, reserve-check, simultaneous-use.
+ * design-flow, diversity-rules, pressure-drop, headroom, manifold-sizing, reserve-check, simultaneous-use.
  * Input is validated with zod; bad input throws InvalidInputError (exit 2 on the command line).
  */
 import { z } from 'zod';
@@ -8,7 +8,7 @@ import { InvalidInputError, parseOrThrow } from '../api/errors';
 import type { CalcVerb } from '../calc/verbs';
 import type { GasCode } from '../gas/gases';
 import { computeDesignFlow, getRuleSet } from './design-flow';
-import { capacityGasCodeSchema, departmentSchema, diversityRuleSetSchema, type CapacityGasCode } from './diversity-rules';
+import { DEFAULT_RULE_SETS, capacityGasCodeSchema, departmentSchema, diversityRuleSetSchema, type CapacityGasCode } from './diversity-rules';
 import { EN13348_TUBES, findCopperTube } from './pipe-hydraulics';
 import { computePipeRunPressureDrop, type PipeRunSpec } from './pipe-run';
 import { computeAs2896Factor, computeSimultaneousOutlets } from './simultaneous-use';
@@ -84,6 +84,15 @@ function designFlowVerb(input: unknown): unknown {
     warnings: result.warnings,
     caution: CAPACITY_CAUTION,
   };
+}
+
+const ruleSetsInputSchema = z.object({ rule_set: z.string().min(1).optional() });
+
+/** The shipped rule sets (or one of them), as the starting point for an organisation's own copy. */
+function diversityRulesVerb(input: unknown): unknown {
+  const v = parseOrThrow(ruleSetsInputSchema, input ?? {}, 'diversity-rules input');
+  const sets = v.rule_set ? [getRuleSet(v.rule_set)] : Object.values(DEFAULT_RULE_SETS);
+  return { rule_sets: sets, caution: CAPACITY_CAUTION };
 }
 
 // ---------------------------------------------------------------------------------------------
@@ -377,6 +386,7 @@ function simultaneousUseVerb(input: unknown): unknown {
 /** Calc verbs of the capacity module. Names and the design-flow shape are a public contract. */
 export const capacityCalcVerbs: Record<string, CalcVerb> = {
   'design-flow': designFlowVerb,
+  'diversity-rules': diversityRulesVerb,
   'pressure-drop': pressureDropVerb,
   headroom: headroomVerb,
   'manifold-sizing': manifoldSizingVerb,
