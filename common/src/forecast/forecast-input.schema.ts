@@ -13,9 +13,10 @@ const LOCAL_TIME_RE = /^\d{4}-\d{2}-\d{2}T\d{2}:\d{2}(:\d{2})?$/;
 const localTime = z.string().regex(LOCAL_TIME_RE, { error: 'expected a local wall-clock time yyyy-MM-ddTHH:mm' });
 const gas = z.enum(GAS_CODES as [GasCode, ...GasCode[]], { error: `unknown gas; expected one of ${GAS_CODES.join(', ')}` });
 const referenceCodes = Object.keys(REFERENCE_CONDITIONS) as [ReferenceCode, ...ReferenceCode[]];
-const nonNegative = (what: string) => z.number({ error: `${what} must be a number` }).min(0, { error: `${what} must be ≥ 0` });
-const positive = (what: string) => z.number({ error: `${what} must be a number` }).gt(0, { error: `${what} must be > 0` });
-const wholeCount = (what: string) => z.number({ error: `${what} must be a number` }).int({ error: `${what} must be a whole number` }).min(0, { error: `${what} must be ≥ 0` });
+const numberOf = (what: string) => z.number({ error: (iss) => (iss.input === undefined ? `${what} is required` : `${what} must be a number`) });
+const nonNegative = (what: string) => numberOf(what).min(0, { error: `${what} must be ≥ 0` });
+const positive = (what: string) => numberOf(what).gt(0, { error: `${what} must be > 0` });
+const wholeCount = (what: string) => numberOf(what).int({ error: `${what} must be a whole number` }).min(0, { error: `${what} must be ≥ 0` });
 
 export const demandLineSchema = z.object({
   flow_L_min: nonNegative('flow_L_min (L/min of free gas)'),

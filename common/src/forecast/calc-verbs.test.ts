@@ -1,0 +1,272 @@
+import { spawnSync } from 'node:child_process';
+import { fileURLToPath } from 'node:url';
+import { describe, expect, it } from 'vitest';
+import { InvalidInputError } from '../api/errors';
+import { freeGasLitresPerKg } from '../gas/reference-conditions';
+import { forecastVerb } from './calc-verbs';
+
+type Out = {
+  hours_to_empty: number | null;
+  empty_at: string | null;
+  reorder_at: string | null;
+  days_of_stock_at_start: number | null;
+  orders: { placed_at: string; arrives_at: string; quantity: number | null; quantity_unit: string }[];
+  series: { at: string; contents: number; offset: string }[];
+  unit: string;
+  quantity_unit: string;
+  contents_at_start: number;
+  bands?: { hours_to_empty: { p10: number | null; p50: number | null; p90: number | null } };
+  manifold_events?: { kind: string; at: string; bank: string }[];
+};
+
+const EXAMPLE = {
+  start: '2027-01-04T00:00',
+  timezone: 'Europe/London',
+  horizon_days: 60,
+  reference: '15C',
+  source: {
+    type: 'bulk_liquid',
+    gas: 'O2',
+    capacity_kg: 10000,
+    contents_kg: 6000,
+    evaporation_percent_per_day: 0.5,
+    reorder_level_kg: 2500,
+    order_up_to_kg: 9500,
+    lead_time_hours: 48,
+  },
+  demand: [{ flow_L_min: 100 }, { flow_L_min: 200, hours: [8, 9, 10, 11, 12, 13, 14, 15, 16, 17], weekdays: [1, 2, 3, 4, 5] }],
+  deliveries: [{ at: '2027-01-10T06:00', kg: 4000 }],
+  draws: 0,
+  demand_cv: 0.2,
+  seed: 1,
+};
+
+const run = (input: unknown) => forecastVerb(input) as Out;
+const clone = <T>(v: T): T => structuredClone(v);
+
+// O2 density at 15 °C, 1.01325 bar: 1.35436 kg/m³ (shared reference README, Schmidt & Wagner 1985).
+const RHO_O2_15C = 1.35436;
+
+describe('calc forecast: the worked example', () => {
+  it('returns the contract shape with one series entry per elapsed hour', () => {
+    const out = run(EXAMPLE);
+    expect(out.unit).toBe('kg');
+    expect(out.quantity_unit).toBe('kg');
+    // 60 days from 2027-01-04 (GMT throughout) = 1,440 hours; first entry is the end of the first hour.
+    expect(out.series).toHaveLength(1440);
+    expect(out.series[0].at).toBe('2027-01-04T01:00');
+    expect(out.series.at(-1)!.at).toBe('2027-03-05T00:00');
+    expect(out.bands).toBeUndefined();
+    expect(out.series.every((s) => s.contents >= 0 && s.contents <= 10_000)).toBe(true);
+    // Days of stock: weekday demand in the first 7 days (Mon–Sun) = 100 L/min always + 200 L/min × 10 h × 5 d:
+    // (144,000 + 120,000 × 5/7) L/day ÷ 738.36 L/kg = 311.1 kg/day (boil-off 50 kg/day is below demand
+    // in every hour); 6,000 kg ÷ 311.1 = 19.28 days.
+    const lPerKg = freeGasLitresPerKg('O2', '15C');
+    expect(out.days_of_stock_at_start!).toBeCloseTo(6000 / ((144_000 + (120_000 * 5) / 7) / lPerKg), 3);
+    expect(out.days_of_stock_at_start!).toBeCloseTo(19.28, 1);
+    // Reorder: a first order placed when contents cross 2,500 kg, arriving 48 h later.
+    expect(out.reorder_at).toBe(out.orders[0].placed_at);
+    const placedIdx = out.series.findIndex((s) => s.at === out.orders[0].placed_at);
+    expect(out.series[placedIdx].contents).toBeLessThanOrEqual(2500);
+    expect(out.series[placedIdx - 1].contents).toBeGreaterThan(2500);
+    const arriveIdx = out.series.findIndex((s) => s.at === out.orders[0].arrives_at);
+    expect(arriveIdx - placedIdx).toBe(48);
+    // The order fills to 9,500 kg: the next hour ends 9,500 minus one hour of use (at most
+    // (100 + 200) L/min × 60 ÷ 738.36 L/kg = 24.4 kg).
+    expect(out.series[arriveIdx + 1].contents).toBeGreaterThan(9_500 - 24.5);
+    expect(out.series[arriveIdx + 1].contents).toBeLessThan(9_500);
+    expect(out.orders[0].quantity! + out.series[arriveIdx].contents).toBeCloseTo(9500, 2);
+    expect(out.hours_to_empty).toBeNull();
+    expect(out.empty_at).toBeNull();
+  });
+
+  it('adds a scheduled delivery at its local time', () => {
+    const without = run({ ...clone(EXAMPLE), deliveries: [] });
+    const withIt = run(EXAMPLE);
+    // Delivery at 2027-01-10T06:00 = hour 150: the entry ending 07:00 shows +4,000 kg.
+    const i = withIt.series.findIndex((s) => s.at === '2027-01-10T07:00');
+    expect(i).toBe(150);
+    expect(withIt.series[i].contents - without.series[i].contents).toBeCloseTo(4000, 2);
+    expect(withIt.series[i - 1].contents - without.series[i - 1].contents).toBeCloseTo(0, 6);
+  });
+});
+
+describe('calc forecast: analytic cases', () => {
+  it('constant 100 L/min O2 at 15C empties 1,000 kg in 1000 × 738.36 / 6000 = 123.06 h', () => {
+    const out = run({
+      start: '2027-01-04T00:00',
+      timezone: 'Europe/London',
+      horizon_days: 10,
+      source: { type: 'bulk_liquid', gas: 'O2', capacity_kg: 2000, contents_kg: 1000 },
+      demand: [{ flow_L_min: 100 }],
+    });
+    // 1000 L/m³ ÷ 1.35436 kg/m³ = 738.356 L/kg; 6,000 L/h ÷ 738.356 = 8.1262 kg/h.
+    expect(out.hours_to_empty!).toBeCloseTo((1000 * 1000) / RHO_O2_15C / 6000, 1);
+    // 123.06 h after Monday 00:00 = Saturday 2027-01-09 03:0x (the minute is the floor of the exact instant).
+    const minutes = Math.floor((out.hours_to_empty! - 123) * 60);
+    expect(out.empty_at).toBe(`2027-01-09T03:${String(minutes).padStart(2, '0')}`);
+    expect(out.series[0].contents).toBeCloseTo(1000 - (6000 * RHO_O2_15C) / 1000, 2);
+  });
+
+  it('a tank whose boil-off exceeds demand empties at the boil-off rate', () => {
+    // 20,000 kg tank at 2 %/day = 400 kg/day = 16.667 kg/h; demand 10 L/min = 0.81 kg/h < boil-off:
+    // 1,000 kg last 1000 / 16.667 = 60 h.
+    const out = run({
+      start: '2027-01-04T00:00',
+      timezone: 'Europe/London',
+      horizon_days: 5,
+      source: { type: 'bulk_liquid', gas: 'O2', capacity_kg: 20_000, contents_kg: 1000, evaporation_percent_per_day: 2 },
+      demand: [{ flow_L_min: 10 }],
+    });
+    expect(out.hours_to_empty).toBeCloseTo(60, 6);
+    expect(out.empty_at).toBe('2027-01-06T12:00');
+  });
+
+  it('weekday-only demand across the spring change: 167 entries, repeated-hour-free labels', () => {
+    const out = run({
+      start: '2027-03-22T00:00',
+      timezone: 'Europe/London',
+      horizon_days: 7,
+      source: { type: 'bulk_liquid', gas: 'O2', capacity_kg: 20_000, contents_kg: 10_000 },
+      demand: [{ flow_L_min: 200, hours: [8, 9, 10, 11, 12, 13, 14, 15, 16, 17], weekdays: [1, 2, 3, 4, 5] }],
+    });
+    expect(out.series).toHaveLength(167);
+    // 01:00 → 02:00 local is skipped on Sunday 28 March: the hour ending 00:00 GMT is followed by the
+    // hour ending 01:00 UTC, which is 02:00 BST; no entry reads 01:00.
+    const i = out.series.findIndex((s) => s.at === '2027-03-28T00:00');
+    expect(out.series[i + 1]).toMatchObject({ at: '2027-03-28T02:00', offset: '+01:00' });
+    expect(out.series.some((s) => s.at === '2027-03-28T01:00')).toBe(false);
+    // Used: 200 L/min × 600 min × 5 days = 600,000 L ÷ 738.36 L/kg = 812.6 kg.
+    expect(10_000 - out.series.at(-1)!.contents).toBeCloseTo((600_000 * RHO_O2_15C) / 1000, 0);
+  });
+
+  it('the autumn day has 25 entries and repeats the local hour 01:00', () => {
+    const out = run({
+      start: '2027-10-31T00:00',
+      timezone: 'Europe/London',
+      horizon_days: 1,
+      source: { type: 'bulk_liquid', gas: 'O2', capacity_kg: 1000, contents_kg: 1000 },
+      demand: [{ flow_L_min: 100 }],
+    });
+    expect(out.series).toHaveLength(25);
+    expect(out.series.slice(0, 2).map((s) => [s.at, s.offset])).toEqual([
+      ['2027-10-31T01:00', '+01:00'],
+      ['2027-10-31T01:00', '+00:00'],
+    ]);
+  });
+
+  it('a cylinder store counts free gas per full cylinder from the gas engine and orders whole cylinders', () => {
+    // HTM 02-01 Part A Table 22: a 47 L cylinder at 137 bar holds about 6,800 L of O2 (nominal figure).
+    const out = run({
+      start: '2027-01-04T00:00',
+      timezone: 'Europe/London',
+      horizon_days: 10,
+      source: {
+        type: 'cylinders', gas: 'O2', water_capacity_L: 47, fill_gauge_bar: 137, fill_temperature_C: 15,
+        full: 10, in_use_gauge_bar: [], reorder_level_cylinders: 4, order_up_to_cylinders: 12, lead_time_hours: 24,
+      },
+      demand: [{ flow_L_min: 10 }],
+    });
+    expect(out.unit).toBe('L');
+    expect(out.quantity_unit).toBe('cylinders');
+    const perCyl = out.contents_at_start / 10;
+    expect(Math.abs(perCyl / 6800 - 1)).toBeLessThan(0.05);
+    // 10 → 4 cylinders' worth at 600 L/h takes 6 × perCyl / 600 ≈ 70 h (first whole hour at or below);
+    // 24 h later the order brings the store to 12 minus the equivalents left: floor(12 − 1.9) = 10.
+    const o = out.orders[0];
+    const crossH = Math.ceil((6 * perCyl) / 600);
+    const leftAtArrival = (10 * perCyl - (crossH + 24) * 600) / perCyl;
+    expect(leftAtArrival).toBeGreaterThan(0);
+    expect(o.quantity).toBe(Math.floor(12 - leftAtArrival));
+    expect(o.quantity).toBe(10);
+  });
+
+  it('a manifold reports its changeovers', () => {
+    const out = run({
+      start: '2027-01-04T00:00',
+      timezone: 'Europe/London',
+      horizon_days: 2,
+      source: {
+        type: 'manifold', gas: 'O2', water_capacity_L: 47, fill_gauge_bar: 137, fill_temperature_C: 15,
+        cylinders_per_bank: 10, duty_bank_gauge_bar: 137, standby_bank_gauge_bar: 137,
+      },
+      demand: [{ flow_L_min: 201 }],
+    });
+    // WE-3 manifold: each bank of 10 full cylinders at 201 L/min lasts 10 × perCyl / 12,060 h (~5.6–5.8 h).
+    const changeover = out.manifold_events!.find((e) => e.kind === 'changeover')!;
+    expect(changeover.bank).toBe('B');
+    const perCyl = out.contents_at_start / 20;
+    expect(out.hours_to_empty!).toBeCloseTo((20 * perCyl) / 12_060, 3);
+  });
+
+  it('Monte Carlo: same seed → same bands, ordered, and cv 0 → the deterministic value', () => {
+    const base = {
+      start: '2027-01-04T00:00',
+      timezone: 'Europe/London',
+      horizon_days: 30,
+      source: { type: 'bulk_liquid', gas: 'O2', capacity_kg: 5000, contents_kg: 3000 },
+      demand: [{ flow_L_min: 100 }, { flow_L_min: 200, hours: [8, 9, 10, 11, 12, 13, 14, 15, 16, 17] }],
+    };
+    const a = run({ ...base, draws: 200, demand_cv: 0.25, seed: 5 });
+    const b = run({ ...base, draws: 200, demand_cv: 0.25, seed: 5 });
+    expect(a.bands).toEqual(b.bands);
+    const { p10, p50, p90 } = a.bands!.hours_to_empty;
+    expect(p10!).toBeLessThanOrEqual(p50!);
+    expect(p50!).toBeLessThanOrEqual(p90!);
+    const flat = run({ ...base, draws: 50, demand_cv: 0 });
+    expect(flat.bands!.hours_to_empty).toEqual({ p10: flat.hours_to_empty, p50: flat.hours_to_empty, p90: flat.hours_to_empty });
+  });
+});
+
+describe('calc forecast: bad input', () => {
+  const pathOf = (mutate: (v: Record<string, any>) => void): string => {
+    const input = clone(EXAMPLE) as Record<string, any>;
+    mutate(input);
+    try {
+      forecastVerb(input);
+    } catch (e) {
+      expect(e).toBeInstanceOf(InvalidInputError);
+      return (e as InvalidInputError).details.map((d) => d.path).join(',');
+    }
+    throw new Error('expected InvalidInputError');
+  };
+
+  it.each([
+    ['unknown gas', (v: any) => (v.source.gas = 'XE'), 'source.gas'],
+    ['negative flow', (v: any) => (v.demand[0].flow_L_min = -5), 'demand.0.flow_L_min'],
+    ['contents above capacity', (v: any) => (v.source.contents_kg = 12_000), 'source.contents_kg'],
+    ['hour outside 0–23', (v: any) => (v.demand[1].hours = [8, 24]), 'demand.1.hours.1'],
+    ['weekday outside 1–7', (v: any) => (v.demand[1].weekdays = [0, 1]), 'demand.1.weekdays.0'],
+    ['unknown time zone', (v: any) => (v.timezone = 'Europe/Atlantis'), 'timezone'],
+    ['start skipped by the clock change', (v: any) => (v.start = '2027-03-28T01:30'), 'start'],
+    ['start not a date', (v: any) => (v.start = '2027-02-30T00:00'), 'start'],
+    ['horizon 0', (v: any) => (v.horizon_days = 0), 'horizon_days'],
+    ['horizon above 3 years', (v: any) => (v.horizon_days = 1200), 'horizon_days'],
+    ['draws above 10,000', (v: any) => (v.draws = 10_001), 'draws'],
+  ])('%s → invalid_input at its field', (_name, mutate, path) => {
+    expect(pathOf(mutate)).toContain(path);
+  });
+});
+
+describe('calc forecast: command line', () => {
+  const repo = fileURLToPath(new URL('../../../', import.meta.url));
+  const calc = (input: string) => spawnSync('node', ['--import', 'tsx', 'scripts/calc.ts', 'forecast'], { cwd: repo, input, encoding: 'utf8', timeout: 60_000 });
+
+  it('exits 0 with the contract shape, and 2 with invalid_input for bad input', () => {
+    const ok = calc(JSON.stringify(EXAMPLE));
+    expect(ok.status).toBe(0);
+    const out = JSON.parse(ok.stdout) as Out;
+    expect(Object.keys(out)).toEqual(expect.arrayContaining(['hours_to_empty', 'empty_at', 'reorder_at', 'days_of_stock_at_start', 'orders', 'series', 'unit']));
+    expect(out.series).toHaveLength(1440);
+    expect(out.orders[0]).toEqual({ placed_at: expect.any(String), arrives_at: expect.any(String), quantity: expect.any(Number), quantity_unit: 'kg' });
+
+    const badInput = clone(EXAMPLE) as Record<string, any>;
+    badInput.demand[0].flow_L_min = -1;
+    const bad = calc(JSON.stringify(badInput));
+    expect(bad.status).toBe(2);
+    const err = JSON.parse(bad.stdout) as { error: { code: string; details: { path: string }[] } };
+    expect(err.error.code).toBe('invalid_input');
+    expect(err.error.details.map((d) => d.path)).toContain('demand.0.flow_L_min');
+  }, 60_000);
+
+});
