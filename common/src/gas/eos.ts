@@ -1,11 +1,19 @@
 import { InvalidInputError } from '../api/errors';
-import { GAS_INFO, MAX_PRESSURE_BAR_ABS, PURE_FLUIDS, R_J_MOL_K, isGasCode, isLiquefiedGas, type GasCode } from './gases';
-import { pengRobinsonZ } from './peng-robinson';
+import { GAS_INFO, MAX_PRESSURE_BAR_ABS, PURE_FLUIDS, isGasCode, isLiquefiedGas, type GasCode } from './gases';
 import { criticalTemperatureK, vapourPressureBarAbs } from './saturation';
+import { equationFor } from './equations';
+import { solution, solveGasDensity, zFromDensity } from './helmholtz-model';
 
 /**
- * Real-gas engine entry points: compressibility factor and density of every Plenum gas from (T, p).
- * PLACEHOLDER: Peng–Robinson (1976) until the fitted Helmholtz-energy equations land.
+ * Real-gas engine entry points: compressibility factor and density of every Plenum gas from (T, p),
+ * computed at run time from short Helmholtz-energy equations (see equations.ts for which equation
+ * serves which gas, coefficients.ts for how the fitted ones were made).
+ *
+ * Supported: 200–400 K (CO2 from 220 K, the 50:50 N2O/O2 mixture from 233.15 K), 0 < p ≤ 350 bar
+ * abs, gas and supercritical states. CO2 and N2O above their vapour pressure below the critical
+ * temperature are liquid and rejected. Accuracy against the reference equations over 233–333 K,
+ * 1–300 bar: see the unit tests (≤ 0.1 % in Z for O2, N2, air, Ar, He; ≤ 0.5 % for CO2 and N2O
+ * outside the critical region). Mixtures: GERG-2008 mixing, no reference values to check against.
  */
 
 export type Phase = 'gas' | 'supercritical' | 'liquid';
@@ -82,36 +90,61 @@ function round(x: number, digits: number): number {
  */
 export function compressibility(gas: GasCode, temperatureK: number, pressureBarAbs: number): CompressibilityResult {
   validateState(gas, temperatureK, pressureBarAbs);
+  const Z = solveZ(gas, temperatureK, pressureBarAbs);
+  const eq = equationFor(gas);
   const M = GAS_INFO[gas].molarMassKgMol;
-  const Z = pengRobinsonZ(gas, temperatureK, pressureBarAbs);
-  const idealDensityKgM3 = (pressureBarAbs * 1e5 * M) / (R_J_MOL_K * temperatureK);
+  // the equation's own gas constant keeps Z = p/(ρRT) exactly as the reference equation defines it
+  const idealDensityKgM3 = (pressureBarAbs * 1e5 * M) / (eq.gasConstant * temperatureK);
   const pc = pseudoCritical(gas);
   return {
     Z,
     densityKgM3: idealDensityKgM3 / Z,
     idealDensityKgM3,
     phase: temperatureK > pc.temperatureK && pressureBarAbs > pc.pressureBarAbs ? 'supercritical' : 'gas',
-    method: 'Peng–Robinson 1976 (placeholder)',
+    method: eq.method,
   };
+}
+
+/** Z at (T, p) without input checks (callers validate); throws if no gas-side root exists. */
+function solveZ(gas: GasCode, temperatureK: number, pressureBarAbs: number): number {
+  solveGasDensity(equationFor(gas), temperatureK, pressureBarAbs * 1e5);
+  if (!solution.converged) {
+    throw new InvalidInputError(
+      `No gas-phase state of ${GAS_INFO[gas].name} at ${round(temperatureK, 2)} K and ${round(pressureBarAbs, 3)} bar abs (too close to condensation or the critical point)`,
+      [{ path: 'pressureBarAbs', message: 'no gas-phase solution at this state' }],
+    );
+  }
+  return solution.Z;
+}
+
+/** Z only, validated (the fast path for callers that need no density). Arguments as compressibility(). */
+export function compressibilityFactor(gas: GasCode, temperatureK: number, pressureBarAbs: number): number {
+  validateState(gas, temperatureK, pressureBarAbs);
+  return solveZ(gas, temperatureK, pressureBarAbs);
 }
 
 /** Molar density, mol/m³, at (T, p). Arguments as for compressibility(). */
 export function molarDensityMolM3(gas: GasCode, temperatureK: number, pressureBarAbs: number): number {
-  const { densityKgM3 } = compressibility(gas, temperatureK, pressureBarAbs);
-  return densityKgM3 / GAS_INFO[gas].molarMassKgMol;
+  const Z = compressibilityFactor(gas, temperatureK, pressureBarAbs);
+  return (pressureBarAbs * 1e5) / (Z * equationFor(gas).gasConstant * temperatureK);
 }
 
 /**
- * Absolute pressure, bar, of a gas at temperature T and molar density ρ (the inverse of
- * molarDensityMolM3). Placeholder: secant iteration on the PR density.
+ * Absolute pressure, bar, of a gas at temperature T and molar density ρ: p = ρ·R·T·Z(T, ρ), straight
+ * from the equation (no iteration), the inverse of molarDensityMolM3.
+ * @param temperatureK K (range per gas); @param molarDensity mol/m³ (≥ 0)
  */
-export function pressureFromMolarDensity(gas: GasCode, temperatureK: number, molarDensityMolM3_: number): number {
-  let p = (molarDensityMolM3_ * R_J_MOL_K * temperatureK) / 1e5;
-  for (let i = 0; i < 50; i++) {
-    const z = pengRobinsonZ(gas, temperatureK, p);
-    const next = (molarDensityMolM3_ * z * R_J_MOL_K * temperatureK) / 1e5;
-    if (Math.abs(next - p) < 1e-10 * p) return next;
-    p = next;
+export function pressureFromMolarDensity(gas: GasCode, temperatureK: number, molarDensity: number): number {
+  if (!isGasCode(gas)) throw new InvalidInputError(`Unknown gas "${String(gas)}"`, [{ path: 'gas', message: 'unknown gas code' }]);
+  const info = GAS_INFO[gas];
+  if (!Number.isFinite(temperatureK) || temperatureK < info.minTemperatureK || temperatureK > info.maxTemperatureK) {
+    throw new InvalidInputError(`Temperature ${temperatureK} K is outside the supported range for ${info.name}`, [
+      { path: 'temperatureK', message: `must be between ${info.minTemperatureK} and ${info.maxTemperatureK} K` },
+    ]);
   }
-  return p;
+  if (!Number.isFinite(molarDensity) || molarDensity < 0) {
+    throw new InvalidInputError(`Density must be a non-negative finite number, got ${molarDensity}`, [{ path: 'molarDensity', message: 'must be ≥ 0' }]);
+  }
+  const eq = equationFor(gas);
+  return (molarDensity * eq.gasConstant * temperatureK * zFromDensity(eq, temperatureK, molarDensity)) / 1e5;
 }
