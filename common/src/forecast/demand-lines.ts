@@ -62,17 +62,21 @@ function requireValidLines(lines: readonly DemandLine[], pathPrefix: string): vo
 export function addLineToWeekProfile(profileLPerHour: Float64Array, line: DemandLine, scale = 1): void {
   const lPerHour = line.flow_L_min * 60 * scale;
   if (lPerHour === 0) return;
-  const days = line.weekdays && line.weekdays.length > 0 ? line.weekdays : [1, 2, 3, 4, 5, 6, 7];
-  const hours = line.hours && line.hours.length > 0 ? line.hours : null;
-  // A line may list a day or hour twice by mistake: count each slot once.
-  const seenDays = new Set<number>(days);
-  for (const d of seenDays) {
-    const base = (d - 1) * 24;
-    if (hours === null) {
-      for (let h = 0; h < 24; h++) profileLPerHour[base + h] += lPerHour;
-    } else {
-      for (const h of new Set<number>(hours)) profileLPerHour[base + h] += lPerHour;
-    }
+  // Masks, so that a day or hour listed twice by mistake counts once.
+  let dayMask = 0x7f;
+  if (line.weekdays && line.weekdays.length > 0) {
+    dayMask = 0;
+    for (const d of line.weekdays) dayMask |= 1 << (d - 1);
+  }
+  let hourMask = 0xffffff;
+  if (line.hours && line.hours.length > 0) {
+    hourMask = 0;
+    for (const h of line.hours) hourMask |= 1 << h;
+  }
+  for (let d = 0; d < 7; d++) {
+    if ((dayMask & (1 << d)) === 0) continue;
+    const base = d * 24;
+    for (let h = 0; h < 24; h++) if ((hourMask & (1 << h)) !== 0) profileLPerHour[base + h] += lPerHour;
   }
 }
 

@@ -35,9 +35,17 @@ const LOCAL_RE = /^(\d{4})-(\d{2})-(\d{2})T(\d{2}):(\d{2})(?::(\d{2}))?$/;
 /** Longest horizon the engine accepts: three years including a leap day. */
 export const MAX_HORIZON_DAYS = 1096;
 
-/** True if `zone` is an IANA time-zone name the runtime knows. */
+const knownZones = new Map<string, boolean>();
+
+/** True if `zone` is an IANA time-zone name the runtime knows (memoised: the Intl probe is slow). */
 export function isValidTimeZone(zone: string): boolean {
-  return typeof zone === 'string' && zone.length > 0 && IANAZone.isValidZone(zone);
+  if (typeof zone !== 'string' || zone.length === 0) return false;
+  let ok = knownZones.get(zone);
+  if (ok === undefined) {
+    ok = IANAZone.isValidZone(zone);
+    if (knownZones.size < 1000) knownZones.set(zone, ok);
+  }
+  return ok;
 }
 
 function zoneOf(timeZone: string, path: string): IANAZone {
