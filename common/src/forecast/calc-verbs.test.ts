@@ -181,6 +181,26 @@ describe('calc forecast: analytic cases', () => {
     expect(o.quantity).toBe(10);
   });
 
+  it('takes a reorder level in days of stock and a surge scenario from a date', () => {
+    const lPerKg = freeGasLitresPerKg('O2', '15C');
+    const kgPerHour = 6000 / lPerKg; // 100 L/min × 60 ÷ L/kg ≈ 8.126 kg/h
+    const base = {
+      start: '2027-01-04T00:00',
+      timezone: 'Europe/London',
+      horizon_days: 10,
+      source: { type: 'bulk_liquid', gas: 'O2', capacity_kg: 2000, contents_kg: 1000, reorder_level_days: 2, lead_time_hours: 1000 },
+      demand: [{ flow_L_min: 100 }],
+    };
+    // Level = 2 days × 24 × 8.126 kg/h = 390.1 kg; crossed in the hour ending ceil((1000 − 390.1) / 8.126) = 76 h
+    // after the start: Thursday 2027-01-07 04:00.
+    const hoursToLevel = Math.ceil((1000 - 48 * kgPerHour) / kgPerHour);
+    expect(hoursToLevel).toBe(76);
+    expect(run(base).reorder_at).toBe('2027-01-07T04:00');
+    // Doubling demand from 2027-01-05 00:00: 24 h at 8.126 kg/h, then (1000 − 195.0) kg at 16.25 kg/h.
+    const surge = run({ ...base, scenarios: [{ name: 'surge', from: '2027-01-05T00:00', multiplier: 2 }] });
+    expect(surge.hours_to_empty!).toBeCloseTo(24 + (1000 - 24 * kgPerHour) / (2 * kgPerHour), 3);
+  });
+
   it('a manifold reports its changeovers', () => {
     const out = run({
       start: '2027-01-04T00:00',

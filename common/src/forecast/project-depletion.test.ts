@@ -3,6 +3,7 @@ import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
 import { freeGasLitresPerKg } from '../gas/reference-conditions';
 import { daysOfStock, projectDepletion, type DepletionModel } from './project-depletion';
+import { computeReorderPoint } from './reorder-point';
 
 // O2 density at 15 °C and 1.01325 bar from the shared reference README (Schmidt & Wagner 1985 EOS).
 const referenceReadme = readFileSync(new URL('../../../../shared/reference/README.md', import.meta.url), 'utf8');
@@ -139,7 +140,8 @@ describe('projectDepletion: reorder rule', () => {
     const loxPerHour = 120_600 / 24 / lGasPerLLox;
     const evapPerHour = (0.005 * 10_000) / 24;
     expect(loxPerHour).toBeGreaterThan(evapPerHour);
-    const reorderPointL = (2 + 3) * Math.round(loxPerHour * 24);
+    const reorderPointL = computeReorderPoint(Math.round(loxPerHour * 24), 2, 3);
+    expect(Math.round(loxPerHour * 24)).toBe(143);
     expect(reorderPointL).toBe(715);
     const r = projectDepletion(
       model({
@@ -159,6 +161,21 @@ describe('projectDepletion: reorder rule', () => {
     );
     const daysBeforeEmpty = (8000 / loxPerHour - r2.firstOrderHours!) / 24;
     expect(daysBeforeEmpty).toBeCloseTo(715 / (120_600 / 842), 1);
+  });
+});
+
+describe('projectDepletion: risks', () => {
+  it('reports the moment contents fall into the reserve, interpolated within the hour', () => {
+    // 100 at 8 per hour reaches the reserve of 30 after (100 − 30) / 8 = 8.75 h.
+    const r = projectDepletion(model({ contentsStart: 100, demandPerHour: flat(48, 8), reserveLevel: 30 }));
+    expect(r.firstRisk).toMatchObject({ kind: 'reserve_touched' });
+    expect(r.firstRisk!.atHours).toBeCloseTo(8.75, 12);
+  });
+
+  it('flags a start at or below the reorder level', () => {
+    const r = projectDepletion(model({ contentsStart: 40, demandPerHour: flat(48, 1), reorder: { level: 50, orderUpTo: 100, leadTimeHours: 4, lotSize: 0 } }));
+    expect(r.firstRisk).toMatchObject({ kind: 'below_reorder_level_at_start', atHours: 0 });
+    expect(r.orders[0]).toMatchObject({ placedHours: 0, arrivesHours: 4, quantity: 64 });
   });
 });
 

@@ -21,7 +21,10 @@ export interface DepletionModel {
   /**
    * Evaporation (boil-off) per hour, model unit. The hour's loss is max(demand, evaporation): boil-off
    * feeds the pipeline, and only its excess over demand vents (common practice for vacuum-insulated
-   * vessels; loss = max(0, NER − demand) vented). 0 for cylinders.
+   * vessels; loss = max(0, NER − demand) vented). 0 for cylinders. The comparison is hour by hour, as
+   * the forecast contract requires: with demand only in the daytime, night-time boil-off counts as lost,
+   * which overstates the loss of a tank whose overnight pressure rise is taken by the next day's draw
+   * (with no draw at all a vessel vents only after about a week). A daily comparison would show none.
    */
   evaporationPerHour: number;
   /** Scheduled deliveries: boundary index and amount in the model unit (never filled above capacity). */
