@@ -53,15 +53,36 @@ function isWeighed(item: unknown): boolean {
   return typeof item === 'object' && item !== null && 'gross_kg' in item;
 }
 
-/** Runs `fn` on one item, prefixing error paths with the item's index when the input was an array. */
+/** The engine's argument names → the calc contract's field names, for error paths. */
+const FIELD_NAMES: Record<string, string> = {
+  waterCapacityL: 'water_capacity_L',
+  gaugeBar: 'gauge_bar',
+  pressureBarAbs: 'pressure_bar_abs',
+  temperatureC: 'temperature_C',
+  temperatureK: 'temperature_C',
+  newTemperatureC: 'new_temperature_C',
+  atmosphericBar: 'atmospheric_bar',
+  grossKg: 'gross_kg',
+  tareKg: 'tare_kg',
+  flowLMin: 'flow_L_min',
+  reserveGaugeBar: 'reserve_gauge_bar',
+  reserveKg: 'reserve_kg',
+};
+
+function renamePaths(e: InvalidInputError, prefix: string): InvalidInputError {
+  const details: FieldIssue[] = e.details.map((d) => {
+    const [head, ...rest] = d.path.split('.');
+    return { path: prefix + [FIELD_NAMES[head] ?? head, ...rest].join('.'), message: d.message };
+  });
+  return new InvalidInputError(prefix ? `Item ${prefix.slice(0, -1)}: ${e.message}` : e.message, details.length ? details : [{ path: prefix.slice(0, -1) || '(root)', message: e.message }]);
+}
+
+/** Runs `fn` on one item, naming error paths as the contract does and prefixing the item's index for arrays. */
 function withIndex<T>(index: number | null, fn: () => T): T {
   try {
     return fn();
   } catch (e) {
-    if (e instanceof InvalidInputError && index !== null) {
-      const details: FieldIssue[] = e.details.map((d) => ({ path: `${index}.${d.path}`, message: d.message }));
-      throw new InvalidInputError(`Item ${index}: ${e.message}`, details.length ? details : [{ path: String(index), message: e.message }]);
-    }
+    if (e instanceof InvalidInputError) throw renamePaths(e, index === null ? '' : `${index}.`);
     throw e;
   }
 }
@@ -74,7 +95,7 @@ function oneOrMany(input: unknown, fn: (item: unknown) => unknown): unknown {
   if (typeof input !== 'object' || input === null) {
     throw new InvalidInputError('Expected an object or an array of objects', [{ path: '(root)', message: 'expected an object or an array of objects' }]);
   }
-  return fn(input);
+  return withIndex(null, () => fn(input));
 }
 
 function contentsOf(item: unknown): Record<string, unknown> {
@@ -171,9 +192,11 @@ const zVerb: CalcVerb = (input) => {
   }
   return input.map((item) => {
     try {
-      const v = parseOrThrow(zItemSchema, item, 'state');
-      const r = compressibility(v.gas, v.temperature_C + 273.15, v.pressure_bar_abs);
-      return { Z: r.Z, density_kg_m3: r.densityKgM3, ideal_density_kg_m3: r.idealDensityKgM3, phase: r.phase, method: r.method };
+      return withIndex(null, () => {
+        const v = parseOrThrow(zItemSchema, item, 'state');
+        const r = compressibility(v.gas, v.temperature_C + 273.15, v.pressure_bar_abs);
+        return { Z: r.Z, density_kg_m3: r.densityKgM3, ideal_density_kg_m3: r.idealDensityKgM3, phase: r.phase, method: r.method };
+      });
     } catch (e) {
       if (e instanceof InvalidInputError) return { error: { code: e.code, message: e.message, details: e.details } };
       return { error: { code: 'internal_error', message: (e as Error).message } };

@@ -54,7 +54,7 @@ export function validateState(gas: GasCode, temperatureK: number, pressureBarAbs
   }
   if (temperatureK < info.minTemperatureK || temperatureK > info.maxTemperatureK) {
     throw new InvalidInputError(
-      `Temperature ${round(temperatureK, 3)} K is outside the supported range for ${info.name} (${info.minTemperatureK}–${info.maxTemperatureK} K)`,
+      `Temperature ${round(temperatureK, 3)} K (${round(temperatureK - 273.15, 2)} °C) is outside the supported range for ${info.name}: ${info.minTemperatureK}–${info.maxTemperatureK} K (${round(info.minTemperatureK - 273.15, 2)} to ${round(info.maxTemperatureK - 273.15, 2)} °C)`,
       [{ path: 'temperatureK', message: `must be between ${info.minTemperatureK} and ${info.maxTemperatureK} K` }],
     );
   }
@@ -70,7 +70,7 @@ export function validateState(gas: GasCode, temperatureK: number, pressureBarAbs
     const ps = vapourPressureBarAbs(gas, temperatureK);
     if (pressureBarAbs > ps) {
       throw new InvalidInputError(
-        `${info.name} at ${round(temperatureK, 2)} K and ${round(pressureBarAbs, 3)} bar abs is liquid (vapour pressure ${round(ps, 3)} bar abs); the gas-phase equation does not apply`,
+        `${info.name} at ${round(temperatureK - 273.15, 2)} °C and ${round(pressureBarAbs, 3)} bar abs is liquid (vapour pressure ${round(ps, 3)} bar abs): the gas-phase equation does not apply; weigh liquefied-gas cylinders instead`,
         [{ path: 'pressureBarAbs', message: `liquid state: above the vapour pressure ${round(ps, 3)} bar abs` }],
       );
     }

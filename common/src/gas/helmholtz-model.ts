@@ -139,10 +139,27 @@ export const solution = { delta: 0, Z: 1, converged: false };
 export function solveGasDensity(eq: CompiledEquation, temperatureK: number, pressurePa: number): void {
   setTemperature(eq, temperatureK);
   const target = pressurePa / (eq.reducingDensityMolM3 * eq.gasConstant * temperatureK);
+  // virial start: Z ≈ 1 + b·δ + c·δ² from the low-density expansion of the terms, solved by two
+  // Newton steps on the cubic (cheap: no exponentials)
   let b0 = 0;
-  for (let i = 0; i < eq.size; i++) if (eq.d[i] === 1) b0 += eq.a[i];
+  let c0 = 0;
+  const { a, d, l, size } = eq;
+  for (let i = 0; i < size; i++) {
+    if (d[i] === 1) {
+      b0 += a[i];
+      if (l[i] === 1) c0 -= 2 * a[i];
+    } else if (d[i] === 2) c0 += 2 * a[i];
+  }
   const disc = 1 + 4 * b0 * target;
   let delta = b0 !== 0 && disc > 0 ? (2 * target) / (1 + Math.sqrt(disc)) : target;
+  for (let k = 0; k < 2; k++) {
+    const g = delta * (1 + delta * (b0 + delta * c0)) - target;
+    const gp = 1 + delta * (2 * b0 + 3 * c0 * delta);
+    if (gp <= 0) break;
+    const next = delta - g / gp;
+    if (!(next > 0 && next < MAX_REDUCED_DENSITY)) break;
+    delta = next;
+  }
   let lo = 0;
   // no supported state is denser than 4 ρ_r (liquid CO2 at its triple point is 2.5 ρ_c); the bracket
   // keeps Newton out of the far, unfitted range where the short forms mean nothing
@@ -169,9 +186,11 @@ export function solveGasDensity(eq: CompiledEquation, temperatureK: number, pres
       next = delta - f / slope;
       if (!(next > lo && next < hi)) next = 0.5 * (lo + hi);
     }
-    if (Math.abs(next - delta) <= 1e-11 * delta) {
+    if (Math.abs(next - delta) <= 1e-9 * delta) {
+      // Newton converges quadratically: the error of `next` is far below 1e-15, and at the root
+      // δ·Z = p/(ρ_r R T) holds exactly, so Z needs no further evaluation
       solution.delta = next;
-      solution.Z = zAt(eq, next);
+      solution.Z = target / next;
       solution.converged = slope > 0;
       return;
     }

@@ -8,13 +8,14 @@ import { requireFinite, requireInRange, requireNonNegative, requirePositive, fai
  */
 
 /**
- * Density of saturated liquid oxygen at the normal boiling point (90.19 K, 1.01325 bar), kg/L:
- * 1141.2 kg/m³ from the reference equation of state for oxygen (Schmidt & Wagner 1985), checked in
- * fit-eos by solving the phase equilibrium of that equation; the usual handbook figure is 1.141 kg/L.
+ * Density of saturated liquid oxygen at the normal boiling point (90.188 K, 1.01325 bar), kg/L:
+ * 1141.17 kg/m³ from the reference equation of state for oxygen (Schmidt & Wagner 1985), by
+ * solving its phase equilibrium at 1.01325 bar (scripts/fit-eos.ts prints it); the usual handbook
+ * figure is 1.141 kg/L.
  * Warm liquid in a working tank is lighter (≈ 0.97 kg/L at ~120 K), so litres read from a tank
  * gauge calibrated for boiling-point liquid overstate the mass.
  */
-export const LOX_DENSITY_KG_PER_L = 1.1412;
+export const LOX_DENSITY_KG_PER_L = 1.14117;
 
 /** Litres of liquid oxygen at the normal boiling point → kg. @param litres L of liquid */
 export function loxLitresToKg(litres: number, densityKgPerL: number = LOX_DENSITY_KG_PER_L): number {

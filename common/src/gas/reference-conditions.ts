@@ -1,5 +1,5 @@
 import { GAS_INFO, R_J_MOL_K, type GasCode } from './gases';
-import { compressibility } from './eos';
+import { molarDensityMolM3 } from './eos';
 import { STANDARD_ATMOSPHERE_BAR } from './units';
 
 /**
@@ -29,16 +29,15 @@ export function isReferenceCode(value: unknown): value is ReferenceCode {
 const molarVolumeCache = new Map<string, number>();
 
 /**
- * Real molar volume of a gas at the reference state, L/mol: Z(T_ref, p_ref)·R·T_ref/p_ref, with Z from
- * the engine's equation of state (see eos.ts).
+ * Real molar volume of a gas at the reference state, L/mol: Z(T_ref, p_ref)·R·T_ref/p_ref, i.e. the
+ * inverse of the engine's density there (eos.ts), so moles in and litres out use one equation.
  */
 export function referenceMolarVolumeLMol(gas: GasCode, reference: ReferenceCode): number {
   const key = `${gas}|${reference}`;
   let v = molarVolumeCache.get(key);
   if (v === undefined) {
     const ref = REFERENCE_CONDITIONS[reference];
-    const { Z } = compressibility(gas, ref.temperatureK, ref.pressureBarAbs);
-    v = (Z * R_J_MOL_K * ref.temperatureK) / (ref.pressureBarAbs * 1e5) * 1000;
+    v = 1000 / molarDensityMolM3(gas, ref.temperatureK, ref.pressureBarAbs);
     molarVolumeCache.set(key, v);
   }
   return v;
