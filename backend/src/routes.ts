@@ -7,11 +7,14 @@ import { catalogueRoutes } from './modules/catalogue/catalogue.routes';
 import { auditRoutes } from './modules/audit/audit.routes';
 import { mailRoutes } from './modules/mail/mail.routes';
 import { calcRoutes } from './modules/calc/calc.routes';
+import { supplyRoutes } from './modules/supply/supply.routes';
+import { forecastRoutes } from './modules/forecast/forecast.routes';
+import { capacityRoutes } from './modules/capacity/capacity.routes';
 
 /**
  * The route table: every API route with the roles that may call it. The app registers exactly these,
  * and the role-matrix test reads the same list, so a new route cannot escape the matrix.
  */
 export function routeTable(): RouteDef[] {
-  return [...healthRoutes(), ...authRoutes(), ...siteRoutes(), ...userRoutes(), ...catalogueRoutes(), ...auditRoutes(), ...mailRoutes(), ...calcRoutes()];
+  return [...healthRoutes(), ...authRoutes(), ...siteRoutes(), ...userRoutes(), ...catalogueRoutes(), ...auditRoutes(), ...mailRoutes(), ...calcRoutes(), ...supplyRoutes(), ...forecastRoutes(), ...capacityRoutes()];
 }

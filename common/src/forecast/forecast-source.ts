@@ -187,8 +187,9 @@ function forecastManifold(
   const usablePerCyl = perCyl - residual;
   const base = {
     config,
-    dutyBankL: bankL(src.duty_bank_gauge_bar, 'duty_bank_gauge_bar'),
-    standbyBankL: bankL(src.standby_bank_gauge_bar, 'standby_bank_gauge_bar'),
+    // A reading a little above the nominal fill (fill tolerance, a warm bank) counts as a full bank.
+    dutyBankL: Math.min(bankL(src.duty_bank_gauge_bar, 'duty_bank_gauge_bar'), src.cylinders_per_bank * perCyl),
+    standbyBankL: Math.min(bankL(src.standby_bank_gauge_bar, 'standby_bank_gauge_bar'), src.cylinders_per_bank * perCyl),
     spareFull: src.spare_full,
     demandPerHour: demandL,
     deliveries: input.deliveries.map((d) => ({ boundary: boundaryOf(d.at), cylinders: d.cylinders ?? 0 })),

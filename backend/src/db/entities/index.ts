@@ -4,6 +4,8 @@ import { User, UserRole, UserSite } from './user.entity';
 import { CylinderType, Gas, Supplier, SupplierPrice } from './catalogue.entity';
 import { AuditLog } from './audit-log.entity';
 import { MailAttachment, MailMessage } from './mail.entity';
+import { DeviceFlow, Scenario, ScheduledDelivery, SourceReading, SupplySource, TherapyLineRow, Ward, WardFeed } from './supply.entity';
+import { CapacitySignoff, PipeRun, PipelineZone, RuleSet } from './capacity.entity';
 
 /** Every entity of the DataSource, in one list. */
-export const entities = [Organisation, Site, User, UserRole, UserSite, Gas, CylinderType, Supplier, SupplierPrice, AuditLog, MailMessage, MailAttachment];
+export const entities = [Organisation, Site, User, UserRole, UserSite, Gas, CylinderType, Supplier, SupplierPrice, AuditLog, MailMessage, MailAttachment, Ward, SupplySource, SourceReading, WardFeed, TherapyLineRow, DeviceFlow, Scenario, ScheduledDelivery, RuleSet, PipelineZone, PipeRun, CapacitySignoff];

@@ -1,13 +1,15 @@
 import type { DataSource } from 'typeorm';
 import { Organisation } from '../entities/organisation.entity';
 import { DEMO_ORGANISATION, seedFoundation } from './demo-foundation';
+import { seedSupply } from './demo-supply';
 
 /** Creates the whole demo organisation in one transaction; returns false when it exists already. */
 export async function seedDemo(ds: DataSource): Promise<boolean> {
   return ds.transaction(async (m) => {
     const existing = await m.getRepository(Organisation).findOneBy({ name: DEMO_ORGANISATION });
     if (existing) return false;
-    await seedFoundation(m);
+    const ids = await seedFoundation(m);
+    await seedSupply(m, ids);
     return true;
   });
 }
