@@ -1,7 +1,8 @@
 import type { DataSource } from 'typeorm';
 import type { TestOrg } from './test-app';
+import { createCapacityFixtures } from './capacity-fixtures';
 
 /** Supply records (sources, wards, …) of a site, by route resource name. Filled as those resources exist. */
-export async function createSupplyFixtures(_ds: DataSource, _org: TestOrg, _siteId: number): Promise<Record<string, number>> {
-  return {};
+export async function createSupplyFixtures(ds: DataSource, org: TestOrg, siteId: number): Promise<Record<string, number>> {
+  return { ...(await createCapacityFixtures(ds, org, siteId)) };
 }
