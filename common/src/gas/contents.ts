@@ -279,7 +279,7 @@ export function liquefiedContents(input: LiquefiedContentsInput): LiquefiedConte
       liquidVolumeFraction = 1;
       pressureBarAbs = null;
       cautions.push(
-        `Liquid-full: at ${input.temperatureC} °C the liquid (${(rhoL / 1000).toFixed(3)} kg/L) fills the whole cylinder. Pressure rises very steeply with any warming: treat as overfilled and seek the supplier's advice.`,
+        `Liquid-full: at ${input.temperatureC} °C the liquid (${(rhoL / 1000).toFixed(3)} kg/L) would fill the whole cylinder at this filling ratio, so the pressure is no longer the vapour pressure and rises steeply with any further warming. Keep the cylinder cool (no more than about 50 °C) and check the weights.`,
       );
     } else if (meanDensityKgM3 > rhoV) {
       liquidPresent = true;

@@ -1,0 +1,96 @@
+import { describe, expect, it } from 'vitest';
+import { spawnSync } from 'node:child_process';
+import { fileURLToPath } from 'node:url';
+import { InvalidInputError } from '../api/errors';
+import { gasCalcVerbs } from './calc-verbs';
+
+const repoRoot = fileURLToPath(new URL('../../../', import.meta.url));
+
+/** Runs the real command line: `node --import tsx scripts/calc.ts VERB` with JSON on stdin. */
+function runCalc(verb: string, stdin: string): { status: number | null; body: any } {
+  const r = spawnSync(process.execPath, ['--import', 'tsx', 'scripts/calc.ts', verb], { cwd: repoRoot, input: stdin, encoding: 'utf8', timeout: 60_000 });
+  return { status: r.status, body: JSON.parse(r.stdout) };
+}
+
+describe('calc verbs in process', () => {
+  it('z: one result per state, in order, with per-item errors', () => {
+    const out = gasCalcVerbs.z([
+      { gas: 'O2', temperature_C: 15, pressure_bar_abs: 200 },
+      { gas: 'CO2', temperature_C: 15, pressure_bar_abs: 60 },
+      { gas: 'N2', temperature_C: 15 },
+      { gas: 'HE', temperature_C: 15, pressure_bar_abs: 1.01325 },
+    ]) as any[];
+    expect(out).toHaveLength(4);
+    // reference equation of state for O2 (Schmidt & Wagner, 1985), value from shared reference table: Z = 0.931150 at 288.15 K, 200 bar
+    expect(Math.abs(out[0].Z / 0.93115 - 1)).toBeLessThan(0.001);
+    expect(Object.keys(out[0]).sort()).toEqual(['Z', 'density_kg_m3', 'ideal_density_kg_m3', 'method', 'phase']);
+    expect(out[1].error.code).toBe('invalid_input');
+    expect(out[1].error.message).toMatch(/liquid/);
+    expect(out[2].error.details[0].path).toBe('pressure_bar_abs');
+    expect(out[3].phase).toBe('gas');
+    expect(() => gasCalcVerbs.z({ gas: 'O2' })).toThrow(InvalidInputError);
+  });
+
+  it('contents: object in, object out; array in, array out; liquefied gases by weight', () => {
+    const one = gasCalcVerbs.contents({ gas: 'O2', water_capacity_L: 10, gauge_bar: 200, temperature_C: 15 }) as any;
+    for (const key of ['moles', 'mass_kg', 'free_gas_L', 'ideal_free_gas_L', 'Z', 'equivalent_gauge_bar_at_reference_temperature']) {
+      expect(typeof one[key]).toBe('number');
+    }
+    expect(one.free_gas_L / one.ideal_free_gas_L).toBeCloseTo(1.07, 2); // domain facts §1: real ≈ ×1.07 ideal for O2 at 200 bar
+    const many = gasCalcVerbs.contents([
+      { gas: 'AIR', water_capacity_L: 50, pressure_bar_abs: 201, temperature_C: 21, reference: '21C' },
+      { gas: 'N2O', gross_kg: 20, tare_kg: 15, water_capacity_L: 10, temperature_C: 15 },
+    ]) as any[];
+    expect(many).toHaveLength(2);
+    expect(many[1].mass_kg).toBe(5);
+    expect(many[1].filling_ratio_kg_per_L).toBe(0.5);
+    // shared saturation table: N2O vapour pressure 45.037 bar abs at 288.15 K
+    expect(many[1].vapour_pressure_bar_abs).toBeCloseTo(45.04, 1);
+    expect(many[1].free_gas_L / (5 * 534)).toBeCloseTo(1, 2); // domain facts §1: 534 L/kg at 15 °C
+  });
+
+  it('duration: minutes and usable free gas, with the reserve', () => {
+    const r = gasCalcVerbs.duration({ gas: 'O2', water_capacity_L: 10, gauge_bar: 200, temperature_C: 15, flow_L_min: 10, reserve_gauge_bar: 20 }) as any;
+    expect(r.minutes).toBeCloseTo(r.usable_free_gas_L / 10, 9);
+    expect(r.usable_free_gas_L).toBeGreaterThan(1800);
+    const liquid = gasCalcVerbs.duration({ gas: 'CO2', gross_kg: 20, tare_kg: 15, water_capacity_L: 10, temperature_C: 15, flow_L_min: 5, reserve_kg: 1 }) as any;
+    expect(liquid.minutes).toBeCloseTo(liquid.usable_free_gas_L / 5, 9);
+  });
+
+  it('names the failing field with the contract names and the item index', () => {
+    try {
+      gasCalcVerbs.contents([
+        { gas: 'O2', water_capacity_L: 10, gauge_bar: 200, temperature_C: 15 },
+        { gas: 'O2', water_capacity_L: 10, gauge_bar: 200, temperature_C: -120 },
+      ]);
+      throw new Error('expected failure');
+    } catch (e) {
+      expect(e).toBeInstanceOf(InvalidInputError);
+      expect((e as InvalidInputError).details[0].path).toBe('1.temperature_C');
+    }
+    expect(() => gasCalcVerbs.contents({ gas: 'CO2', water_capacity_L: 10, temperature_C: 15 })).toThrow(/gross_kg/);
+    expect(() => gasCalcVerbs.contents({ gas: 'O2', water_capacity_L: 10, gauge_bar: 1, pressure_bar_abs: 2, temperature_C: 15 })).toThrow(InvalidInputError);
+    expect(() => gasCalcVerbs.duration({ gas: 'O2', water_capacity_L: 10, gauge_bar: 200, temperature_C: 15 })).toThrow(/flow_L_min/);
+  });
+});
+
+describe('calc command line', () => {
+  it('z through the real command: results and per-item errors, exit 0', () => {
+    const r = runCalc('z', JSON.stringify([{ gas: 'AR', temperature_C: -40, pressure_bar_abs: 300 }, { gas: 'N2O', temperature_C: 0, pressure_bar_abs: 40 }]));
+    expect(r.status).toBe(0);
+    // reference equation of state for Ar (Tegeler, Span & Wagner, 1999), value from shared reference table: 233.15 K, 300 bar
+    expect(r.body[0].Z).toBeGreaterThan(0.8);
+    expect(r.body[1].error.code).toBe('invalid_input');
+  }, 60_000);
+
+  it('bad input: exit 2 with the error shape', () => {
+    const notArray = runCalc('z', JSON.stringify({ gas: 'O2', temperature_C: 15, pressure_bar_abs: 10 }));
+    expect(notArray.status).toBe(2);
+    expect(notArray.body.error.code).toBe('invalid_input');
+    expect(typeof notArray.body.error.message).toBe('string');
+    expect(notArray.body.error.details[0]).toEqual({ path: '(root)', message: expect.any(String) });
+    const badContents = runCalc('contents', JSON.stringify({ gas: 'O2', water_capacity_L: 10, gauge_bar: Number.MAX_VALUE, temperature_C: 15 }));
+    expect(badContents.status).toBe(2);
+    expect(badContents.body.error.details[0].path).toBe('gauge_bar');
+  }, 60_000);
+});

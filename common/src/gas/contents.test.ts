@@ -1,0 +1,271 @@
+import { describe, expect, it } from 'vitest';
+import fc from 'fast-check';
+import { InvalidInputError } from '../api/errors';
+import { compressedContents, cylinderDuration, liquefiedContents, pressureAtTemperature } from './contents';
+import { GAS_CODES, GAS_INFO, isLiquefiedGas, type GasCode } from './gases';
+import { readSaturation, readZGrid } from './testing/reference-tables';
+
+const permanent = GAS_CODES.filter((g) => !isLiquefiedGas(g));
+
+function expectInvalid(fn: () => unknown, path: string): void {
+  try {
+    fn();
+  } catch (e) {
+    expect(e).toBeInstanceOf(InvalidInputError);
+    expect((e as InvalidInputError).details.map((d) => d.path)).toContain(path);
+    return;
+  }
+  throw new Error('expected an InvalidInputError');
+}
+
+describe('compressed-gas contents', () => {
+  it('mass in the cylinder equals ρ·V with ρ from the reference table', () => {
+    // reference equations of state (shared README), value from shared reference table: density at 288.15 K, 200 bar abs
+    for (const gas of ['O2', 'N2', 'AIR', 'AR', 'HE'] as const) {
+      const row = readZGrid().find((r) => r.gas === gas && r.temperatureK === 288.15 && r.pressureBarAbs === 200)!;
+      const c = compressedContents({ gas, waterCapacityL: 10, pressureBarAbs: 200, temperatureC: 15 });
+      expect(Math.abs(c.massKg / (row.densityKgM3 * 0.01) - 1)).toBeLessThan(0.001);
+      expect(Math.abs(c.Z / row.Z - 1)).toBeLessThan(0.001);
+    }
+  });
+
+  it('a 10 L cylinder at 200 bar(g) and 15 °C: real free gas is ×1.07 the ideal for O2, ×0.96 for N2, ×0.91 for He', () => {
+    // domain facts §1 (EU distributor page; consistent with the shared reference table): 50 L × 200 bar = 10 m³ ideal;
+    // real ≈ ×1.07 (O2), ×0.96 (N2), ×0.91 (He)
+    const ratio = (gas: GasCode) => {
+      const c = compressedContents({ gas, waterCapacityL: 10, gaugeBar: 200, temperatureC: 15 });
+      return c.freeGasL / c.idealFreeGasL;
+    };
+    expect(ratio('O2')).toBeCloseTo(1.07, 2);
+    expect(Math.abs(ratio('N2') - 0.96)).toBeLessThan(0.01);
+    expect(ratio('HE')).toBeCloseTo(0.91, 2);
+    // ideal: 10 L · 200 bar / 1.01325 bar = 1973.8 L at the same temperature (hand calculation)
+    expect(compressedContents({ gas: 'O2', waterCapacityL: 10, gaugeBar: 200, temperatureC: 15 }).idealFreeGasL).toBeCloseTo(1973.85, 1);
+  });
+
+  it('47 L at 137 bar holds about 6,800 L of oxygen', () => {
+    // HTM 02-01 Part A Table 22 (via a secondary source, domain facts §1): 47 L at 137 bar ≈ 6,800 L O2
+    const c = compressedContents({ gas: 'O2', waterCapacityL: 47, gaugeBar: 137, temperatureC: 15 });
+    expect(Math.abs(c.freeGasL / 6800 - 1)).toBeLessThan(0.02);
+  });
+
+  it('states the free gas on the requested reference basis', () => {
+    // domain facts §1: 0 °C gives 5.2 % fewer litres than 15 °C; 21.1 °C gives 2.1 % more (computed in the research)
+    const base = { gas: 'O2' as const, waterCapacityL: 10, gaugeBar: 200, temperatureC: 15 };
+    const at15 = compressedContents(base).freeGasL;
+    expect(compressedContents({ ...base, reference: '0C' }).freeGasL / at15 - 1).toBeCloseTo(-0.052, 3);
+    expect(compressedContents({ ...base, reference: '21C' }).freeGasL / at15 - 1).toBeCloseTo(0.021, 3);
+  });
+
+  it('counts no gas below atmospheric pressure and leaves the gas at 0 bar(g) in the cylinder', () => {
+    const empty = compressedContents({ gas: 'O2', waterCapacityL: 10, gaugeBar: 0, temperatureC: 15 });
+    expect(empty.freeGasL).toBe(0);
+    expect(empty.moles).toBeGreaterThan(0.4); // 10 L of oxygen at 1 atm ≈ 0.42 mol (ideal gas, hand calculation)
+    const vacuum = compressedContents({ gas: 'O2', waterCapacityL: 10, gaugeBar: -0.5, temperatureC: 15 });
+    expect(vacuum.freeGasL).toBe(0);
+    expect(vacuum.cautions.join(' ')).toMatch(/below atmospheric/);
+  });
+
+  it('contents rise with pressure (property)', () => {
+    fc.assert(
+      fc.property(
+        fc.constantFrom(...permanent),
+        fc.double({ min: 0, max: 340, noNaN: true }),
+        fc.double({ min: 0.5, max: 8, noNaN: true }),
+        fc.double({ min: -30, max: 50, noNaN: true }),
+        (gas, p, dp, t) => {
+          const lo = compressedContents({ gas, waterCapacityL: 10, gaugeBar: p, temperatureC: t });
+          const hi = compressedContents({ gas, waterCapacityL: 10, gaugeBar: p + dp, temperatureC: t });
+          expect(hi.moles).toBeGreaterThan(lo.moles);
+          expect(hi.freeGasL).toBeGreaterThan(lo.freeGasL);
+          expect(hi.massKg).toBeGreaterThan(lo.massKg);
+        },
+      ),
+      { numRuns: 200, seed: 17 },
+    );
+  });
+
+  it('equivalent gauge at the reference temperature and pressure at another temperature round-trip (property)', () => {
+    fc.assert(
+      fc.property(
+        fc.constantFrom(...permanent.filter((g) => g !== 'N2O_O2_50')),
+        fc.double({ min: 5, max: 250, noNaN: true }),
+        fc.double({ min: -30, max: 50, noNaN: true }),
+        (gas, gauge, t) => {
+          const c = compressedContents({ gas, waterCapacityL: 10, gaugeBar: gauge, temperatureC: t });
+          // the same contents measured at 15 °C show the equivalent gauge pressure
+          const at15 = compressedContents({ gas, waterCapacityL: 10, gaugeBar: c.equivalentGaugeBarAtReferenceTemperature, temperatureC: 15 });
+          expect(at15.moles / c.moles - 1).toBeCloseTo(0, 9);
+          const back = pressureAtTemperature({ gas, gaugeBar: c.equivalentGaugeBarAtReferenceTemperature, temperatureC: 15, newTemperatureC: t });
+          expect(back.gaugeBar).toBeCloseTo(gauge, 7);
+        },
+      ),
+      { numRuns: 150, seed: 23 },
+    );
+  });
+
+  it('a reading taken warm overstates the contents at 15 °C by about 7 % at 35 °C', () => {
+    // domain facts WE-2 (computed): read at 35 °C, 115 bar(g) overstates 15 °C contents by about 7 % (288.15/308.15, ideal gas)
+    const warm = compressedContents({ gas: 'O2', waterCapacityL: 2, gaugeBar: 115, temperatureC: 35 });
+    const cool = compressedContents({ gas: 'O2', waterCapacityL: 2, gaugeBar: 115, temperatureC: 15 });
+    const overstatement = cool.moles / warm.moles - 1;
+    expect(overstatement).toBeGreaterThan(0.06);
+    expect(overstatement).toBeLessThan(0.1);
+    expect(warm.equivalentGaugeBarAtReferenceTemperature).toBeLessThan(115 * 0.95);
+  });
+
+  it('carries the 50:50 nitrous oxide/oxygen separation caution when cold', () => {
+    // domain facts §5: below about −6 °C N2O condenses out (hypoxic hazard); store above 10 °C; ≥ 24 h flat at ≥ 5 °C, invert
+    const cold = compressedContents({ gas: 'N2O_O2_50', waterCapacityL: 10, gaugeBar: 137, temperatureC: -10 });
+    expect(cold.cautions.join(' ')).toMatch(/hypoxic/);
+    expect(cold.cautions.join(' ')).toMatch(/24 hours/);
+    expect(cold.cautions.join(' ')).toMatch(/invert/);
+    expect(compressedContents({ gas: 'N2O_O2_50', waterCapacityL: 10, gaugeBar: 137, temperatureC: 5 }).cautions.join(' ')).toMatch(/above 10 °C/);
+    expect(compressedContents({ gas: 'N2O_O2_50', waterCapacityL: 10, gaugeBar: 137, temperatureC: 20 }).cautions).toEqual([]);
+    expect(compressedContents({ gas: 'O2', waterCapacityL: 10, gaugeBar: 137, temperatureC: -10 }).cautions).toEqual([]);
+  });
+
+  it('rejects NaN, non-positive absolute pressure, bad volumes and temperatures outside the range', () => {
+    const ok = { gas: 'O2' as const, waterCapacityL: 10, gaugeBar: 200, temperatureC: 15 };
+    expectInvalid(() => compressedContents({ ...ok, gaugeBar: Number.NaN }), 'gaugeBar');
+    expectInvalid(() => compressedContents({ ...ok, gaugeBar: undefined, pressureBarAbs: -2 }), 'pressureBarAbs');
+    expectInvalid(() => compressedContents({ ...ok, gaugeBar: -1.5 }), 'gaugeBar');
+    expectInvalid(() => compressedContents({ ...ok, pressureBarAbs: 100 }), 'gaugeBar');
+    expectInvalid(() => compressedContents({ ...ok, gaugeBar: 400 }), 'gaugeBar');
+    expectInvalid(() => compressedContents({ ...ok, waterCapacityL: 0 }), 'waterCapacityL');
+    expectInvalid(() => compressedContents({ ...ok, temperatureC: Number.NaN }), 'temperatureC');
+    expectInvalid(() => compressedContents({ ...ok, temperatureC: -80 }), 'temperatureC');
+    expectInvalid(() => compressedContents({ ...ok, temperatureC: 130 }), 'temperatureC');
+    expectInvalid(() => compressedContents({ ...ok, atmosphericBar: 0 }), 'atmosphericBar');
+    expectInvalid(() => compressedContents({ ...ok, gas: 'CO2', gaugeBar: 60 }), 'gaugeBar');
+    expectInvalid(() => compressedContents({ ...ok, reference: '20C' as '15C' }), 'reference');
+    expectInvalid(() => pressureAtTemperature({ gas: 'O2', gaugeBar: 100, temperatureC: 15, newTemperatureC: Number.NaN }), 'newTemperatureC');
+    fc.assert(
+      fc.property(fc.constantFrom(...GAS_CODES), fc.double({ min: -1e4, max: 0, noNaN: true }), (gas, p) => {
+        expectInvalid(() => compressedContents({ gas, waterCapacityL: 10, pressureBarAbs: p, temperatureC: 15 }), 'pressureBarAbs');
+      }),
+      { numRuns: 50, seed: 29 },
+    );
+  });
+});
+
+describe('cylinder duration', () => {
+  it('is the usable free gas above the reserve divided by the flow', () => {
+    fc.assert(
+      fc.property(
+        fc.constantFrom(...permanent),
+        fc.double({ min: 20, max: 300, noNaN: true }),
+        fc.double({ min: 0, max: 0.9, noNaN: true }),
+        fc.double({ min: 0.5, max: 60, noNaN: true }),
+        (gas, gauge, reserveShare, flow) => {
+          const reserve = gauge * reserveShare;
+          const d = cylinderDuration({ gas, waterCapacityL: 10, gaugeBar: gauge, temperatureC: 15, flowLMin: flow, reserveGaugeBar: reserve });
+          const full = compressedContents({ gas, waterCapacityL: 10, gaugeBar: gauge, temperatureC: 15 }).freeGasL;
+          const left = compressedContents({ gas, waterCapacityL: 10, gaugeBar: reserve, temperatureC: 15 }).freeGasL;
+          expect(d.usableFreeGasL).toBeCloseTo(full - left, 6);
+          expect(d.minutes).toBeCloseTo(d.usableFreeGasL / flow, 9);
+        },
+      ),
+      { numRuns: 150, seed: 31 },
+    );
+  });
+
+  it('worked example WE-2: a 460 L / 230 bar cylinder at 115 bar gives about 38 min at 6 L/min, 19 min keeping a quarter', () => {
+    // domain facts WE-2 (computed with the ideal gas): 460 L/230 bar ⇒ 2 L water capacity; 115 bar ⇒ ~230 L; 38 min at 6 L/min;
+    // 19 min keeping a ¼ residual (57.5 bar). The real-gas contents of oxygen are ~7 % larger at these pressures.
+    const ideal = compressedContents({ gas: 'O2', waterCapacityL: 2, gaugeBar: 115, temperatureC: 15 }).idealFreeGasL;
+    expect(ideal / 6).toBeCloseTo(37.8, 1);
+    const d = cylinderDuration({ gas: 'O2', waterCapacityL: 2, gaugeBar: 115, temperatureC: 15, flowLMin: 6 });
+    expect(d.minutes).toBeGreaterThan(38);
+    expect(d.minutes).toBeLessThan(38 * 1.1);
+    const kept = cylinderDuration({ gas: 'O2', waterCapacityL: 2, gaugeBar: 115, temperatureC: 15, flowLMin: 6, reserveGaugeBar: 57.5 });
+    expect(kept.minutes).toBeGreaterThan(19);
+    expect(kept.minutes).toBeLessThan(19 * 1.1);
+  });
+
+  it('worked example WE-1: (2000 − 200 psi) × 0.16 L/psi at 0.5 L/min ≈ 576 min', () => {
+    // domain facts WE-1 (EMS guidance): 0.16 L/psi at 2000 psi, 200 psi residual, 0.5 L/min: 288 L, 576 min.
+    // The 0.16 L/psi cylinder holds ~350 L at 2200 psig (domain facts §1, US contents); 2.2 L of water capacity
+    // does that for oxygen at 70 °F (this engine: 351 L), so the engine's real-gas minutes should land near 576.
+    const psi = 0.0689475729;
+    const full = compressedContents({ gas: 'O2', waterCapacityL: 2.2, gaugeBar: 2200 * psi, temperatureC: 21.1, reference: '21C' });
+    expect(full.freeGasL / 2200).toBeCloseTo(0.16, 2);
+    const d = cylinderDuration({ gas: 'O2', waterCapacityL: 2.2, gaugeBar: 2000 * psi, temperatureC: 21.1, reference: '21C', flowLMin: 0.5, reserveGaugeBar: 200 * psi });
+    expect(Math.abs(d.minutes / 576 - 1)).toBeLessThan(0.03);
+  });
+
+  it('liquefied gases: weighed mass less what stays behind and the reserve mass', () => {
+    const base = { gas: 'N2O' as const, grossKg: 20, tareKg: 15, waterCapacityL: 10, temperatureC: 15, flowLMin: 10 };
+    const d = cylinderDuration(base);
+    // domain facts §1: N2O gives 534 L of gas per kg at 15 °C, 1 atm
+    expect(d.usableFreeGasL / (5 * 534)).toBeCloseTo(1, 2);
+    const withReserve = cylinderDuration({ ...base, reserveKg: 1 });
+    expect(d.usableFreeGasL - withReserve.usableFreeGasL).toBeCloseTo(534, -1);
+  });
+
+  it('rejects a non-positive flow and a negative reserve', () => {
+    const ok = { gas: 'O2' as const, waterCapacityL: 10, gaugeBar: 200, temperatureC: 15, flowLMin: 5 };
+    expectInvalid(() => cylinderDuration({ ...ok, flowLMin: 0 }), 'flowLMin');
+    expectInvalid(() => cylinderDuration({ ...ok, flowLMin: Number.NaN }), 'flowLMin');
+    expectInvalid(() => cylinderDuration({ ...ok, reserveGaugeBar: -1 }), 'reserveGaugeBar');
+    expect(cylinderDuration({ ...ok, gaugeBar: 10, reserveGaugeBar: 20 }).minutes).toBe(0);
+  });
+});
+
+describe('liquefied-gas contents (CO2, N2O)', () => {
+  const sat = readSaturation();
+
+  it('sits at the vapour pressure while liquid is present, and counts gas per kg', () => {
+    // reference equation of state for CO2 (Span & Wagner, 1996), value from shared reference table: 50.871474 bar abs at 288.15 K
+    const c = liquefiedContents({ gas: 'CO2', grossKg: 22.5, tareKg: 15, waterCapacityL: 10, temperatureC: 15 });
+    const row = sat.find((r) => r.gas === 'CO2' && r.temperatureK === 288.15)!;
+    expect(c.massKg).toBe(7.5);
+    expect(c.fillingRatioKgPerL).toBe(0.75);
+    expect(c.liquidPresent).toBe(true);
+    expect(Math.abs(c.vapourPressureBarAbs! / row.vapourPressureBarAbs - 1)).toBeLessThan(0.005);
+    // domain facts §1: CO2 534 L per kg at 15 °C, 546 at 21.1 °C (computed, agrees with the reference table)
+    expect(c.freeGasL / (7.5 * 534)).toBeCloseTo(1, 2);
+    const us = liquefiedContents({ gas: 'CO2', grossKg: 22.5, tareKg: 15, waterCapacityL: 10, temperatureC: 15, reference: '21C' });
+    expect(us.freeGasL / (7.5 * 546)).toBeCloseTo(1, 2);
+  });
+
+  it('flags a liquid-full cylinder when the liquid expands to fill it', () => {
+    // reference equation of state for CO2 (Span & Wagner, 1996), shared saturation table: saturated liquid 593.3 kg/m³ at 303.15 K,
+    // so a 0.75 kg/L fill is liquid-full at 30 °C
+    const c = liquefiedContents({ gas: 'CO2', grossKg: 22.5, tareKg: 15, waterCapacityL: 10, temperatureC: 30 });
+    expect(c.pressureBarAbs).toBeNull();
+    expect(c.cautions.join(' ')).toMatch(/Liquid-full/);
+  });
+
+  it('has no vapour pressure above the critical temperature and warns', () => {
+    // critical temperature of N2O 36.4 °C (domain facts §1; Lemmon & Span 2006: 309.52 K)
+    const c = liquefiedContents({ gas: 'N2O', grossKg: 20, tareKg: 15, waterCapacityL: 10, temperatureC: 40 });
+    expect(c.vapourPressureBarAbs).toBeNull();
+    expect(c.liquidPresent).toBe(false);
+    expect(c.pressureBarAbs!).toBeGreaterThan(72.45);
+    expect(c.cautions.join(' ')).toMatch(/critical temperature/);
+  });
+
+  it('recognises an almost empty cylinder (no liquid left)', () => {
+    const c = liquefiedContents({ gas: 'N2O', grossKg: 15.2, tareKg: 15, waterCapacityL: 10, temperatureC: 15 });
+    expect(c.liquidPresent).toBe(false);
+    expect(c.pressureBarAbs!).toBeLessThan(c.vapourPressureBarAbs!);
+  });
+
+  it('rejects gross below tare, NaN and temperatures outside −40…65 °C', () => {
+    const ok = { gas: 'CO2' as const, grossKg: 20, tareKg: 15, waterCapacityL: 10, temperatureC: 15 };
+    expectInvalid(() => liquefiedContents({ ...ok, grossKg: 14 }), 'grossKg');
+    expectInvalid(() => liquefiedContents({ ...ok, tareKg: Number.NaN }), 'tareKg');
+    expectInvalid(() => liquefiedContents({ ...ok, temperatureC: 70 }), 'temperatureC');
+    expectInvalid(() => liquefiedContents({ ...ok, temperatureC: -41 }), 'temperatureC');
+    expectInvalid(() => liquefiedContents({ ...ok, gas: 'O2' as 'CO2' }), 'gas');
+  });
+});
+
+describe('gas info', () => {
+  it('names every gas and gives mixture molar masses by mole fraction', () => {
+    for (const gas of GAS_CODES) expect(GAS_INFO[gas].name.length).toBeGreaterThan(3);
+    // 0.79·4.002602 + 0.21·31.9988 g/mol = 9.8816 g/mol (hand calculation)
+    expect(GAS_INFO.HE_O2_79.molarMassKgMol * 1000).toBeCloseTo(9.8816, 3);
+  });
+});

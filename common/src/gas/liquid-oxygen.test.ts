@@ -1,0 +1,76 @@
+import { describe, expect, it } from 'vitest';
+import fc from 'fast-check';
+import { InvalidInputError } from '../api/errors';
+import {
+  LOX_DENSITY_KG_PER_L,
+  contentsFromCalibrationTable,
+  freeGasLToLoxLitres,
+  kgToLoxLitres,
+  levelPercentToKg,
+  loxLitresToFreeGasL,
+  loxLitresToKg,
+} from './liquid-oxygen';
+
+describe('liquid oxygen', () => {
+  it('uses the boiling-point liquid density of 1.141 kg/L', () => {
+    // domain facts §2 (encyclopedia): LOX at the normal boiling point (90.19 K) is 1.141 kg/L
+    expect(LOX_DENSITY_KG_PER_L).toBeCloseTo(1.141, 3);
+    expect(loxLitresToKg(1000)).toBeCloseTo(1141.2, 0);
+    expect(kgToLoxLitres(loxLitresToKg(123.4))).toBeCloseTo(123.4, 10);
+  });
+
+  it('gives about 842 L of gas per litre of liquid at 15 °C, 860 L at 21.1 °C and 798 L at 0 °C', () => {
+    // domain facts §2 (computed; the shared reference densities agree): 798 L (0 °C), 842 L (15 °C), 860 L (21.1 °C)
+    expect(Math.abs(loxLitresToFreeGasL(1, '15C') / 842 - 1)).toBeLessThan(0.002);
+    expect(Math.abs(loxLitresToFreeGasL(1, '21C') / 860 - 1)).toBeLessThan(0.002);
+    expect(Math.abs(loxLitresToFreeGasL(1, '0C') / 798 - 1)).toBeLessThan(0.002);
+  });
+
+  it('worked example WE-4: 120,600 L of gas a day is about 143 L of liquid', () => {
+    // domain facts WE-4 (computed): 120,600 L/day = 143 L LOX/day at 842 L/L
+    expect(freeGasLToLoxLitres(120600, '15C')).toBeCloseTo(143, 0);
+  });
+
+  it('reads percent levels linearly in mass and rejects impossible readings', () => {
+    expect(levelPercentToKg(11412, 80)).toBeCloseTo(9129.6, 6);
+    expect(() => levelPercentToKg(11412, 101)).toThrow(InvalidInputError);
+    expect(() => levelPercentToKg(11412, Number.NaN)).toThrow(InvalidInputError);
+    expect(() => levelPercentToKg(0, 50)).toThrow(InvalidInputError);
+    expect(() => loxLitresToKg(-1)).toThrow(InvalidInputError);
+  });
+});
+
+describe('calibration-table interpolation', () => {
+  const table = [
+    { reading: 0, kg: 0 },
+    { reading: 50, kg: 2000 },
+    { reading: 100, kg: 5000 },
+    { reading: 150, kg: 8600 },
+  ];
+
+  it('interpolates linearly between points and hits the points exactly', () => {
+    expect(contentsFromCalibrationTable(table, 50)).toBe(2000);
+    expect(contentsFromCalibrationTable(table, 75)).toBe(3500);
+    expect(contentsFromCalibrationTable(table, 150)).toBe(8600);
+    expect(contentsFromCalibrationTable([...table].reverse(), 125)).toBe(6800);
+  });
+
+  it('is monotone over the table (property)', () => {
+    fc.assert(
+      fc.property(fc.double({ min: 0, max: 150, noNaN: true }), fc.double({ min: 0, max: 150, noNaN: true }), (a, b) => {
+        const [lo, hi] = a <= b ? [a, b] : [b, a];
+        expect(contentsFromCalibrationTable(table, lo)).toBeLessThanOrEqual(contentsFromCalibrationTable(table, hi));
+      }),
+      { numRuns: 200, seed: 37 },
+    );
+  });
+
+  it('refuses readings outside the table and tables that are short, repeated or falling', () => {
+    expect(() => contentsFromCalibrationTable(table, 151)).toThrow(/outside the calibration table/);
+    expect(() => contentsFromCalibrationTable(table, -1)).toThrow(InvalidInputError);
+    expect(() => contentsFromCalibrationTable(table, Number.NaN)).toThrow(InvalidInputError);
+    expect(() => contentsFromCalibrationTable([{ reading: 0, kg: 0 }], 0)).toThrow(/at least two/);
+    expect(() => contentsFromCalibrationTable([{ reading: 0, kg: 0 }, { reading: 0, kg: 5 }], 0)).toThrow(/twice/);
+    expect(() => contentsFromCalibrationTable([{ reading: 0, kg: 10 }, { reading: 5, kg: 5 }], 1)).toThrow(/not monotone/);
+  });
+});
