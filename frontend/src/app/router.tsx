@@ -1,0 +1,34 @@
+import { createBrowserRouter } from 'react-router-dom';
+import { FullPageLoading, RootErrorBoundary } from './routes/route-error';
+
+/**
+ * The route table. Every screen is its own lazily loaded module in routes/ exporting `Component`,
+ * `loader` (which fetches early with queryClient.ensureQueryData) and `ErrorBoundary`.
+ */
+export function createAppRouter() {
+  return createBrowserRouter([
+    { path: '/sign-in', lazy: () => import('./routes/sign-in'), HydrateFallback: FullPageLoading },
+    {
+      id: 'app',
+      path: '/',
+      lazy: () => import('./routes/app-layout'),
+      ErrorBoundary: RootErrorBoundary,
+      HydrateFallback: FullPageLoading,
+      children: [
+        { index: true, lazy: () => import('./routes/today') },
+        { path: 'cylinder-check', lazy: () => import('./routes/cylinder-check') },
+        { path: 'account', lazy: () => import('./routes/account') },
+        { path: 'admin/sites', lazy: () => import('./routes/admin/sites') },
+        { path: 'admin/users', lazy: () => import('./routes/admin/users') },
+        { path: 'admin/cylinder-types', lazy: () => import('./routes/admin/cylinder-types') },
+        { path: 'admin/suppliers', lazy: () => import('./routes/admin/suppliers') },
+        { path: 'admin/audit', lazy: () => import('./routes/admin/audit') },
+        { path: 'admin/mail', lazy: () => import('./routes/admin/mail') },
+        { path: 'admin/mail/:messageId', lazy: () => import('./routes/admin/mail-message') },
+        { path: '*', lazy: () => import('./routes/not-found') },
+      ],
+    },
+  ]);
+}
+
+export type AppRouter = ReturnType<typeof createAppRouter>;

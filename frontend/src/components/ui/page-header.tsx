@@ -1,0 +1,14 @@
+import type { ReactNode } from 'react';
+import { cn } from '@/lib/cn';
+
+export function PageHeader({ title, description, actions, className }: { title: ReactNode; description?: ReactNode; actions?: ReactNode; className?: string }) {
+  return (
+    <header className={cn('mb-5 flex flex-wrap items-end justify-between gap-3', className)}>
+      <div className="min-w-0">
+        <h1 className="text-2xl text-fg sm:text-3xl">{title}</h1>
+        {description && <p className="mt-1 max-w-prose text-fg-muted">{description}</p>}
+      </div>
+      {actions && <div className="flex flex-wrap gap-2">{actions}</div>}
+    </header>
+  );
+}

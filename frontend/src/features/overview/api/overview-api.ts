@@ -1,0 +1,51 @@
+import { queryOptions } from '@tanstack/react-query';
+import { api } from '@/lib/api-client';
+
+export type SourceStatus = 'ok' | 'watch' | 'reorder' | 'critical';
+
+export interface OverviewSource {
+  id: number;
+  name: string;
+  type: 'bulk_liquid' | 'manifold' | 'cylinder_store';
+  gasCode: string;
+  unit: 'kg' | 'L';
+  contents: number;
+  capacity: number | null;
+  daysOfStock: number | null;
+  /** ISO instant, UTC. */
+  emptyAt: string | null;
+  reorderAt: string | null;
+  status: SourceStatus;
+  statusText: string;
+  firstRisk: { code: string; message: string } | null;
+  /** Daily contents over the next 14 days. */
+  trend: number[];
+  leadTimeHours: number | null;
+}
+
+export interface OverviewSite {
+  id: number;
+  name: string;
+  timeZone: string;
+  sources: OverviewSource[];
+}
+
+export interface Overview {
+  generatedAt: string;
+  sites: OverviewSite[];
+}
+
+export const overviewQueries = {
+  all: () => ['overview'] as const,
+  /**
+   * Days of stock move by the hour; a screen left open in the plant room refreshes every 5 minutes
+   * and counts as stale after one.
+   */
+  summary: () =>
+    queryOptions({
+      queryKey: [...overviewQueries.all(), 'summary'] as const,
+      queryFn: ({ signal }) => api.get<Overview>('/overview', { signal }),
+      staleTime: 60_000,
+      refetchInterval: 5 * 60_000,
+    }),
+};

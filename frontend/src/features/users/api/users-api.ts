@@ -1,0 +1,50 @@
+import { keepPreviousData, queryOptions, useMutation, useQueryClient } from '@tanstack/react-query';
+import type { Role } from '@common/api/roles';
+import type { Page } from '@common/schemas/common.schema';
+import type { UserCreateInput, UserUpdateInput } from '@common/schemas/admin.schema';
+import { api } from '@/lib/api-client';
+import type { ListParams } from '@/lib/list-params';
+
+export interface UserRow {
+  id: number;
+  email: string;
+  name: string;
+  active: boolean;
+  roles: Role[];
+  siteIds: number[];
+  locked: boolean;
+  createdAt: string;
+}
+
+export const usersQueries = {
+  all: () => ['users'] as const,
+  lists: () => [...usersQueries.all(), 'list'] as const,
+  /** A page of users; the previous page stays on screen while the next loads. */
+  list: (params: ListParams) =>
+    queryOptions({
+      queryKey: [...usersQueries.lists(), params] as const,
+      queryFn: ({ signal }) => api.get<Page<UserRow>>('/users', { signal, query: { ...params } }),
+      staleTime: 30_000,
+      placeholderData: keepPreviousData,
+    }),
+};
+
+function useInvalidateUsers() {
+  const qc = useQueryClient();
+  return () => qc.invalidateQueries({ queryKey: usersQueries.all() });
+}
+
+export function useCreateUser() {
+  const invalidate = useInvalidateUsers();
+  return useMutation({ mutationFn: (body: UserCreateInput) => api.post<UserRow>('/users', body), meta: { formHandlesErrors: true }, onSuccess: invalidate });
+}
+
+export function useUpdateUser() {
+  const invalidate = useInvalidateUsers();
+  return useMutation({ mutationFn: ({ id, body }: { id: number; body: UserUpdateInput }) => api.patch<UserRow>(`/users/${id}`, body), meta: { formHandlesErrors: true }, onSuccess: invalidate });
+}
+
+export function useUnlockUser() {
+  const invalidate = useInvalidateUsers();
+  return useMutation({ mutationFn: (id: number) => api.post<UserRow>(`/users/${id}/unlock`), onSuccess: invalidate });
+}
