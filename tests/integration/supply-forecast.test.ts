@@ -1,0 +1,151 @@
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { DateTime } from 'luxon';
+import { createTestOrg, signedIn, startTestApp, type Client, type TestApp, type TestOrg } from '../support/test-app';
+import { freeGasLitresPerKg } from '@common/gas/reference-conditions';
+
+let app: TestApp;
+let org: TestOrg;
+let fm: Client;
+let siteId: number;
+
+beforeAll(async () => {
+  app = await startTestApp();
+  org = await createTestOrg(app.ds);
+  siteId = org.siteIds[0];
+  fm = await signedIn(app, org.users.facilities_manager);
+});
+afterAll(async () => {
+  await app.close();
+});
+
+const tank = (name: string, extra: Record<string, unknown> = {}) => ({ name, type: 'bulk_liquid', gasCode: 'O2', capacityKg: 10_000, evaporationPercentPerDay: 0.5, leadTimeHours: 48, ...extra });
+
+async function count(table: string, where: string, params: unknown[]) {
+  const rows: { n: string }[] = await app.ds.query(`SELECT COUNT(*) AS n FROM ${table} WHERE ${where}`, params);
+  return Number(rows[0].n);
+}
+
+describe('supply sources and readings', () => {
+  it('creates a tank, takes a level reading and forecasts it from the reading at constant ward demand', async () => {
+    const src = await fm.post(`/api/sites/${siteId}/sources`, tank('Tank A'));
+    expect(src.status).toBe(200);
+    const ward = await fm.post(`/api/sites/${siteId}/wards`, { name: 'Ward A', department: 'ward', beds: 20 });
+    expect(ward.status).toBe(200);
+    expect((await fm.put(`/api/wards/${ward.body.id}/feeds`, { feeds: [{ sourceId: src.body.id, gasCode: 'O2', role: 'primary' }] })).status).toBe(200);
+    // 20 patients at 10 L/min = 200 L/min of free gas at 15 °C, every hour.
+    expect((await fm.put(`/api/wards/${ward.body.id}/therapy`, { lines: [{ gasCode: 'O2', device: 'custom', patients: 20, flowLMin: 10, label: 'constant' }] })).status).toBe(200);
+    const takenAt = DateTime.utc().startOf('hour').minus({ hours: 2 }).toISO()!;
+    const reading = await fm.post(`/api/sources/${src.body.id}/readings`, { kind: 'level_percent', value: 60, takenAt });
+    expect(reading.status).toBe(200);
+    expect(reading.body.contents).toBeCloseTo(6000, 6); // 60 % of 10,000 kg
+
+    const detail = await fm.get(`/api/sources/${src.body.id}?draws=50`);
+    expect(detail.status).toBe(200);
+    // 200 L/min × 60 = 12,000 L/h; at 15 °C and 1.01325 bar oxygen is 1.35436 kg/m³ (reference EOS, shared
+    // table), so 12 m³/h = 16.25 kg/h; evaporation 0.5 %/day × 10,000 kg = 2.08 kg/h is below demand, so
+    // demand alone empties 6,000 kg in 6,000 / 16.25 = 369.2 h from the reading.
+    const kgPerH = (12_000 / freeGasLitresPerKg('O2', '15C'));
+    expect(kgPerH).toBeCloseTo(16.25, 1);
+    const emptyMs = new Date(detail.body.outlook.emptyAt).getTime();
+    const expectedMs = new Date(takenAt).getTime() + (6000 / kgPerH) * 3_600_000;
+    expect(Math.abs(emptyMs - expectedMs)).toBeLessThan(60_000);
+    // Days of stock now: contents now ÷ daily use (390 kg/day).
+    expect(detail.body.outlook.daysOfStock).toBeCloseTo((6000 - 2 * kgPerH) / (kgPerH * 24), 1);
+    expect(detail.body.band.p10 <= detail.body.band.p50 && detail.body.band.p50 <= detail.body.band.p90).toBe(true);
+    expect(detail.body.method.demandLines[0].flowLMin).toBeCloseTo(200, 9);
+    expect(detail.body.method.caution).toMatch(/Planning estimate/);
+
+    const overview = await fm.get('/api/overview');
+    const row = overview.body.sites.find((s: { id: number }) => s.id === siteId).sources.find((s: { id: number }) => s.id === src.body.id);
+    expect(row.status).toBe('ok');
+    expect(row.trend).toHaveLength(15);
+
+    const csv = await fm.request('GET', `/api/sources/${src.body.id}/forecast.csv`);
+    expect(csv.status).toBe(200);
+    expect(csv.headers.get('content-type')).toMatch(/text\/csv/);
+    expect(String(csv.body).split('\r\n')[0]).toBe('time_utc,contents_kg,demand_L_free_gas');
+  });
+
+  it('marks a source "reorder" when its reorder level is crossed inside the lead time', async () => {
+    const src = await fm.post(`/api/sites/${siteId}/sources`, tank('Tank B', { reorderMode: 'percent', reorderLevel: 30, orderUpTo: 9000 }));
+    const ward = await fm.post(`/api/sites/${siteId}/wards`, { name: 'Ward B', department: 'ward', beds: 20 });
+    await fm.put(`/api/wards/${ward.body.id}/feeds`, { feeds: [{ sourceId: src.body.id, gasCode: 'O2', role: 'primary' }] });
+    await fm.put(`/api/wards/${ward.body.id}/therapy`, { lines: [{ gasCode: 'O2', device: 'custom', patients: 20, flowLMin: 10 }] });
+    // 32 % = 3,200 kg: 200 kg above the 3,000 kg reorder level, i.e. ~12 h at 16.25 kg/h, inside the 48 h lead time.
+    await fm.post(`/api/sources/${src.body.id}/readings`, { kind: 'level_percent', value: 32, takenAt: new Date().toISOString() });
+    const detail = await fm.get(`/api/sources/${src.body.id}?draws=0`);
+    expect(detail.body.outlook.status).toBe('reorder');
+    expect(detail.body.orders[0].quantityUnit).toBe('kg');
+    // The order fills to 9,000 kg on arrival (48 h after placing).
+    const placed = new Date(detail.body.orders[0].placedAt).getTime();
+    expect(new Date(detail.body.orders[0].arrivesAt).getTime() - placed).toBe(48 * 3_600_000);
+  });
+
+  it('a manifold read by its bank gauges counts real-gas contents, corrected for the store temperature', async () => {
+    const types = await (await signedIn(app, org.users.administrator)).post('/api/cylinder-types', { gasCode: 'O2', waterCapacityL: 50, fillPressureBar: 200 });
+    const src = await fm.post(`/api/sites/${siteId}/sources`, { name: 'Manifold M', type: 'manifold', gasCode: 'O2', cylinderTypeId: types.body.id, cylindersPerBank: 2, temperatureC: 15 });
+    expect(src.status).toBe(200);
+    const r = await fm.post(`/api/sources/${src.body.id}/readings`, { kind: 'bank_gauges', dutyBar: 200, standbyBar: 200, spareFull: 0, takenAt: new Date().toISOString() });
+    expect(r.status).toBe(200);
+    // Four full 50 L cylinders at 200 bar(g), 15 °C: each holds ≈ 4 × nominal… compare with the catalogue's own nominal figure.
+    expect(r.body.contents).toBeCloseTo(4 * types.body.nominal.freeGasL, -1);
+  });
+
+  it('refuses bad readings with field messages and writes nothing', async () => {
+    const src = await fm.post(`/api/sites/${siteId}/sources`, tank('Tank C'));
+    const before = await count('source_reading', 'source_id = ?', [src.body.id]);
+    const cases = [
+      [{ kind: 'level_percent', value: 130, takenAt: new Date().toISOString() }, 'value'],
+      [{ kind: 'level_percent', value: 50, takenAt: 'yesterday' }, 'takenAt'],
+      [{ kind: 'kg', value: 12_000, takenAt: new Date().toISOString() }, 'value'],
+      [{ kind: 'bank_gauges', dutyBar: 100, standbyBar: 100, takenAt: new Date().toISOString() }, 'kind'],
+      [{ kind: 'level_percent', value: 50, takenAt: new Date(Date.now() + 86_400_000).toISOString() }, 'takenAt'],
+    ] as const;
+    for (const [body, path] of cases) {
+      const res = await fm.post(`/api/sources/${src.body.id}/readings`, body);
+      expect(res.status, JSON.stringify(body)).toBe(400);
+      expect(res.body.error.details.map((d: { path: string }) => d.path)).toContain(path);
+    }
+    expect(await count('source_reading', 'source_id = ?', [src.body.id])).toBe(before);
+  });
+
+  it('refuses a source without what its type needs, and an unknown time zone in a scenario date', async () => {
+    const res = await fm.post(`/api/sites/${siteId}/sources`, { name: 'Tank D', type: 'bulk_liquid', gasCode: 'O2' });
+    expect(res.status).toBe(400);
+    expect(res.body.error.details.map((d: { path: string }) => d.path).sort()).toEqual(['capacityKg', 'evaporationPercentPerDay']);
+    const sc = await fm.post(`/api/sites/${siteId}/scenarios`, { name: 'Bad', multiplier: 1.2, fromLocal: '2027-03-28T01:30' });
+    // 01:30 on 28 March 2027 does not exist in Europe/London (clocks go forward at 01:00).
+    expect(sc.status).toBe(400);
+    expect(sc.body.error.details[0].path).toBe('fromLocal');
+  });
+
+  it('a scenario changes the forecast without touching the baseline', async () => {
+    const src = await fm.post(`/api/sites/${siteId}/sources`, tank('Tank E'));
+    const ward = await fm.post(`/api/sites/${siteId}/wards`, { name: 'Ward E', department: 'ward', beds: 20 });
+    await fm.put(`/api/wards/${ward.body.id}/feeds`, { feeds: [{ sourceId: src.body.id, gasCode: 'O2', role: 'primary' }] });
+    await fm.put(`/api/wards/${ward.body.id}/therapy`, { lines: [{ gasCode: 'O2', device: 'custom', patients: 20, flowLMin: 10 }] });
+    await fm.post(`/api/sources/${src.body.id}/readings`, { kind: 'kg', value: 6000, takenAt: new Date().toISOString() });
+    const from = DateTime.now().setZone('Europe/London').startOf('hour').toFormat("yyyy-MM-dd'T'HH:mm");
+    const sc = await fm.post(`/api/sites/${siteId}/scenarios`, { name: `Double ${Date.now()}`, multiplier: 2, fromLocal: from });
+    expect(sc.status).toBe(200);
+    const base = await fm.get(`/api/sources/${src.body.id}?draws=0`);
+    const doubled = await fm.get(`/api/sources/${src.body.id}?draws=0&scenario=${sc.body.id}`);
+    const hBase = (new Date(base.body.outlook.emptyAt).getTime() - Date.now()) / 3_600_000;
+    const hDouble = (new Date(doubled.body.outlook.emptyAt).getTime() - Date.now()) / 3_600_000;
+    // Twice the demand empties in about half the time (evaporation is below demand in both).
+    expect(hDouble / hBase).toBeGreaterThan(0.47);
+    expect(hDouble / hBase).toBeLessThan(0.53);
+    const again = await fm.get(`/api/sources/${src.body.id}?draws=0`);
+    expect(again.body.outlook.emptyAt).toBe(base.body.outlook.emptyAt);
+  });
+
+  it('records every write in the audit log with before and after', async () => {
+    const admin = await signedIn(app, org.users.administrator);
+    const src = await fm.post(`/api/sites/${siteId}/sources`, tank('Tank F'));
+    await fm.put(`/api/sources/${src.body.id}`, tank('Tank F renamed'));
+    const log = await admin.get(`/api/audit?entity=supply_source&q=${src.body.id}`);
+    const update = log.body.items.find((i: { action: string }) => i.action === 'update');
+    expect(update.before.name).toBe('Tank F');
+    expect(update.after.name).toBe('Tank F renamed');
+  });
+});
