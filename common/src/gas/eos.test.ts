@@ -100,6 +100,26 @@ describe('compressibility against the reference equations at random states of th
   });
 });
 
+describe('CO2 near its critical point', () => {
+  it('computes every state within 10 K and 20 bar of the critical point with the full reference equation', () => {
+    // reference equation of state for CO2 (Span & Wagner, 1996), evaluated by the slow bracketing solver
+    const eos = REFERENCE_EOS.CO2;
+    for (let T = 294.5; T <= 314; T += 1.5) {
+      for (let p = 54; p <= 93; p += 3) {
+        if (T < criticalTemperatureK('CO2') && p > vapourPressureBarAbs('CO2', T)) continue;
+        const r = compressibility('CO2', T, p);
+        expect(r.method).toMatch(/Span & Wagner \(1996\)/);
+        const zRef = referenceZ(eos, T, referenceGasDensityMolM3(eos, T, p * 1e5));
+        expect(Math.abs(r.Z / zRef - 1)).toBeLessThan(1e-6);
+      }
+    }
+    // just outside the region the short equation takes over without a visible step (< 0.5 %)
+    const inside = compressibility('CO2', 314.1, 74).Z;
+    const outside = compressibility('CO2', 314.2, 74).Z;
+    expect(Math.abs(inside / outside - 1)).toBeLessThan(0.005);
+  });
+});
+
 describe('compressibility: physics and inverse', () => {
   it('tends to the ideal gas as pressure tends to zero', () => {
     fc.assert(

@@ -1,8 +1,9 @@
 import { InvalidInputError } from '../api/errors';
 import { GAS_INFO, MAX_PRESSURE_BAR_ABS, PURE_FLUIDS, isGasCode, isLiquefiedGas, type GasCode } from './gases';
-import { criticalTemperatureK, vapourPressureBarAbs } from './saturation';
+import { criticalTemperatureK, saturatedVapourDensityKgM3, vapourPressureBarAbs } from './saturation';
 import { equationFor } from './equations';
 import { solution, solveGasDensity, zFromDensity } from './helmholtz-model';
+import { REFERENCE_EOS, referenceGasDensityMolM3, referenceZ, refineGasDensityMolM3 } from './reference-eos';
 
 /**
  * Real-gas engine entry points: compressibility factor and density of every Plenum gas from (T, p),
@@ -14,6 +15,7 @@ import { solution, solveGasDensity, zFromDensity } from './helmholtz-model';
  * temperature are liquid and rejected. Accuracy against the reference equations over 233–333 K,
  * 1–300 bar: see the unit tests (≤ 0.1 % in Z for O2, N2, air, Ar, He; ≤ 0.5 % for CO2 and N2O
  * outside the critical region). Mixtures: GERG-2008 mixing, no reference values to check against.
+ * CO2 within 10 K and 20 bar of its critical point: the full Span & Wagner (1996) equation.
  */
 
 export type Phase = 'gas' | 'supercritical' | 'liquid';
@@ -92,6 +94,7 @@ export function compressibility(gas: GasCode, temperatureK: number, pressureBarA
   validateState(gas, temperatureK, pressureBarAbs);
   const Z = solveZ(gas, temperatureK, pressureBarAbs);
   const eq = equationFor(gas);
+  const method = gas === 'CO2' && inCo2CriticalRegion(temperatureK, pressureBarAbs) ? CO2_CRITICAL_METHOD : eq.method;
   const M = GAS_INFO[gas].molarMassKgMol;
   // the equation's own gas constant keeps Z = p/(ρRT) exactly as the reference equation defines it
   const idealDensityKgM3 = (pressureBarAbs * 1e5 * M) / (eq.gasConstant * temperatureK);
@@ -101,12 +104,24 @@ export function compressibility(gas: GasCode, temperatureK: number, pressureBarA
     densityKgM3: idealDensityKgM3 / Z,
     idealDensityKgM3,
     phase: temperatureK > pc.temperatureK && pressureBarAbs > pc.pressureBarAbs ? 'supercritical' : 'gas',
-    method: eq.method,
+    method,
   };
+}
+
+const CO2_CRITICAL = { temperatureK: 304.1282, pressureBarAbs: 73.773 };
+const CO2_CRITICAL_METHOD = 'Span & Wagner (1996) reference equation of state (CO2 critical region: within 10 K and 20 bar of the critical point)';
+
+/**
+ * Near its critical point CO2 is so compressible that no short form follows it (the fitted one is
+ * several % off there and can even loop), so these rare states use the full reference equation.
+ */
+function inCo2CriticalRegion(temperatureK: number, pressureBarAbs: number): boolean {
+  return Math.abs(temperatureK - CO2_CRITICAL.temperatureK) <= 10 && Math.abs(pressureBarAbs - CO2_CRITICAL.pressureBarAbs) <= 20;
 }
 
 /** Z at (T, p) without input checks (callers validate); throws if no gas-side root exists. */
 function solveZ(gas: GasCode, temperatureK: number, pressureBarAbs: number): number {
+  if (gas === 'CO2' && inCo2CriticalRegion(temperatureK, pressureBarAbs)) return co2CriticalRegionZ(temperatureK, pressureBarAbs);
   solveGasDensity(equationFor(gas), temperatureK, pressureBarAbs * 1e5);
   if (!solution.converged) {
     throw new InvalidInputError(
@@ -115,6 +130,27 @@ function solveZ(gas: GasCode, temperatureK: number, pressureBarAbs: number): num
     );
   }
   return solution.Z;
+}
+
+/**
+ * CO2 near its critical point from the Span & Wagner (1996) equation: Newton from the short
+ * equation's density (a few % off here), or a bracketing march where that start fails. Below the
+ * critical temperature the root must stay on the vapour side of saturation.
+ */
+function co2CriticalRegionZ(temperatureK: number, pressureBarAbs: number): number {
+  const eos = REFERENCE_EOS.CO2;
+  const pressurePa = pressureBarAbs * 1e5;
+  solveGasDensity(equationFor('CO2'), temperatureK, pressurePa);
+  let rho: number | null = null;
+  if (solution.converged) {
+    rho = refineGasDensityMolM3(eos, temperatureK, pressurePa, solution.delta * equationFor('CO2').reducingDensityMolM3);
+    if (rho !== null && temperatureK < CO2_CRITICAL.temperatureK) {
+      const vapourSide = (1.02 * saturatedVapourDensityKgM3('CO2', temperatureK)) / eos.molarMassKgMol;
+      if (rho > vapourSide) rho = null;
+    }
+  }
+  if (rho === null) rho = referenceGasDensityMolM3(eos, temperatureK, pressurePa);
+  return referenceZ(eos, temperatureK, rho);
 }
 
 /** Z only, validated (the fast path for callers that need no density). Arguments as compressibility(). */
@@ -146,5 +182,9 @@ export function pressureFromMolarDensity(gas: GasCode, temperatureK: number, mol
     throw new InvalidInputError(`Density must be a non-negative finite number, got ${molarDensity}`, [{ path: 'molarDensity', message: 'must be ≥ 0' }]);
   }
   const eq = equationFor(gas);
-  return (molarDensity * eq.gasConstant * temperatureK * zFromDensity(eq, temperatureK, molarDensity)) / 1e5;
+  const p = (molarDensity * eq.gasConstant * temperatureK * zFromDensity(eq, temperatureK, molarDensity)) / 1e5;
+  if (gas === 'CO2' && inCo2CriticalRegion(temperatureK, p)) {
+    return (molarDensity * eq.gasConstant * temperatureK * referenceZ(REFERENCE_EOS.CO2, temperatureK, molarDensity)) / 1e5;
+  }
+  return p;
 }

@@ -1,8 +1,9 @@
 /**
  * The published reference equations of state (residual Helmholtz energy) of the pure gases, used to
  * generate the dense fitting data for coefficients.ts (scripts/fit-eos.ts) and by tests as a second,
- * independent check. NOT used by the engine at run time: these have 12–42 terms, some with
- * non-analytic critical-region terms, and are too slow for the planning screens.
+ * independent check. At run time the engine uses one of them only for CO2 within ±10 K and ±20 bar
+ * of its critical point, where no short form is accurate (eos.ts); elsewhere they are too slow
+ * (12–42 terms, non-analytic critical-region terms, a bracketing density solver).
  *
  * α^r(δ, τ) with δ = ρ/ρ_r, τ = T_r/T. Term kinds:
  *   power:   n·δ^d·τ^t·exp(−δ^l)                       (no exponential when l = 0)
@@ -304,20 +305,33 @@ export function referencePressurePa(eos: ReferenceEos, temperatureK: number, mol
 
 /**
  * Gas-side (vapour or supercritical) density at (T, p) from a reference equation, mol/m³: marches up
- * in density from zero until the pressure passes p, then bisects. Slow and robust (dev and test use).
+ * in density from zero until the pressure passes p (shortening the step if the pressure starts to
+ * fall, i.e. past the vapour spinodal), then bisects. Slow and robust.
  */
 export function referenceGasDensityMolM3(eos: ReferenceEos, temperatureK: number, pressurePa: number): number {
   let lo = 0;
-  let hi = pressurePa / (eos.gasConstant * temperatureK) * 0.5;
-  let pPrev = 0;
-  for (let k = 0; k < 200; k++) {
-    const pHi = referencePressurePa(eos, temperatureK, hi);
-    if (pHi >= pressurePa) break;
-    if (pHi < pPrev) throw new Error(`no gas root at ${temperatureK} K, ${pressurePa} Pa (pressure falls with density)`);
-    pPrev = pHi;
-    lo = hi;
-    hi *= 1.05;
+  let pLo = 0;
+  let factor = 1.05;
+  let rho = (pressurePa / (eos.gasConstant * temperatureK)) * 0.5;
+  let hi = NaN;
+  for (let k = 0; k < 2000; k++) {
+    const p = referencePressurePa(eos, temperatureK, rho);
+    if (p >= pressurePa) {
+      hi = rho;
+      break;
+    }
+    if (p < pLo) {
+      // past a pressure maximum: step back with a finer step
+      factor = 1 + (factor - 1) / 4;
+      if (factor - 1 < 1e-9) break;
+      rho = lo * factor;
+      continue;
+    }
+    lo = rho;
+    pLo = p;
+    rho = lo === 0 ? rho : lo * factor;
   }
+  if (Number.isNaN(hi)) throw new Error(`no gas root at ${temperatureK} K, ${pressurePa} Pa`);
   for (let k = 0; k < 200; k++) {
     const mid = 0.5 * (lo + hi);
     if (referencePressurePa(eos, temperatureK, mid) < pressurePa) lo = mid;
@@ -325,4 +339,24 @@ export function referenceGasDensityMolM3(eos: ReferenceEos, temperatureK: number
     if (hi - lo < 1e-13 * hi) break;
   }
   return 0.5 * (lo + hi);
+}
+
+/**
+ * Gas-side density at (T, p) from a reference equation by Newton's method (slope by central
+ * difference) from a close first guess, mol/m³; null when it does not converge on a rising part of
+ * the isotherm, so the caller can fall back to referenceGasDensityMolM3.
+ */
+export function refineGasDensityMolM3(eos: ReferenceEos, temperatureK: number, pressurePa: number, guessMolM3: number): number | null {
+  let rho = guessMolM3;
+  for (let k = 0; k < 30; k++) {
+    const h = rho * 1e-6;
+    const p = referencePressurePa(eos, temperatureK, rho);
+    const slope = (referencePressurePa(eos, temperatureK, rho + h) - referencePressurePa(eos, temperatureK, rho - h)) / (2 * h);
+    if (!(slope > 0)) return null;
+    const next = rho - (p - pressurePa) / slope;
+    if (!(next > 0) || Math.abs(next / guessMolM3 - 1) > 0.5) return null;
+    if (Math.abs(next - rho) <= 1e-12 * rho) return next;
+    rho = next;
+  }
+  return null;
 }
