@@ -2,6 +2,9 @@ import { z } from 'zod';
 import { CAPACITY_GAS_CODES, DEFAULT_RULE_SETS, DEPARTMENTS, diversityRuleSetSchema } from '../capacity/diversity-rules';
 import { EN13348_TUBES } from '../capacity/pipe-hydraulics';
 import { DEFAULT_FITTINGS_ALLOWANCE_PERCENT, NOMINAL_DISTRIBUTION_PRESSURE_KPA } from '../capacity/pipe-run';
+import type { CapacityGasCode, Department, DiversityRuleSet, RuleSource } from '../capacity/diversity-rules';
+import type { LimitKind } from '../capacity/surge-headroom';
+import type { ReferenceCode } from '../gas/reference-conditions';
 
 /**
  * Request schemas of the capacity module: pipeline zones, pipe runs, diversity rule sets, the
@@ -140,3 +143,203 @@ export const signoffSchema = z.object({
   peakHoursPerDay: capacityQuerySchema.shape.peakHoursPerDay,
 });
 export type SignoffInput = z.infer<typeof signoffSchema>;
+
+// ---------------------------------------------------------------------------------------------
+// responses of the capacity check (the server computes them; the screen shows them)
+
+export interface LimitOut {
+  kind: LimitKind;
+  name: string;
+  /** where the limit sits: a supply source or a zone's pipe run */
+  scope: 'source' | 'zone';
+  ownerId: number;
+  capacityLMin: number;
+  flowLMin: number;
+  marginLMin: number;
+  utilisation: number;
+  ok: boolean;
+  detail: string | null;
+  /** the limit nearest to being exceeded for its gas */
+  limiting: boolean;
+}
+
+export interface PipeRunOut {
+  id: number;
+  name: string;
+  tube: string;
+  innerDiameterMm: number | null;
+  lengthM: number;
+  effectiveLengthM: number | null;
+  flowLMin: number;
+  pressureDropKPa: number | null;
+  allowedDropKPa: number | null;
+  outletPressureKPa: number | null;
+  utilisation: number | null;
+  withinAllowance: boolean | null;
+  capacityLMin: number | null;
+  velocityMS: number | null;
+  reynolds: number | null;
+  regime: string | null;
+  frictionFactor: number | null;
+  lineDensityKgM3: number | null;
+  lineZ: number | null;
+  assumptions: string[];
+  error: string | null;
+  /** the limit nearest to being exceeded for its gas */
+  limiting: boolean;
+}
+
+export interface ZoneOut {
+  id: number;
+  name: string;
+  department: Department;
+  terminalUnits: number;
+  sourceId: number | null;
+  ruleSet: { key: string; name: string; builtin: boolean };
+  diversityMethod: 'rule_set' | 'binomial';
+  designFlowLMin: number | null;
+  method: string | null;
+  formula: string | null;
+  countedAs: string | null;
+  ruleSource: string | null;
+  verified: boolean | null;
+  warning: string | null;
+  /** why no design flow could be found (no documented rule) */
+  refused: string | null;
+  pipeRuns: PipeRunOut[];
+  headroom: { extraPatients: number | null; extraPatientsWithSource: number | null; limitedBy: { scope: 'zone' | 'source'; kind: LimitKind; name: string } | null } | null;
+}
+
+export interface ManifoldOut {
+  cylinder: string;
+  cylinderFreeGasL: number;
+  cylindersPerBank: number;
+  bankFreeGasL: number;
+  bankDurationAtDesignH: number | null;
+  bankDurationAtForecastH: number | null;
+  changeoverIntervalDays: number | null;
+  cylindersPerWeekAtForecast: number | null;
+  cylindersPerWeekAtDesign: number | null;
+  recommended: { label: string; cylindersPerBank: number; dailyDemandL: number; hoursPerDay: number } | null;
+  recommendedNote: string | null;
+  source: string;
+}
+
+export interface ReserveOut {
+  rule: 'four_hour_secondary' | 'average_day';
+  basisFlowLMin: number;
+  requiredFreeGasL: number;
+  heldFreeGasL: number | null;
+  cylindersRequired: number | null;
+  cylinderName: string | null;
+  covers: number | null;
+  coversUnit: 'h' | 'days';
+  meets: boolean | null;
+  source: string;
+}
+
+export interface SourceOut {
+  id: number;
+  name: string;
+  type: string;
+  zoneIds: number[];
+  designFlowLMin: number;
+  designFlowNote: string;
+  forecastFlowLMin: number | null;
+  forecastBasis: string | null;
+  limits: LimitOut[];
+  missingLimit: string | null;
+  manifold: ManifoldOut | null;
+  reserves: { reserveSources: { id: number; name: string }[]; rules: ReserveOut[]; note: string | null };
+  headroom: { extraPatients: number | null; firstLimit: { kind: LimitKind; name: string } | null; overloaded: boolean };
+}
+
+export interface GasOut {
+  gasCode: CapacityGasCode;
+  designFlowLMin: number;
+  totalNote: string;
+  /** zones left out of the total because no rule gives their flow */
+  incomplete: boolean;
+  zones: ZoneOut[];
+  sources: SourceOut[];
+  headroom: { extraPatients: number | null; limits: { sourceId: number; kind: LimitKind; name: string; extraPatients: number }[]; note: string | null };
+  limiting: LimitOut | null;
+  ruleSources: RuleSource[];
+  warnings: string[];
+}
+
+export interface SiteCapacity {
+  reference: { code: ReferenceCode; label: string; atmosphericBar: number };
+  options: CapacityOptions & { vaporiserDeratingDefault: number };
+  gases: GasOut[];
+  method: { topic: string; text: string; source: string }[];
+  caution: string;
+}
+
+export interface CapacityOptions {
+  /** flow of one extra surge patient, L/min */
+  flowPerPatientLMin: number;
+  /** overrides every vaporiser's derating (cold-weather check) */
+  vaporiserDerating?: number;
+  /** operating hours per day at peak flow, for manifold sizing */
+  peakHoursPerDay: number;
+}
+
+export interface PipeRunRow extends PipeRunInput {
+  id: number;
+  zoneId: number;
+}
+
+export interface ZoneRow {
+  id: number;
+  siteId: number;
+  name: string;
+  gasCode: CapacityGasCode;
+  department: Department;
+  terminalUnits: number;
+  sourceId: number | null;
+  ruleSetId: number | null;
+  builtinRuleSet: string;
+  diversityMethod: (typeof DIVERSITY_METHODS)[number];
+  unitFlowLMin: number | null;
+  useProbability: number | null;
+  confidence: number | null;
+  notes: string;
+  pipeRuns: PipeRunRow[];
+  updatedAt: string;
+}
+
+/** A rule set as listed: a shipped one (id null, read-only) or one of the organisation's. */
+export interface RuleSetRow {
+  id: number | null;
+  key: string;
+  name: string;
+  builtin: boolean;
+  basedOn: string | null;
+  rules: DiversityRuleSet;
+  usedByZones: number | null;
+  updatedAt: string | null;
+}
+
+export interface SignoffRow {
+  id: number;
+  siteId: number;
+  engineerName: string;
+  userId: number | null;
+  signedAt: string;
+  inputsHash: string;
+  note: string;
+}
+
+/** The capacity check of a site as the API returns it (and as a sign-off stores it). */
+export interface CapacityReport extends SiteCapacity {
+  site: { id: number; name: string };
+  generatedAt: string;
+  inputsHash: string;
+  sources: { id: number; name: string; type: string; gasCode: string }[];
+  zoneCount: number;
+}
+
+export interface CapacityResponse extends CapacityReport {
+  latestSignoff: (SignoffRow & { current: boolean }) | null;
+}

@@ -7,7 +7,7 @@ import { isGasCode, isLiquefiedGas } from '@common/gas/gases';
 import { freeGasLitresPerKg, type ReferenceCode } from '@common/gas/reference-conditions';
 import { cylinderTypeName } from '@common/catalogue/cylinder-type';
 import { meanDailyDemandL } from '@common/forecast/demand-model';
-import type { CapacityQuery, PipeRunInput, RuleSetCreateInput, RuleSetUpdateInput, SignoffInput, ZoneInput } from '@common/schemas/capacity.schema';
+import type { CapacityQuery, CapacityReport, CapacityResponse, PipeRunInput, RuleSetCreateInput, RuleSetRow, RuleSetUpdateInput, SignoffInput, SignoffRow, ZoneInput, ZoneRow } from '@common/schemas/capacity.schema';
 import { InvalidInputError } from '@common/api/errors';
 import { db } from '../../db/db';
 import { CapacitySignoff, PipeRun, PipelineZone, RuleSet } from '../../db/entities/capacity.entity';
@@ -20,7 +20,7 @@ import { recordAudit, whoOf } from '../audit/audit.service';
 import { getSiteFor } from '../sites/sites.service';
 import { loadSiteModels, type SiteModel } from '../forecast/site-model';
 import { measuredLPerDay, modelledLines } from '../forecast/forecast.service';
-import { assessSiteCapacity, type SiteCapacity, type SourceData, type ZoneData } from './site-capacity';
+import { assessSiteCapacity, type SourceData, type ZoneData } from './site-capacity';
 
 // ---------- presenters ----------
 
@@ -39,18 +39,18 @@ export function presentPipeRun(r: PipeRun) {
   };
 }
 
-export function presentZone(z: PipelineZone, runs: PipeRun[]) {
+export function presentZone(z: PipelineZone, runs: PipeRun[]): ZoneRow {
   return {
     id: z.id,
     siteId: z.siteId,
     name: z.name,
-    gasCode: z.gasCode,
-    department: z.department,
+    gasCode: z.gasCode as ZoneRow['gasCode'],
+    department: z.department as ZoneRow['department'],
     terminalUnits: z.terminalUnits,
     sourceId: z.sourceId,
     ruleSetId: z.ruleSetId,
     builtinRuleSet: z.builtinRuleSet,
-    diversityMethod: z.diversityMethod,
+    diversityMethod: z.diversityMethod as ZoneRow['diversityMethod'],
     unitFlowLMin: z.unitFlowLMin,
     useProbability: z.useProbability,
     confidence: z.confidence,
@@ -60,7 +60,7 @@ export function presentZone(z: PipelineZone, runs: PipeRun[]) {
   };
 }
 
-export function presentRuleSet(r: RuleSet, usedByZones = 0) {
+export function presentRuleSet(r: RuleSet, usedByZones = 0): RuleSetRow {
   return {
     id: r.id,
     key: `org:${r.id}`,
@@ -73,12 +73,12 @@ export function presentRuleSet(r: RuleSet, usedByZones = 0) {
   };
 }
 
-function presentBuiltin(key: string) {
+function presentBuiltin(key: string): RuleSetRow {
   const set = DEFAULT_RULE_SETS[key];
   return { id: null, key, name: set.name, builtin: true, basedOn: null, rules: set, usedByZones: null, updatedAt: null };
 }
 
-function presentSignoff(s: CapacitySignoff, withReport: boolean) {
+function presentSignoff(s: CapacitySignoff, withReport: boolean): SignoffRow & { report?: unknown } {
   return {
     id: s.id,
     siteId: s.siteId,
@@ -459,14 +459,6 @@ function hashInputs(input: Loaded['input']): string {
   return createHash('sha256').update(canonical).digest('hex');
 }
 
-export interface CapacityReport extends SiteCapacity {
-  site: { id: number; name: string };
-  generatedAt: string;
-  inputsHash: string;
-  sources: { id: number; name: string; type: string; gasCode: string }[];
-  zoneCount: number;
-}
-
 async function buildReport(actor: Actor, site: Site, options: CapacityQuery): Promise<CapacityReport> {
   const loaded = await loadCapacityInput(actor, site, options);
   const result = assessSiteCapacity(loaded.input);
@@ -481,7 +473,7 @@ async function buildReport(actor: Actor, site: Site, options: CapacityQuery): Pr
 }
 
 /** The capacity check of a site, with the latest sign-off and whether it still matches the inputs. */
-export async function getCapacity(actor: Actor, siteId: number, options: CapacityQuery) {
+export async function getCapacity(actor: Actor, siteId: number, options: CapacityQuery): Promise<CapacityResponse> {
   const site = await getSiteFor(actor, siteId);
   const report = await buildReport(actor, site, options);
   const latest = await db().getRepository(CapacitySignoff).findOne({ where: { siteId }, order: { signedAt: 'DESC', id: 'DESC' } });

@@ -20,10 +20,13 @@ import {
   computeDurationH,
   sizeCylinderManifold,
 } from '@common/capacity/supply-capacity';
-import { assessCapacityLimits, computeSurgeHeadroom, resolveCapacityLimit, type CapacityLimit, type LimitAssessment, type LimitKind } from '@common/capacity/surge-headroom';
+import { assessCapacityLimits, computeSurgeHeadroom, resolveCapacityLimit, type CapacityLimit, type LimitAssessment } from '@common/capacity/surge-headroom';
 import { CAPACITY_CAUTION } from '@common/capacity/calc-verbs';
 import type { GasCode } from '@common/gas/gases';
+import type { CapacityOptions, GasOut, LimitOut, ManifoldOut, PipeRunOut, ReserveOut, SiteCapacity, SourceOut, ZoneOut } from '@common/schemas/capacity.schema';
 import { REFERENCE_CONDITIONS, type ReferenceCode } from '@common/gas/reference-conditions';
+
+export type { CapacityOptions, SiteCapacity };
 
 export { CAPACITY_CAUTION };
 
@@ -75,152 +78,12 @@ export interface SourceData {
   forecastBasis: string | null;
 }
 
-export interface CapacityOptions {
-  /** flow of one extra surge patient, L/min */
-  flowPerPatientLMin: number;
-  /** overrides every vaporiser's derating (cold-weather check) */
-  vaporiserDerating?: number;
-  /** operating hours per day at peak flow, for manifold sizing */
-  peakHoursPerDay: number;
-}
 
 export interface SiteCapacityInput {
   site: { referenceCode: ReferenceCode; atmosphericBar: number };
   zones: ZoneData[];
   sources: SourceData[];
   options: CapacityOptions;
-}
-
-// ---------------------------------------------------------------------------------------------
-// output
-
-export interface LimitOut {
-  kind: LimitKind;
-  name: string;
-  /** where the limit sits: a supply source or a zone's pipe run */
-  scope: 'source' | 'zone';
-  ownerId: number;
-  capacityLMin: number;
-  flowLMin: number;
-  marginLMin: number;
-  utilisation: number;
-  ok: boolean;
-  detail: string | null;
-  /** the limit nearest to being exceeded for its gas */
-  limiting: boolean;
-}
-
-export interface PipeRunOut {
-  id: number;
-  name: string;
-  tube: string;
-  innerDiameterMm: number | null;
-  lengthM: number;
-  effectiveLengthM: number | null;
-  flowLMin: number;
-  pressureDropKPa: number | null;
-  allowedDropKPa: number | null;
-  outletPressureKPa: number | null;
-  utilisation: number | null;
-  withinAllowance: boolean | null;
-  capacityLMin: number | null;
-  velocityMS: number | null;
-  reynolds: number | null;
-  regime: string | null;
-  frictionFactor: number | null;
-  lineDensityKgM3: number | null;
-  lineZ: number | null;
-  assumptions: string[];
-  error: string | null;
-  /** the limit nearest to being exceeded for its gas */
-  limiting: boolean;
-}
-
-export interface ZoneOut {
-  id: number;
-  name: string;
-  department: Department;
-  terminalUnits: number;
-  sourceId: number | null;
-  ruleSet: { key: string; name: string; builtin: boolean };
-  diversityMethod: 'rule_set' | 'binomial';
-  designFlowLMin: number | null;
-  method: string | null;
-  formula: string | null;
-  countedAs: string | null;
-  ruleSource: string | null;
-  verified: boolean | null;
-  warning: string | null;
-  /** why no design flow could be found (no documented rule) */
-  refused: string | null;
-  pipeRuns: PipeRunOut[];
-  headroom: { extraPatients: number | null; extraPatientsWithSource: number | null; limitedBy: { scope: 'zone' | 'source'; kind: LimitKind; name: string } | null } | null;
-}
-
-export interface ManifoldOut {
-  cylinder: string;
-  cylinderFreeGasL: number;
-  cylindersPerBank: number;
-  bankFreeGasL: number;
-  bankDurationAtDesignH: number | null;
-  bankDurationAtForecastH: number | null;
-  changeoverIntervalDays: number | null;
-  cylindersPerWeekAtForecast: number | null;
-  cylindersPerWeekAtDesign: number | null;
-  recommended: { label: string; cylindersPerBank: number; dailyDemandL: number; hoursPerDay: number } | null;
-  recommendedNote: string | null;
-  source: string;
-}
-
-export interface ReserveOut {
-  rule: 'four_hour_secondary' | 'average_day';
-  basisFlowLMin: number;
-  requiredFreeGasL: number;
-  heldFreeGasL: number | null;
-  cylindersRequired: number | null;
-  cylinderName: string | null;
-  covers: number | null;
-  coversUnit: 'h' | 'days';
-  meets: boolean | null;
-  source: string;
-}
-
-export interface SourceOut {
-  id: number;
-  name: string;
-  type: string;
-  zoneIds: number[];
-  designFlowLMin: number;
-  designFlowNote: string;
-  forecastFlowLMin: number | null;
-  forecastBasis: string | null;
-  limits: LimitOut[];
-  missingLimit: string | null;
-  manifold: ManifoldOut | null;
-  reserves: { reserveSources: { id: number; name: string }[]; rules: ReserveOut[]; note: string | null };
-  headroom: { extraPatients: number | null; firstLimit: { kind: LimitKind; name: string } | null; overloaded: boolean };
-}
-
-export interface GasOut {
-  gasCode: CapacityGasCode;
-  designFlowLMin: number;
-  totalNote: string;
-  /** zones left out of the total because no rule gives their flow */
-  incomplete: boolean;
-  zones: ZoneOut[];
-  sources: SourceOut[];
-  headroom: { extraPatients: number | null; limits: { sourceId: number; kind: LimitKind; name: string; extraPatients: number }[]; note: string | null };
-  limiting: LimitOut | null;
-  ruleSources: RuleSource[];
-  warnings: string[];
-}
-
-export interface SiteCapacity {
-  reference: { code: ReferenceCode; label: string; atmosphericBar: number };
-  options: CapacityOptions & { vaporiserDeratingDefault: number };
-  gases: GasOut[];
-  method: { topic: string; text: string; source: string }[];
-  caution: string;
 }
 
 // ---------------------------------------------------------------------------------------------
