@@ -14,8 +14,9 @@
  * structure-optimisation idea of Wagner 1974 / Setzmann & Wagner 1989, greatly simplified), followed
  * by a few Lawson (iteratively reweighted) passes that lower the largest deviation.
  *
- * Run: npx tsx scripts/fit-eos.ts            (prints the report)
- *      npx tsx scripts/fit-eos.ts --write    (also rewrites common/src/gas/coefficients.ts)
+ * Run: npx tsx scripts/fit-eos.ts                  (fits and prints the report, ~30 s)
+ *      npx tsx scripts/fit-eos.ts --write          (also rewrites common/src/gas/coefficients.ts)
+ *      npx tsx scripts/fit-eos.ts --validate-only  (only the held-out check against the shared table)
  */
 import { writeFileSync } from 'node:fs';
 import { fileURLToPath } from 'node:url';
@@ -318,8 +319,37 @@ function oxygenNormalBoilingPoint(): { T: number; rhoLiquidKgM3: number } {
   return { T, rhoLiquidKgM3: liquidDensity(T) * eos.molarMassKgMol };
 }
 
-function main(): void {
+/**
+ * Held-out check: the run-time engine (with the coefficients now on disk) against the shared
+ * reference table, as a small Markdown table. Imported late so that a just-written coefficients.ts
+ * is the one evaluated.
+ */
+async function validateAgainstSharedTable(): Promise<void> {
+  const { readFileSync } = await import('node:fs');
+  const { compressibility } = await import('../common/src/gas/eos');
+  const text = readFileSync(new URL('../../shared/reference/z-grid.csv', import.meta.url), 'utf8');
+  const rows = text.trim().split(/\r?\n/).slice(1).map((l) => l.split(','));
+  const worst = new Map<string, { z: number; rho: number; n: number; method: string }>();
+  for (const [gas, t, p, z, rho] of rows) {
+    if (gas === 'CH4') continue;
+    const r = compressibility(gas as PureGasCode, Number(t), Number(p));
+    const w = worst.get(gas) ?? { z: 0, rho: 0, n: 0, method: r.method };
+    w.z = Math.max(w.z, Math.abs(r.Z / Number(z) - 1));
+    w.rho = Math.max(w.rho, Math.abs(r.densityKgM3 / Number(rho) - 1));
+    w.n++;
+    worst.set(gas, w);
+  }
+  console.log('\n| gas | states | max \\|ΔZ/Z\\| | max \\|Δρ/ρ\\| | method |');
+  console.log('| --- | ---: | ---: | ---: | --- |');
+  for (const [gas, w] of worst) console.log(`| ${gas} | ${w.n} | ${pct(w.z)} | ${pct(w.rho)} | ${w.method} |`);
+}
+
+async function main(): Promise<void> {
   const write = process.argv.includes('--write');
+  if (process.argv.includes('--validate-only')) {
+    await validateAgainstSharedTable();
+    return;
+  }
   const nbp = oxygenNormalBoilingPoint();
   console.log(`O2 normal boiling point (Schmidt & Wagner 1985): T = ${nbp.T.toFixed(3)} K, saturated liquid ${nbp.rhoLiquidKgM3.toFixed(2)} kg/m³`);
   const plan: [PureGasCode, 'sw' | 'stepwise' | 'sw+' | 'swpolar+', number][] = [
@@ -337,6 +367,7 @@ function main(): void {
     console.log(`${gas}: ${m.terms.length} terms (${mode}), ${m.samples} samples, max ${pct(m.maxDev)}, rms ${pct(m.rmsDev)}`);
   }
   if (write) writeCoefficients(models);
+  await validateAgainstSharedTable();
 }
 
 function writeCoefficients(models: FittedModel[]): void {
@@ -393,5 +424,5 @@ ${blocks.join('\n')}
   console.log(`wrote ${target}`);
 }
 
-if (!process.env.FIT_EOS_NO_MAIN) main();
+if (!process.env.FIT_EOS_NO_MAIN) await main();
 export { fitGas };

@@ -114,6 +114,13 @@ describe('compressed-gas contents', () => {
     expect(warm.equivalentGaugeBarAtReferenceTemperature).toBeLessThan(115 * 0.95);
   });
 
+  it('warns when the same contents would exceed the validated 350 bar at the other temperature', () => {
+    const hot = pressureAtTemperature({ gas: 'O2', gaugeBar: 300, temperatureC: 15, newTemperatureC: 60 });
+    expect(hot.pressureBarAbs).toBeGreaterThan(350);
+    expect(hot.cautions.join(' ')).toMatch(/extrapolated/);
+    expect(pressureAtTemperature({ gas: 'O2', gaugeBar: 200, temperatureC: 15, newTemperatureC: 30 }).cautions).toEqual([]);
+  });
+
   it('carries the 50:50 nitrous oxide/oxygen separation caution when cold', () => {
     // domain facts §5: below about −6 °C N2O condenses out (hypoxic hazard); store above 10 °C; ≥ 24 h flat at ≥ 5 °C, invert
     const cold = compressedContents({ gas: 'N2O_O2_50', waterCapacityL: 10, gaugeBar: 137, temperatureC: -10 });

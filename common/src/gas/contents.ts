@@ -1,5 +1,5 @@
 import { InvalidInputError } from '../api/errors';
-import { GAS_INFO, R_J_MOL_K, isGasCode, isLiquefiedGas, type GasCode, type LiquefiedGasCode } from './gases';
+import { GAS_INFO, MAX_PRESSURE_BAR_ABS, R_J_MOL_K, isGasCode, isLiquefiedGas, type GasCode, type LiquefiedGasCode } from './gases';
 import { compressibility, molarDensityMolM3, pressureFromMolarDensity, validateState } from './eos';
 import { REFERENCE_CONDITIONS, idealReferenceMolarVolumeLMol, isReferenceCode, referenceMolarVolumeLMol, type ReferenceCode } from './reference-conditions';
 import { criticalTemperatureK, saturatedLiquidDensityKgM3, saturatedVapourDensityKgM3, vapourPressureBarAbs } from './saturation';
@@ -146,6 +146,7 @@ export function compressedContents(input: CompressedContentsInput): CompressedCo
   const equivalentAbs = pressureOfContentsAt(s.gas, rho, refT);
   const cautions = mixtureCautions(s.gas, input.temperatureC);
   if (s.pressureBarAbs < s.atmosphericBar) cautions.push('The pressure is below atmospheric: the cylinder delivers no gas.');
+  if (equivalentAbs > MAX_PRESSURE_BAR_ABS) cautions.push(beyondRangeCaution(equivalentAbs));
   return {
     moles,
     massKg: moles * GAS_INFO[s.gas].molarMassKgMol,
@@ -159,6 +160,10 @@ export function compressedContents(input: CompressedContentsInput): CompressedCo
     method: z.method,
     cautions,
   };
+}
+
+function beyondRangeCaution(pressureBarAbs: number): string {
+  return `The same contents would be at ${pressureBarAbs.toFixed(0)} bar abs, above the ${MAX_PRESSURE_BAR_ABS} bar the engine is validated for: an extrapolated estimate, and above the working pressure of most cylinders.`;
 }
 
 /**
@@ -201,7 +206,9 @@ export function pressureAtTemperature(input: PressureAtTemperatureInput): { pres
   }
   const rho = molarDensityMolM3(s.gas, s.temperatureK, s.pressureBarAbs);
   const pressureBarAbs = pressureOfContentsAt(s.gas, rho, newTemperatureK);
-  return { pressureBarAbs, gaugeBar: pressureBarAbs - s.atmosphericBar, cautions: mixtureCautions(s.gas, input.newTemperatureC) };
+  const cautions = mixtureCautions(s.gas, input.newTemperatureC);
+  if (pressureBarAbs > MAX_PRESSURE_BAR_ABS) cautions.push(beyondRangeCaution(pressureBarAbs));
+  return { pressureBarAbs, gaugeBar: pressureBarAbs - s.atmosphericBar, cautions };
 }
 
 export interface LiquefiedContentsInput {
