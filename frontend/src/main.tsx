@@ -16,8 +16,8 @@ const router = createAppRouter();
 setUnauthorisedHandler(() => {
   const { pathname, search } = window.location;
   if (pathname.startsWith('/sign-in')) return;
-  queryClient.clear();
-  void router.navigate(`/sign-in?next=${encodeURIComponent(pathname + search)}`, { replace: true });
+  // leave the signed-in screens first, then forget their data (see useSignOut)
+  void router.navigate(`/sign-in?next=${encodeURIComponent(pathname + search)}`, { replace: true }).then(() => queryClient.clear());
 });
 
 createRoot(document.getElementById('root')!).render(

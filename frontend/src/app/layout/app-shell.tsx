@@ -119,7 +119,7 @@ function NavContent({ onNavigate }: { onNavigate?: () => void }) {
           disabled={signOut.isPending}
           onClick={() =>
             signOut.mutate(undefined, {
-              onSettled: () => navigate('/sign-in', { replace: true }),
+              onSettled: () => void Promise.resolve(navigate('/sign-in', { replace: true })).then(signOut.forget),
             })
           }
           className="flex min-h-12 w-full items-center gap-3 rounded-lg px-3 font-bold text-ink-50 hover:bg-ink-700"

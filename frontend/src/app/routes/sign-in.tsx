@@ -8,8 +8,8 @@ import { safeNext } from '../route-guards';
 
 export async function loader({ request }: LoaderFunctionArgs) {
   const next = safeNext(new URL(request.url).searchParams.get('next'));
-  // already signed in: straight on
-  const me = await queryClient.ensureQueryData(authQueries.me()).catch(() => null);
+  // already signed in: straight on (asks the server, since a cached answer may predate a sign-out)
+  const me = await queryClient.fetchQuery({ ...authQueries.me(), staleTime: 0 }).catch(() => null);
   if (me) throw redirect(next);
   return null;
 }

@@ -57,7 +57,7 @@ export function DataTable<T>({ caption, columns, data, getRowId, sorting, onSort
   });
   const rows = table.getRowModel().rows;
   return (
-    <div className={cn('w-full overflow-x-auto', className)}>
+    <div className={cn('relative w-full overflow-x-auto', className)}>
       <table className="w-full border-collapse text-left text-sm">
         <caption className="sr-only">{caption}</caption>
         <thead>

@@ -25,7 +25,7 @@ export function Dialog({ open, onClose, title, description, children, footer, wi
         onClose();
       }}
       className={cn(
-        'm-0 h-full max-h-none w-full max-w-none bg-surface p-0 text-fg backdrop:bg-ink-950/50 sm:m-auto sm:h-auto sm:max-h-[90vh] sm:rounded-card sm:border sm:border-line sm:shadow-xl',
+        'm-0 h-full max-h-none w-full max-w-none bg-surface p-0 text-fg backdrop:bg-ink-950/50 sm:m-auto sm:h-fit sm:max-h-[90vh] sm:rounded-card sm:border sm:border-line sm:shadow-xl',
         wide ? 'sm:w-[min(56rem,94vw)]' : 'sm:w-[min(36rem,94vw)]',
       )}
     >
@@ -53,7 +53,7 @@ export function Dialog({ open, onClose, title, description, children, footer, wi
 /** The buttons at the foot of a form in a dialog: cancel and the submit, busy while saving. */
 export function FormActions({ onCancel, busy, submitLabel = 'Save' }: { onCancel: () => void; busy?: boolean; submitLabel?: string }) {
   return (
-    <div className="sticky bottom-0 -mx-4 -mb-4 mt-2 flex flex-wrap justify-end gap-2 border-t border-line bg-surface px-4 py-3 sm:-mx-5 sm:px-5">
+    <div className="sticky -bottom-4 -mx-4 -mb-4 mt-2 flex flex-wrap justify-end gap-2 border-t border-line bg-surface px-4 py-3 sm:-mx-5 sm:px-5">
       <button type="button" onClick={onCancel} className={buttonClasses({ variant: 'secondary' })}>
         Cancel
       </button>

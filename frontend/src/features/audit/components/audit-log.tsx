@@ -27,8 +27,8 @@ export function AuditLog() {
   const [open, setOpen] = useState<AuditRow | null>(null);
   const columns = useMemo(
     () => [
-      col.accessor('at', { header: 'When', cell: (info) => <span className="whitespace-nowrap tabular">{formatDateTime(info.getValue())}</span> }),
-      col.accessor('userEmail', { header: 'Who', cell: (info) => <span className="break-all">{info.getValue() ?? 'system'}</span> }),
+      col.accessor('at', { header: 'When', cell: (info) => <span className="tabular sm:whitespace-nowrap">{formatDateTime(info.getValue())}</span> }),
+      col.accessor('userEmail', { header: 'Who', cell: (info) => <span className="wrap-anywhere">{info.getValue() ?? 'system'}</span> }),
       col.accessor('action', { header: 'Action', cell: (info) => words(info.getValue()) }),
       col.accessor('entity', {
         header: 'Record',

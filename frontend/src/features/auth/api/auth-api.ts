@@ -33,15 +33,17 @@ export function useSignIn() {
   });
 }
 
+/**
+ * Signs out. The caller leaves the signed-in screens first and then calls `forget()`: clearing the
+ * cache while the app frame is still on screen would make it refetch who is signed in, and fail.
+ */
 export function useSignOut() {
   const qc = useQueryClient();
-  return useMutation({
+  const mutation = useMutation({
     mutationFn: () => api.post<{ ok: true }>('/auth/logout', undefined, { on401: 'throw' }),
-    onSettled: () => {
-      clearCsrfToken();
-      qc.clear();
-    },
+    onSettled: () => clearCsrfToken(),
   });
+  return { ...mutation, forget: () => qc.clear() };
 }
 
 export function useChangePassword() {

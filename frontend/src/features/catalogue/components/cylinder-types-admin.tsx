@@ -49,10 +49,10 @@ export function CylinderTypesAdmin({ canEdit, colourConvention }: { canEdit: boo
           );
         },
       }),
-      col.accessor((t) => t.nominal?.massKg ?? null, { id: 'mass', header: 'Gas mass', meta: { numeric: true }, cell: (info) => formatKg(info.getValue()) }),
-      col.accessor('tareKg', { header: 'Tare', meta: { numeric: true }, cell: (info) => formatKg(info.getValue()) }),
-      col.accessor('material', { header: 'Material', cell: (info) => info.getValue() || '–' }),
-      col.accessor('active', { header: 'Status', cell: (info) => (info.getValue() ? <Badge tone="ok">Active</Badge> : <Badge>Retired</Badge>) }),
+      col.accessor((t) => t.nominal?.massKg ?? null, { id: 'mass', header: 'Gas mass', meta: { numeric: true, className: 'hidden sm:table-cell' }, cell: (info) => formatKg(info.getValue()) }),
+      col.accessor('tareKg', { header: 'Tare', meta: { numeric: true, className: 'hidden md:table-cell' }, cell: (info) => formatKg(info.getValue()) }),
+      col.accessor('material', { header: 'Material', meta: { className: 'hidden lg:table-cell' }, cell: (info) => info.getValue() || '–' }),
+      col.accessor('active', { header: 'Status', meta: { className: 'hidden sm:table-cell' }, cell: (info) => (info.getValue() ? <Badge tone="ok">Active</Badge> : <Badge>Retired</Badge>) }),
       ...(canEdit
         ? [
             col.display({

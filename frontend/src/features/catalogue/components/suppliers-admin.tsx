@@ -32,18 +32,19 @@ export function SuppliersAdmin({ canEdit, defaultCurrency }: { canEdit: boolean;
       col.accessor('name', { header: 'Supplier', cell: (info) => <span className="font-bold">{info.getValue()}</span> }),
       col.accessor('orderEmail', {
         header: 'Orders to',
+        meta: { className: 'hidden md:table-cell' },
         cell: (info) => (
-          <span className="break-all">
+          <span className="wrap-anywhere">
             {info.getValue()}
             {info.row.original.phone && <span className="block text-xs whitespace-nowrap text-fg-muted">{info.row.original.phone}</span>}
           </span>
         ),
       }),
       col.accessor('leadTimeHours', { header: 'Lead time', meta: { numeric: true }, cell: (info) => formatLeadTime(info.getValue()) }),
-      col.accessor('rentalMinorPerCylinderDay', { header: 'Rental / cylinder-day', meta: { numeric: true }, cell: (info) => formatMoney(info.getValue(), info.row.original.currency) }),
-      col.accessor('minBulkDropKg', { header: 'Min. bulk drop', meta: { numeric: true }, cell: (info) => (info.getValue() ? formatKg(info.getValue()) : '–') }),
-      col.accessor((s) => s.prices.length, { id: 'prices', header: 'Prices', meta: { numeric: true } }),
-      col.accessor('active', { header: 'Status', cell: (info) => (info.getValue() ? <Badge tone="ok">Active</Badge> : <Badge>Inactive</Badge>) }),
+      col.accessor('rentalMinorPerCylinderDay', { header: 'Rental / cylinder-day', meta: { numeric: true, className: 'hidden sm:table-cell' }, cell: (info) => formatMoney(info.getValue(), info.row.original.currency) }),
+      col.accessor('minBulkDropKg', { header: 'Min. bulk drop', meta: { numeric: true, className: 'hidden md:table-cell' }, cell: (info) => (info.getValue() ? formatKg(info.getValue()) : '–') }),
+      col.accessor((s) => s.prices.length, { id: 'prices', header: 'Prices', meta: { numeric: true, className: 'hidden sm:table-cell' } }),
+      col.accessor('active', { header: 'Status', meta: { className: 'hidden sm:table-cell' }, cell: (info) => (info.getValue() ? <Badge tone="ok">Active</Badge> : <Badge>Inactive</Badge>) }),
       col.display({
         id: 'open',
         header: () => <span className="sr-only">Open</span>,

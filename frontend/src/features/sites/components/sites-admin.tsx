@@ -29,15 +29,15 @@ export function SitesAdmin({ onSiteSaved }: { onSiteSaved?: () => void }) {
           </span>
         ),
       }),
-      col.accessor('timeZone', { header: 'Time zone' }),
-      col.accessor('beds', { header: 'Beds', meta: { numeric: true }, cell: (info) => formatNumber(info.getValue()) }),
-      col.accessor('referenceCode', { header: 'Free gas at', cell: (info) => REF_SHORT[info.getValue()] }),
-      col.accessor('unitSystem', { header: 'Units', cell: (info) => (info.getValue() === 'us' ? 'US' : 'Metric') }),
-      col.accessor('cylinderColours', { header: 'Colours', cell: (info) => (info.getValue() === 'CGA_C9' ? 'CGA C-9' : 'ISO 32') }),
+      col.accessor('timeZone', { header: 'Time zone', meta: { className: 'hidden md:table-cell' } }),
+      col.accessor('beds', { header: 'Beds', meta: { numeric: true, className: 'hidden sm:table-cell' }, cell: (info) => formatNumber(info.getValue()) }),
+      col.accessor('referenceCode', { header: 'Free gas at', meta: { className: 'hidden md:table-cell' }, cell: (info) => REF_SHORT[info.getValue()] }),
+      col.accessor('unitSystem', { header: 'Units', meta: { className: 'hidden md:table-cell' }, cell: (info) => (info.getValue() === 'us' ? 'US' : 'Metric') }),
+      col.accessor('cylinderColours', { header: 'Colours', meta: { className: 'hidden lg:table-cell' }, cell: (info) => (info.getValue() === 'CGA_C9' ? 'CGA C-9' : 'ISO 32') }),
       col.accessor('storeTemperatureC', { header: 'Store', meta: { numeric: true }, cell: (info) => `${formatNumber(info.getValue(), 1)} °C` }),
       col.accessor('atmosphericBar', {
         header: 'Atmosphere',
-        meta: { numeric: true },
+        meta: { numeric: true, className: 'hidden sm:table-cell' },
         cell: (info) => (
           <span className="whitespace-nowrap">
             {formatNumber(info.getValue(), 4)} bar
@@ -45,7 +45,7 @@ export function SitesAdmin({ onSiteSaved }: { onSiteSaved?: () => void }) {
           </span>
         ),
       }),
-      col.accessor('currency', { header: 'Currency' }),
+      col.accessor('currency', { header: 'Currency', meta: { className: 'hidden md:table-cell' } }),
       col.display({
         id: 'edit',
         header: () => <span className="sr-only">Edit</span>,

@@ -34,13 +34,13 @@ export function UsersAdmin({ sites, currentUserId }: { sites: SiteOption[]; curr
         cell: (info) => (
           <span>
             <span className="font-bold">{info.getValue()}</span>
-            <span className="block text-xs break-all text-fg-muted">{info.row.original.email}</span>
+            <span className="block text-xs wrap-anywhere text-fg-muted xl:hidden">{info.row.original.email}</span>
           </span>
         ),
       }),
-      col.accessor('email', { header: 'E-mail', cell: (info) => <span className="break-all">{info.getValue()}</span>, meta: { className: 'hidden xl:table-cell' } }),
+      col.accessor('email', { header: 'E-mail', cell: (info) => <span className="wrap-anywhere">{info.getValue()}</span>, meta: { className: 'hidden xl:table-cell' } }),
       col.accessor('roles', { header: 'Roles', enableSorting: false, cell: (info) => info.getValue().map((r) => ROLE_LABELS[r]).join(', ') }),
-      col.accessor('siteIds', { header: 'Sites', enableSorting: false, cell: (info) => info.getValue().map((id) => siteName.get(id) ?? `#${id}`).join(', ') || '–' }),
+      col.accessor('siteIds', { header: 'Sites', enableSorting: false, meta: { className: 'hidden md:table-cell' }, cell: (info) => info.getValue().map((id) => siteName.get(id) ?? `#${id}`).join(', ') || '–' }),
       col.display({
         id: 'status',
         header: 'Status',
@@ -56,7 +56,7 @@ export function UsersAdmin({ sites, currentUserId }: { sites: SiteOption[]; curr
           return <Badge tone="ok">Active</Badge>;
         },
       }),
-      col.accessor('createdAt', { header: 'Added', cell: (info) => <span className="whitespace-nowrap">{formatDateTime(info.getValue())}</span> }),
+      col.accessor('createdAt', { header: 'Added', meta: { className: 'hidden lg:table-cell' }, cell: (info) => <span className="whitespace-nowrap">{formatDateTime(info.getValue())}</span> }),
       col.display({
         id: 'actions',
         header: () => <span className="sr-only">Actions</span>,
