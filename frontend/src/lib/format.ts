@@ -99,5 +99,7 @@ export function formatDay(iso: string | null | undefined, timeZone?: string): st
 export function formatRelative(iso: string | null | undefined): string {
   if (!iso) return DASH;
   const dt = DateTime.fromISO(iso);
-  return dt.isValid ? (dt.setLocale(LOCALE).toRelative() ?? DASH) : DASH;
+  if (!dt.isValid) return DASH;
+  if (Math.abs(dt.diffNow('seconds').seconds) < 60) return 'just now';
+  return dt.setLocale(LOCALE).toRelative() ?? DASH;
 }

@@ -1,4 +1,4 @@
-import { useState } from 'react';
+import { useEffect, useState } from 'react';
 import { useQuery } from '@tanstack/react-query';
 import { formatBytes, formatDateTime } from '@/lib/format';
 import { cn } from '@/lib/cn';
@@ -18,6 +18,9 @@ export function MailMessageView({ id }: { id: number }) {
 
 function Message({ m }: { m: MailMessage }) {
   const [view, setView] = useState<'text' | 'html'>(m.text ? 'text' : 'html');
+  useEffect(() => {
+    document.title = `${m.subject || 'Mail'} · Plenum`;
+  }, [m.subject]);
   return (
     <div className="flex flex-col gap-5">
       <Card>

@@ -32,6 +32,8 @@ export interface OverviewSite {
 
 export interface Overview {
   generatedAt: string;
+  /** The planning caution the forecast travels with. */
+  caution?: string;
   sites: OverviewSite[];
 }
 

@@ -87,6 +87,11 @@ export function OverviewBoard() {
         )}
       </div>
 
+      <p className="flex items-start gap-2 text-sm text-fg-muted">
+        <Icon name="info" className="mt-0.5 size-4 shrink-0" />
+        {overview.data.caution ?? 'Planning estimate only: check against the site’s own records and the supplier’s figures; the site’s authorised person decides.'}
+      </p>
+
       <ul className="grid grid-cols-2 gap-2 sm:grid-cols-4" aria-label="Sources by status">
         {(Object.keys(SUPPLY_STATUS) as SupplyStatus[]).map((st) => (
           <li key={st} className={cn('flex items-center justify-between gap-2 rounded-lg border px-3 py-2', TILE[st], counts[st] === 0 && 'opacity-60')}>
