@@ -169,6 +169,10 @@ export interface PipeRunOut {
   tube: string;
   innerDiameterMm: number | null;
   lengthM: number;
+  fittingsAllowancePercent: number;
+  linePressureKPa: number;
+  /** null = 20 °C */
+  gasTemperatureC: number | null;
   effectiveLengthM: number | null;
   flowLMin: number;
   pressureDropKPa: number | null;

@@ -42,7 +42,7 @@ const HOSPITAL_ZONES: DemoZone[] = [
   { name: 'Osprey Ward oxygen', gasCode: 'O2', department: 'ward', terminalUnits: 28, source: VIE },
   { name: 'Plover Ward oxygen', gasCode: 'O2', department: 'ward', terminalUnits: 24, source: VIE },
   { name: 'Wren Ward oxygen', gasCode: 'O2', department: 'ward', terminalUnits: 20, source: VIE },
-  { name: 'Critical care oxygen', gasCode: 'O2', department: 'critical_care', terminalUnits: 12, source: VIE, ownRules: true, runs: [{ name: 'Plant room to critical care', tube: '35x1.2', lengthM: 80 }] },
+  { name: 'Critical care oxygen', gasCode: 'O2', department: 'critical_care', terminalUnits: 12, source: VIE, runs: [{ name: 'Plant room to critical care', tube: '35x1.2', lengthM: 80 }] },
   { name: 'Emergency resuscitation oxygen', gasCode: 'O2', department: 'emergency_resuscitation', terminalUnits: 4, source: VIE, runs: [{ name: 'Riser A to resuscitation room', tube: '28x0.9', lengthM: 45 }] },
   { name: 'Theatres 1–6 oxygen', gasCode: 'O2', department: 'theatre', terminalUnits: 6, source: VIE, runs: [{ name: 'Theatre main', tube: '42x1.2', lengthM: 90 }] },
   { name: 'Recovery oxygen', gasCode: 'O2', department: 'recovery', terminalUnits: 12, source: VIE, runs: [{ name: 'Theatre main to recovery', tube: '22x0.9', lengthM: 40 }] },
@@ -74,8 +74,8 @@ const CLINIC_ZONES: DemoZone[] = [
 ];
 
 /**
- * Demo pipeline zones, pipe runs and one organisation rule set (a copy of the shipped HTM 02-01 set)
- * for the demo hospital and clinic. Call after the supply seed: zones find their sources by name.
+ * Demo pipeline zones, pipe runs and one organisation rule set (a copy of the shipped HTM 02-01 set,
+ * not yet used by a zone) for the demo hospital and clinic. Call after the supply seed: zones find their sources by name.
  */
 export async function seedCapacity(m: EntityManager, ids: FoundationIds): Promise<void> {
   const rules = await m.getRepository(RuleSet).save(

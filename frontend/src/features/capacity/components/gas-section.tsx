@@ -81,7 +81,10 @@ function LimitingCallout({ gas, flowPerPatientLMin }: { gas: GasOut; flowPerPati
       <div>
         <p className="text-xs font-bold tracking-wider text-fg-muted uppercase">Limiting element</p>
         <p className="text-lg font-bold">
-          {l.name} <span className="font-normal text-fg-muted">({LIMIT_KIND_LABELS[l.kind]})</span>
+          {l.name}{' '}
+          <Badge tone="neutral" className="align-middle">
+            {LIMIT_KIND_LABELS[l.kind]}
+          </Badge>
         </p>
         <p className="text-sm">
           {l.ok ? (
@@ -297,11 +300,13 @@ function ZoneRowView({
         <span className="block text-xs text-fg-muted">{sourceName ? `Fed by ${sourceName}` : isVacuum ? 'Vacuum plant' : 'No supply source linked'}</span>
       </th>
       <td className="py-2 pr-3">
-        {z.diversityMethod === 'binomial' ? <Badge tone="info">Binomial</Badge> : <span className="text-fg-muted">{z.ruleSet.name}</span>}
+        {z.diversityMethod === 'binomial' ? <Badge tone="info">Binomial</Badge> : <span className="block text-fg-muted">{z.ruleSet.name}</span>}
         {z.warning && (
-          <Badge tone="watch" icon="info" className="mt-1">
-            {z.warning}
-          </Badge>
+          <div className="mt-1">
+            <Badge tone="watch" icon="info">
+              {z.warning}
+            </Badge>
+          </div>
         )}
         {z.ruleSource && <span className="mt-1 block text-xs text-fg-muted">{z.ruleSource}</span>}
       </td>
