@@ -17,6 +17,9 @@ export function createAppRouter() {
       children: [
         { index: true, lazy: () => import('./routes/today') },
         { path: 'cylinder-check', lazy: () => import('./routes/cylinder-check') },
+        { path: 'capacity', lazy: () => import('./routes/capacity') },
+        { path: 'capacity/rule-sets', lazy: () => import('./routes/capacity/rule-sets') },
+        { path: 'capacity/signoffs/:signoffId', lazy: () => import('./routes/capacity/signoff') },
         { path: 'account', lazy: () => import('./routes/account') },
         { path: 'admin/sites', lazy: () => import('./routes/admin/sites') },
         { path: 'admin/users', lazy: () => import('./routes/admin/users') },
