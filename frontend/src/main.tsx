@@ -14,7 +14,8 @@ const router = createAppRouter();
 
 // the session ended (expired, signed out elsewhere): drop what we hold and ask to sign in again
 setUnauthorisedHandler(() => {
-  const { pathname, search } = window.location;
+  // a loader of the screen being opened may be the one that found out: come back to that screen
+  const { pathname, search } = router.state.navigation.location ?? router.state.location;
   if (pathname.startsWith('/sign-in')) return;
   // leave the signed-in screens first, then forget their data (see useSignOut)
   void router.navigate(`/sign-in?next=${encodeURIComponent(pathname + search)}`, { replace: true }).then(() => queryClient.clear());

@@ -26,7 +26,7 @@ export async function requireMe(request: Request): Promise<Me> {
 export async function requireScreen(request: Request, path: string): Promise<Me> {
   const me = await requireMe(request);
   if (!canUse(me.user.roles, navItem(path))) {
-    throw data({ message: 'This screen is not available for your role.' }, { status: 403 });
+    throw data({ message: 'Your roles do not include this screen. Ask an administrator if you need it.' }, { status: 403 });
   }
   return me;
 }

@@ -34,11 +34,13 @@ export function ScreenErrorBoundary() {
       <h1 className="text-2xl">{d.title}</h1>
       <p className="text-fg-muted">{d.text}</p>
       <div className="flex flex-wrap gap-2 pt-2">
-        <button type="button" className={buttonClasses({ variant: 'primary' })} onClick={() => window.location.reload()}>
-          <Icon name="refresh" />
-          Reload
-        </button>
-        <Link to="/" className={buttonClasses({ variant: 'secondary' })}>
+        {d.status !== 403 && d.status !== 404 && (
+          <button type="button" className={buttonClasses({ variant: 'primary' })} onClick={() => window.location.reload()}>
+            <Icon name="refresh" />
+            Reload
+          </button>
+        )}
+        <Link to="/" className={buttonClasses({ variant: d.status === 403 || d.status === 404 ? 'primary' : 'secondary' })}>
           Go to Today
         </Link>
       </div>

@@ -345,7 +345,7 @@ function CompressedDetails({ r, fillPressureBar, refT, pressure }: { r: Compress
             {tempDiffers ? (
               <>
                 A cylinder reads lower when cold and higher when warm, with the same gas inside.
-                {share !== null && <> This is {formatNumber(share)} % of the {formatNumber(fillPressureBar)} bar fill.</>}
+                {share !== null && fillPressureBar !== null && <> This is {formatNumber(share)} % of the {pressure(fillPressureBar)} fill.</>}
               </>
             ) : (
               'The gas is at the reference temperature: the reading needs no correction.'

@@ -230,7 +230,7 @@ export function evaluateCylinderCheck(values: CheckValues, site: CheckSite): Che
         contents,
         reserveBar,
         equivalentGauge: fromBar(contents.equivalentGaugeBarAtReferenceTemperature),
-        chart: contentsCurve({ gas, waterCapacityL, temperatureC, atmosphericBar: units.atmosphericBar, reference: units.reference }, Math.max(gaugeBar, 200), fromBar),
+        chart: contentsCurve({ gas, waterCapacityL, temperatureC, atmosphericBar: units.atmosphericBar, reference: units.reference }, toBar(roundUp(fromBar(Math.max(gaugeBar, 200)), units.us ? 500 : 50)), fromBar),
       },
     };
   } catch (e) {
@@ -293,6 +293,11 @@ export function referenceTemperatureLabel(units: Units): string {
 
 export function gasLabel(gas: GasCode): string {
   return GAS_INFO[gas].name;
+}
+
+/** The next multiple of `step` at or above `value`, so the chart's axis ends on a round figure. */
+function roundUp(value: number, step: number): number {
+  return Math.ceil(value / step - 1e-9) * step;
 }
 
 function finiteOr(n: number, fallback: number): number {
