@@ -76,7 +76,8 @@ export async function createApp(): Promise<AppHandle> {
       store: store as never,
       resave: false,
       saveUninitialized: false,
-      rolling: true,
+      // Not rolling: a session lasts one shift from sign-in, and no request pays for a store write.
+      rolling: false,
       cookie: { httpOnly: true, sameSite: 'lax', secure: e.COOKIE_SECURE, maxAge: e.SESSION_MAX_AGE_HOURS * 3600 * 1000, path: '/' },
     }),
   );

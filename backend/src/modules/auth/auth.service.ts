@@ -60,17 +60,21 @@ export async function verifyCredentials(email: string, password: string): Promis
 
 /** Loads the user with roles and granted sites (administrators see every site of their organisation). */
 export async function loadAuthUser(id: number): Promise<AuthUser | null> {
-  const ds = db();
-  const user = await ds.getRepository(User).findOne({ where: { id } });
-  if (!user || !user.active) return null;
-  const roles = (await ds.getRepository(UserRole).find({ where: { userId: id } })).map((r) => r.role as Role);
-  let siteIds: number[];
-  if (roles.includes('administrator')) {
-    siteIds = (await ds.getRepository(Site).find({ select: { id: true }, where: { organisationId: user.organisationId } })).map((s) => s.id);
-  } else {
-    siteIds = (await ds.getRepository(UserSite).find({ where: { userId: id } })).map((s) => s.siteId);
-  }
-  return { id: user.id, organisationId: user.organisationId, email: user.email, name: user.name, roles: roles.sort(), siteIds: siteIds.sort((a, b) => a - b) };
+  // One round trip: the user with roles and granted sites (administrators: every site of the organisation).
+  const rows: { id: number; organisation_id: number; email: string; name: string; active: number; roles: string | null; granted: string | null; all_sites: string | null }[] = await db().query(
+    `SELECT u.id, u.organisation_id, u.email, u.name, u.active,
+       (SELECT GROUP_CONCAT(r.role) FROM user_role r WHERE r.user_id = u.id) AS roles,
+       (SELECT GROUP_CONCAT(us.site_id) FROM user_site us WHERE us.user_id = u.id) AS granted,
+       (SELECT GROUP_CONCAT(s.id) FROM site s WHERE s.organisation_id = u.organisation_id) AS all_sites
+     FROM app_user u WHERE u.id = ?`,
+    [id],
+  );
+  const u = rows[0];
+  if (!u || !Number(u.active)) return null;
+  const roles = (u.roles ? u.roles.split(',') : []).sort() as Role[];
+  const list = (roles.includes('administrator') ? u.all_sites : u.granted) ?? '';
+  const siteIds = list ? list.split(',').map(Number).sort((a, b) => a - b) : [];
+  return { id: Number(u.id), organisationId: Number(u.organisation_id), email: u.email, name: u.name, roles, siteIds };
 }
 
 /** What GET /api/auth/me returns. */

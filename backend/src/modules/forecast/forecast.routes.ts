@@ -10,6 +10,7 @@ import { notFound } from '../../errors/app-error';
 import { db } from '../../db/db';
 import { SourceReading } from '../../db/entities/supply.entity';
 import { loadSiteModels, type SiteModel } from './site-model';
+import { siteVersions, VersionedCache } from './site-version';
 import { FORECAST_CAUTION, measuredLPerDay, modelledLines, outlookFor, wardDemandLines, wardsFedBy, type SourceOutlook } from './forecast.service';
 import { presentReading, presentScenario, presentSource, presentTherapy, presentWard, sourceFor, wardFor } from '../supply/supply.service';
 
@@ -38,23 +39,48 @@ function overviewRow(model: SiteModel, o: SourceOutlook) {
   };
 }
 
+type OverviewSite = { id: number; name: string; timeZone: string; referenceCode: string; computedAt: string; sources: ReturnType<typeof overviewRow>[] };
+
+/** Computed overview per site, by data version and a 5-minute clock bucket (see VersionedCache). */
+const overviewCache = new VersionedCache<OverviewSite>(5 * 60_000);
+const BUCKET_MS = 5 * 60_000;
+
 /** The overview: every source of the caller's sites, worst first. */
 export async function overview(actor: Actor) {
-  const models = await loadSiteModels(actor.user.siteIds, actor.user.organisationId);
   const now = new Date();
+  const versions = await siteVersions(actor.user.siteIds, actor.user.organisationId);
+  const bucket = Math.floor(now.getTime() / BUCKET_MS);
+  const key = (siteId: number) => `${siteId}:${versions.get(siteId)}:${bucket}`;
+  const sites = new Map<number, OverviewSite>();
+  const missing: number[] = [];
+  for (const id of versions.keys()) {
+    const hit = overviewCache.get(key(id));
+    if (hit) sites.set(id, hit);
+    else missing.push(id);
+  }
+  if (missing.length) {
+    const models = await loadSiteModels(missing, actor.user.organisationId);
+    for (const m of models) {
+      const site: OverviewSite = {
+        id: m.site.id,
+        name: m.site.name,
+        timeZone: m.site.timeZone,
+        referenceCode: m.site.referenceCode,
+        computedAt: now.toISOString(),
+        sources: m.sources
+          .filter((s) => s.type !== 'emergency_reserve')
+          .map((s) => overviewRow(m, outlookFor(m, s, { now })))
+          .sort((a, b) => STATUS_RANK[a.status] - STATUS_RANK[b.status] || (a.daysOfStock ?? 1e9) - (b.daysOfStock ?? 1e9)),
+      };
+      sites.set(m.site.id, site);
+      overviewCache.set(key(m.site.id), site);
+    }
+  }
+  const list = [...sites.values()];
   return {
-    generatedAt: now.toISOString(),
+    generatedAt: list.reduce((oldest, x) => (x.computedAt < oldest ? x.computedAt : oldest), now.toISOString()),
     caution: FORECAST_CAUTION,
-    sites: models.map((m) => ({
-      id: m.site.id,
-      name: m.site.name,
-      timeZone: m.site.timeZone,
-      referenceCode: m.site.referenceCode,
-      sources: m.sources
-        .filter((s) => s.type !== 'emergency_reserve')
-        .map((s) => overviewRow(m, outlookFor(m, s, { now })))
-        .sort((a, b) => STATUS_RANK[a.status] - STATUS_RANK[b.status] || (a.daysOfStock ?? 1e9) - (b.daysOfStock ?? 1e9)),
-    })),
+    sites: list.sort((a, b) => a.name.localeCompare(b.name)),
   };
 }
 

@@ -14,6 +14,7 @@ import type { Actor } from '../../http/context';
 import { AppError, badRequest, conflict, notFound } from '../../errors/app-error';
 import { recordAudit, whoOf } from '../audit/audit.service';
 import { getSiteFor } from '../sites/sites.service';
+import { bumpSiteVersion } from '../forecast/site-version';
 
 // ---------- presenters ----------
 
@@ -130,6 +131,7 @@ export async function createSource(actor: Actor, siteId: number, input: SourceIn
     if (await m.getRepository(SupplySource).findOneBy({ siteId, name: input.name })) throw conflict(`A source called "${input.name}" exists on this site`, 'duplicate');
     const saved = await m.getRepository(SupplySource).save(m.getRepository(SupplySource).create({ ...sourceRow(input), siteId }));
     await recordAudit(m, whoOf(actor), { action: 'create', entity: 'supply_source', entityId: String(saved.id), after: presentSource(saved) });
+    await bumpSiteVersion(m, siteId);
     return presentSource(saved);
   });
 }
@@ -144,6 +146,7 @@ export async function updateSource(actor: Actor, id: number, input: SourceInput)
     await m.getRepository(SupplySource).update({ id }, sourceRow(input));
     const after = await m.getRepository(SupplySource).findOneByOrFail({ id });
     await recordAudit(m, whoOf(actor), { action: 'update', entity: 'supply_source', entityId: String(id), before: presentSource(before), after: presentSource(after) });
+    await bumpSiteVersion(m, before.siteId);
     return presentSource(after);
   });
 }
@@ -154,6 +157,7 @@ export async function setCorrection(actor: Actor, id: number, factor: number, ba
     const before = await sourceFor(actor, id, m);
     await m.getRepository(SupplySource).update({ id }, { modelCorrectionFactor: factor, forecastBasis: basis });
     await recordAudit(m, whoOf(actor), { action: 'update', entity: 'supply_source', entityId: String(id), before: { modelCorrectionFactor: before.modelCorrectionFactor, forecastBasis: before.forecastBasis }, after: { modelCorrectionFactor: factor, forecastBasis: basis } });
+    await bumpSiteVersion(m, before.siteId);
     return presentSource(await m.getRepository(SupplySource).findOneByOrFail({ id }));
   });
 }
@@ -230,6 +234,7 @@ export async function addReading(actor: Actor, sourceId: number, input: ReadingI
     const detail = 'value' in rest ? null : JSON.stringify(rest);
     const saved = await m.getRepository(SourceReading).save(m.getRepository(SourceReading).create({ sourceId, takenAt, kind, value, detailJson: detail, contents, method, note, takenByUserId: actor.user.id }));
     await recordAudit(m, whoOf(actor), { action: 'create', entity: 'source_reading', entityId: saved.id, after: presentReading(saved) });
+    await bumpSiteVersion(m, source.siteId);
     return presentReading(saved);
   });
 }
@@ -254,6 +259,7 @@ export async function createWard(actor: Actor, siteId: number, input: WardInput)
     if (await m.getRepository(Ward).findOneBy({ siteId, name: input.name })) throw conflict(`A ward called "${input.name}" exists on this site`, 'duplicate');
     const saved = await m.getRepository(Ward).save(m.getRepository(Ward).create({ ...input, siteId }));
     await recordAudit(m, whoOf(actor), { action: 'create', entity: 'ward', entityId: String(saved.id), after: presentWard(saved) });
+    await bumpSiteVersion(m, siteId);
     return presentWard(saved);
   });
 }
@@ -266,13 +272,14 @@ export async function updateWard(actor: Actor, id: number, input: WardInput) {
     await m.getRepository(Ward).update({ id }, input);
     const after = await m.getRepository(Ward).findOneByOrFail({ id });
     await recordAudit(m, whoOf(actor), { action: 'update', entity: 'ward', entityId: String(id), before: presentWard(before), after: presentWard(after) });
+    await bumpSiteVersion(m, before.siteId);
     return presentWard(after);
   });
 }
 
 export async function replaceTherapy(actor: Actor, wardId: number, lines: TherapyLineInput[]) {
   return db().transaction(async (m) => {
-    await wardFor(actor, wardId, m);
+    const ward = await wardFor(actor, wardId, m);
     const before = (await m.getRepository(TherapyLineRow).find({ where: { wardId }, order: { id: 'ASC' } })).map(presentTherapy);
     await m.getRepository(TherapyLineRow).delete({ wardId });
     if (lines.length) {
@@ -282,6 +289,7 @@ export async function replaceTherapy(actor: Actor, wardId: number, lines: Therap
     }
     const after = (await m.getRepository(TherapyLineRow).find({ where: { wardId }, order: { id: 'ASC' } })).map(presentTherapy);
     await recordAudit(m, whoOf(actor), { action: 'update', entity: 'therapy_lines', entityId: String(wardId), before, after });
+    await bumpSiteVersion(m, ward.siteId);
     return after;
   });
 }
@@ -307,6 +315,7 @@ export async function replaceFeeds(actor: Actor, wardId: number, feeds: { source
     if (feeds.length) await m.getRepository(WardFeed).insert(feeds.map((f) => ({ wardId, ...f })));
     const after = await m.getRepository(WardFeed).find({ where: { wardId } });
     await recordAudit(m, whoOf(actor), { action: 'update', entity: 'ward_feeds', entityId: String(wardId), before, after });
+    await bumpSiteVersion(m, ward.siteId);
     return after.map((f) => ({ sourceId: f.sourceId, gasCode: f.gasCode, role: f.role }));
   });
 }
@@ -338,6 +347,7 @@ export async function createScenario(actor: Actor, siteId: number, input: Scenar
     if (await m.getRepository(Scenario).findOneBy({ siteId, name: input.name })) throw conflict(`A scenario called "${input.name}" exists`, 'duplicate');
     const saved = await m.getRepository(Scenario).save(m.getRepository(Scenario).create({ ...input, siteId }));
     await recordAudit(m, whoOf(actor), { action: 'create', entity: 'scenario', entityId: String(saved.id), after: presentScenario(saved) });
+    await bumpSiteVersion(m, siteId);
     return presentScenario(saved);
   });
 }
@@ -351,6 +361,7 @@ export async function updateScenario(actor: Actor, id: number, input: ScenarioIn
     await m.getRepository(Scenario).update({ id }, input);
     const after = await m.getRepository(Scenario).findOneByOrFail({ id });
     await recordAudit(m, whoOf(actor), { action: 'update', entity: 'scenario', entityId: String(id), before: presentScenario(before), after: presentScenario(after) });
+    await bumpSiteVersion(m, before.siteId);
     return presentScenario(after);
   });
 }
@@ -360,6 +371,7 @@ export async function deleteScenario(actor: Actor, id: number) {
     const before = await scenarioFor(actor, id, m);
     await m.getRepository(Scenario).delete({ id });
     await recordAudit(m, whoOf(actor), { action: 'delete', entity: 'scenario', entityId: String(id), before: presentScenario(before) });
+    await bumpSiteVersion(m, before.siteId);
     return { ok: true };
   });
 }
@@ -382,16 +394,18 @@ export async function scheduleDelivery(actor: Actor, sourceId: number, input: De
     if (source.type !== 'bulk_liquid' && input.cylinders === null) throw badRequest('A delivery of cylinders is counted in cylinders', [{ path: 'cylinders', message: 'enter cylinders' }]);
     const saved = await m.getRepository(ScheduledDelivery).save(m.getRepository(ScheduledDelivery).create({ sourceId, dueAt: new Date(input.dueAt), kg: input.kg, cylinders: input.cylinders, status: 'scheduled', reference: input.reference }));
     await recordAudit(m, whoOf(actor), { action: 'create', entity: 'scheduled_delivery', entityId: String(saved.id), after: presentDelivery(saved) });
+    await bumpSiteVersion(m, source.siteId);
     return presentDelivery(saved);
   });
 }
 
 export async function cancelDelivery(actor: Actor, id: number) {
   return db().transaction(async (m) => {
-    const { delivery } = await deliveryFor(actor, id, m);
+    const { delivery, source } = await deliveryFor(actor, id, m);
     if (delivery.status !== 'scheduled') throw new AppError(409, 'conflict', `This delivery is ${delivery.status} already`);
     await m.getRepository(ScheduledDelivery).update({ id }, { status: 'cancelled' });
     await recordAudit(m, whoOf(actor), { action: 'update', entity: 'scheduled_delivery', entityId: String(id), before: presentDelivery(delivery), after: { ...presentDelivery(delivery), status: 'cancelled' } });
+    await bumpSiteVersion(m, source.siteId);
     return { ...presentDelivery(delivery), status: 'cancelled' };
   });
 }
@@ -404,6 +418,7 @@ export async function setDeviceFlows(actor: Actor, flows: { device: string; flow
     await m.getRepository(DeviceFlow).delete({ organisationId: actor.user.organisationId });
     if (flows.length) await m.getRepository(DeviceFlow).insert(flows.map((f) => ({ organisationId: actor.user.organisationId, device: f.device, flowLMin: f.flowLMin })));
     await recordAudit(m, whoOf(actor), { action: 'update', entity: 'device_flows', entityId: String(actor.user.organisationId), before: before.map((f) => ({ device: f.device, flowLMin: f.flowLMin })), after: flows });
+    await m.query('UPDATE site SET data_version = data_version + 1 WHERE organisation_id = ?', [actor.user.organisationId]);
     return flows;
   });
 }
