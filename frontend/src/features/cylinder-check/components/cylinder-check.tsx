@@ -1,4 +1,4 @@
-import { useDeferredValue, useMemo, type ReactNode } from 'react';
+import { lazy, Suspense, useDeferredValue, useMemo, type ReactNode } from 'react';
 import { useForm, useWatch, type UseFormRegisterReturn } from 'react-hook-form';
 import { DateTime } from 'luxon';
 import { isLiquefiedGas } from '@common/gas/gases';
@@ -24,7 +24,10 @@ import {
   type CompressedCheck,
   type LiquefiedCheck,
 } from '../lib/evaluate-cylinder-check';
-import { ContentsChart } from './contents-chart';
+import { LoadingState } from '@/components/ui/states';
+
+// the chart library is large: the time remaining shows at once and the chart follows
+const ContentsChart = lazy(() => import('./contents-chart').then((m) => ({ default: m.ContentsChart })));
 
 /** What the check needs of a cylinder type and a gas (the app passes the catalogue in). */
 export interface CylinderTypeOption {
@@ -289,7 +292,21 @@ function Results({ r, fillPressureBar, shownAbove }: { r: CompressedCheck | Liqu
 
       {r.kind === 'compressed' ? <CompressedDetails r={r} fillPressureBar={fillPressureBar} refT={refT} pressure={pressure} /> : <LiquefiedDetails r={r} pressure={pressure} />}
 
-      {r.kind === 'compressed' && <Card><CardBody><ContentsChart points={r.chart} reading={u.us ? r.contents.gaugeBar / BAR_PER_PSI : r.contents.gaugeBar} realNow={r.contents.freeGasL} pressureUnit={u.pressure} temperatureLabel={`${formatNumber(u.us ? celsiusToFahrenheit(r.temperatureC) : r.temperatureC, 1)} ${u.temperature}`} /></CardBody></Card>}
+      {r.kind === 'compressed' && (
+        <Card>
+          <CardBody>
+            <Suspense fallback={<LoadingState label="Loading the chart…" />}>
+              <ContentsChart
+                points={r.chart}
+                reading={u.us ? r.contents.gaugeBar / BAR_PER_PSI : r.contents.gaugeBar}
+                realNow={r.contents.freeGasL}
+                pressureUnit={u.pressure}
+                temperatureLabel={`${formatNumber(u.us ? celsiusToFahrenheit(r.temperatureC) : r.temperatureC, 1)} ${u.temperature}`}
+              />
+            </Suspense>
+          </CardBody>
+        </Card>
+      )}
 
       <Card>
         <CardHeader title="Inputs and method" headingLevel={3} />

@@ -1,3 +1,4 @@
+import { lazy, Suspense } from 'react';
 import { DateTime } from 'luxon';
 import { GAS_INFO, isGasCode } from '@common/gas/gases';
 import { cn } from '@/lib/cn';
@@ -5,7 +6,9 @@ import { formatDateTime, formatDay, formatDays, formatNumber, formatRelative } f
 import { StatusBadge } from '@/components/ui/badge';
 import { Icon } from '@/components/ui/icons';
 import type { RankedSource } from '../lib/rank-sources';
-import { TrendSparkline } from './trend-sparkline';
+
+// the chart library is large: the cards show their figures at once and the lines follow
+const TrendSparkline = lazy(() => import('./trend-sparkline').then((m) => ({ default: m.TrendSparkline })));
 
 const TYPE_LABEL: Record<RankedSource['type'], string> = { bulk_liquid: 'Bulk liquid tank', manifold: 'Cylinder manifold', cylinder_store: 'Cylinder store' };
 const EDGE: Record<RankedSource['status'], string> = { critical: 'border-l-critical', reorder: 'border-l-warn', watch: 'border-l-watch', ok: 'border-l-ok' };
@@ -58,7 +61,9 @@ export function SourceCard({ s, showSite }: { s: RankedSource; showSite: boolean
           )}
         </div>
         <div className="w-28 shrink-0 sm:w-36">
-          <TrendSparkline trend={s.trend} status={s.status} unit={s.unit} />
+          <Suspense fallback={<div className="h-12 w-full" />}>
+            <TrendSparkline trend={s.trend} status={s.status} unit={s.unit} />
+          </Suspense>
         </div>
       </div>
 
