@@ -6,6 +6,7 @@ import { createDataSource } from './db/data-source';
 import { setDb } from './db/db';
 import { createApp } from './app';
 import { logger } from './logger';
+import { startOrderJobs, type OrderJobs } from './modules/orders/order-jobs';
 
 const e = env();
 logger.setLevel(e.LOG_LEVEL);
@@ -25,6 +26,7 @@ const server: Server = app.listen(e.PORT, e.HOST, (err?: Error) => {
   }
   logger.info(`Plenum listening on http://${e.HOST}:${e.PORT}`);
 });
+const jobs: OrderJobs | undefined = e.JOBS_ENABLED ? startOrderJobs() : undefined;
 
 let stopping = false;
 async function stop(signal: string) {
@@ -33,6 +35,7 @@ async function stop(signal: string) {
   logger.info(`${signal}: stopping`);
   server.close();
   server.closeAllConnections?.();
+  await jobs?.stop().catch(() => undefined);
   await close().catch(() => undefined);
   await ds.destroy().catch(() => undefined);
   process.exit(0);

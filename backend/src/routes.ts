@@ -10,11 +10,12 @@ import { calcRoutes } from './modules/calc/calc.routes';
 import { supplyRoutes } from './modules/supply/supply.routes';
 import { forecastRoutes } from './modules/forecast/forecast.routes';
 import { capacityRoutes } from './modules/capacity/capacity.routes';
+import { orderRoutes } from './modules/orders/orders.routes';
 
 /**
  * The route table: every API route with the roles that may call it. The app registers exactly these,
  * and the role-matrix test reads the same list, so a new route cannot escape the matrix.
  */
 export function routeTable(): RouteDef[] {
-  return [...healthRoutes(), ...authRoutes(), ...siteRoutes(), ...userRoutes(), ...catalogueRoutes(), ...auditRoutes(), ...mailRoutes(), ...calcRoutes(), ...supplyRoutes(), ...forecastRoutes(), ...capacityRoutes()];
+  return [...healthRoutes(), ...authRoutes(), ...siteRoutes(), ...userRoutes(), ...catalogueRoutes(), ...auditRoutes(), ...mailRoutes(), ...calcRoutes(), ...supplyRoutes(), ...forecastRoutes(), ...capacityRoutes(), ...orderRoutes()];
 }

@@ -2,6 +2,7 @@ import type { DataSource } from 'typeorm';
 import { CylinderType } from '@backend/db/entities/catalogue.entity';
 import { Scenario, ScheduledDelivery, SupplySource, Ward } from '@backend/db/entities/supply.entity';
 import type { TestOrg } from './test-app';
+import { createOrderFixtures } from './order-fixtures';
 import { uniq } from './test-app';
 import { createCapacityFixtures } from './capacity-fixtures';
 
@@ -15,5 +16,5 @@ export async function createSupplyFixtures(ds: DataSource, org: TestOrg, siteId:
   const ward = await ds.getRepository(Ward).save(ds.getRepository(Ward).create({ siteId, name: `Ward ${tag}`, department: 'ward', beds: 20, leakagePercent: 0, active: true }));
   const scenario = await ds.getRepository(Scenario).save(ds.getRepository(Scenario).create({ siteId, name: `Scenario ${tag}`, multiplier: 1.1, extraPatients: 0, extraFlowLMin: 0, wardId: null, wardChange: null, fromLocal: '2027-01-04T00:00', untilLocal: null, note: '' }));
   const delivery = await ds.getRepository(ScheduledDelivery).save(ds.getRepository(ScheduledDelivery).create({ sourceId: source.id, dueAt: new Date(Date.now() + 86_400_000), kg: null, cylinders: 4, status: 'scheduled', reference: tag }));
-  return { sources: source.id, wards: ward.id, scenarios: scenario.id, deliveries: delivery.id, ...(await createCapacityFixtures(ds, org, siteId)) };
+  return { sources: source.id, wards: ward.id, scenarios: scenario.id, deliveries: delivery.id, ...(await createCapacityFixtures(ds, org, siteId)), ...(await createOrderFixtures(ds, org, siteId, source.id)) };
 }

@@ -40,6 +40,19 @@ const envSchema = z.object({
     .default('true')
     .transform((v) => v === 'true'),
   LOG_LEVEL: z.enum(['silent', 'error', 'info', 'debug']).default('info'),
+  /** Background jobs of this process (outbox worker, reorder scan, alerts); tests start them by hand. */
+  JOBS_ENABLED: z
+    .enum(['true', 'false'])
+    .default('true')
+    .transform((v) => v === 'true'),
+  OUTBOX_POLL_MS: z.coerce.number().int().min(50).default(5000),
+  OUTBOX_BACKOFF_BASE_MS: z.coerce.number().int().min(1).default(30_000),
+  OUTBOX_BACKOFF_MAX_MS: z.coerce.number().int().min(1).default(15 * 60_000),
+  /** Attempts after which a refused message (SMTP 5xx) is marked failed; unreachable servers are retried until they answer. */
+  OUTBOX_MAX_ATTEMPTS: z.coerce.number().int().min(1).default(5),
+  ORDERS_SCAN_MS: z.coerce.number().int().min(1000).default(5 * 60_000),
+  ALERTS_POLL_MS: z.coerce.number().int().min(1000).default(10 * 60_000),
+  PUBLIC_URL: z.string().default('http://127.0.0.1:8080'),
 });
 
 export type Env = z.infer<typeof envSchema>;

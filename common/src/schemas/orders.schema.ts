@@ -1,0 +1,104 @@
+import { z } from 'zod';
+import { currencySchema } from './common.schema';
+
+/** Request and response schemas of reorder requests, purchase orders, deliveries, spend and alerts. */
+
+export const REQUEST_STATUSES = ['draft', 'submitted', 'approved', 'ordered', 'part_delivered', 'delivered', 'rejected', 'cancelled'] as const;
+export type RequestStatus = (typeof REQUEST_STATUSES)[number];
+/** Statuses in which a request still holds its source's one open slot. */
+export const OPEN_REQUEST_STATUSES: readonly RequestStatus[] = ['draft', 'submitted', 'approved', 'ordered'];
+
+export const REQUEST_STATUS_TEXT: Record<RequestStatus, string> = {
+  draft: 'Draft',
+  submitted: 'Awaiting approval',
+  approved: 'Approved — order being sent',
+  ordered: 'Ordered',
+  part_delivered: 'Delivered in part (closed)',
+  delivered: 'Delivered',
+  rejected: 'Rejected',
+  cancelled: 'Cancelled',
+};
+
+const text = (max: number) => z.string().trim().max(max, `at most ${max} characters`);
+/** A quantity: whole cylinders, or kg for a bulk tank (checked against the request's unit by the server). */
+const quantity = z.number({ error: 'quantity must be a number' }).positive('must be above 0').max(1_000_000, 'above 1,000,000: check the quantity');
+
+export const requestListQuerySchema = z.object({
+  status: z.enum([...REQUEST_STATUSES, 'open', 'closed', 'all']).default('all'),
+  siteId: z.coerce.number().int().positive().optional(),
+  page: z.coerce.number().int().min(1).default(1),
+  pageSize: z.coerce.number().int().min(1).max(200).default(50),
+});
+export type RequestListQuery = z.infer<typeof requestListQuerySchema>;
+
+export const createRequestSchema = z.object({
+  sourceId: z.number({ error: 'choose a source' }).int().positive(),
+  /** Omit to take the suggested quantity; a different quantity needs a reason. */
+  quantity: quantity.nullable().default(null),
+  reason: text(500).default(''),
+  note: text(1000).default(''),
+  /** Submit for approval at once (otherwise it stays a draft). */
+  submit: z.boolean().default(false),
+});
+export type CreateRequestInput = z.infer<typeof createRequestSchema>;
+
+export const changeQuantitySchema = z.object({
+  quantity,
+  reason: text(500).min(3, 'say why the quantity changes'),
+  version: z.number().int().positive().optional(),
+});
+export type ChangeQuantityInput = z.infer<typeof changeQuantitySchema>;
+
+export const decisionSchema = z.object({
+  comment: text(1000).default(''),
+  /** The version the approver saw; a request changed since is refused rather than approved unseen. */
+  version: z.number().int().positive().optional(),
+});
+export type DecisionInput = z.infer<typeof decisionSchema>;
+
+export const rejectSchema = decisionSchema.extend({ comment: text(1000).min(3, 'say why the request is rejected') });
+export type RejectInput = z.infer<typeof rejectSchema>;
+
+export const cancelSchema = z.object({ reason: text(500).min(3, 'say why the request is cancelled'), version: z.number().int().positive().optional() });
+
+export const deliverySchema = z.object({
+  deliveryNote: text(60).min(1, 'enter the delivery-note number'),
+  deliveredAt: z.iso.datetime({ offset: true, error: 'use an ISO date and time' }),
+  /** Cylinders (whole) or kg, as on the order. */
+  quantity: z.number({ error: 'quantity must be a number' }).min(0, 'must be ≥ 0').max(1_000_000),
+  emptiesCollected: z.number().int('whole cylinders').min(0).max(10_000).default(0),
+  note: text(500).default(''),
+});
+export type DeliveryRecordInput = z.infer<typeof deliverySchema>;
+
+export const approvalLimitSchema = z.object({
+  limitMinor: z.number({ error: 'enter a limit' }).int('in minor units (whole pence or cents)').min(0).max(2_000_000_000),
+  currency: currencySchema,
+});
+export type ApprovalLimitInput = z.infer<typeof approvalLimitSchema>;
+
+export const spendQuerySchema = z.object({
+  from: z.string().regex(/^\d{4}-\d{2}$/, 'use yyyy-MM').optional(),
+  to: z.string().regex(/^\d{4}-\d{2}$/, 'use yyyy-MM').optional(),
+  siteId: z.coerce.number().int().positive().optional(),
+});
+export type SpendQuery = z.infer<typeof spendQuerySchema>;
+
+export const SUBSCRIPTION_MODES = ['immediate', 'digest'] as const;
+export const subscriptionSchema = z.object({
+  mode: z.enum(SUBSCRIPTION_MODES),
+  policyDays: z.number({ error: 'enter days of stock' }).min(0.5, 'at least half a day').max(365),
+});
+export type SubscriptionInput = z.infer<typeof subscriptionSchema>;
+
+export const outboxQuerySchema = z.object({
+  status: z.enum(['pending', 'sent', 'failed', 'attention', 'all']).default('attention'),
+  page: z.coerce.number().int().min(1).default(1),
+  pageSize: z.coerce.number().int().min(1).max(200).default(50),
+});
+
+/** Header carrying a client-chosen key that makes a write safe to repeat. */
+export const IDEMPOTENCY_HEADER = 'idempotency-key';
+export const idempotencyKeySchema = z.string().regex(/^[\w-]{8,100}$/, 'use 8–100 letters, digits, - or _').optional();
+
+export const moneyCurrencySchema = currencySchema;
