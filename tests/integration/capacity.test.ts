@@ -448,6 +448,20 @@ describe("the engineer's sign-off", () => {
     expect(stale.body.error.code).toBe('inputs_changed');
   });
 
+  it('stays current when only the demand forecast moves (the sign-off attests to the design inputs)', async () => {
+    const siteId = org.siteIds[1];
+    const cap = await biomed.get(`/api/sites/${siteId}/capacity`);
+    const signed = await biomed.post(`/api/sites/${siteId}/capacity/signoffs`, { engineerName: 'A. Engineer', inputsHash: cap.body.inputsHash });
+    expect(signed.status, JSON.stringify(signed.body)).toBe(200);
+    const [ward]: { id: number }[] = await app.ds.query('SELECT w.id FROM ward w JOIN ward_feed f ON f.ward_id = w.id WHERE w.site_id = ? LIMIT 1', [siteId]);
+    await app.ds.getRepository(TherapyLineRow).insert({ wardId: ward.id, gasCode: 'O2', device: 'hfno', patients: 2, flowLMin: 40, hoursJson: null, weekdaysJson: null, label: '' });
+    const after = await biomed.get(`/api/sites/${siteId}/capacity`);
+    const src = after.body.gases.find((g: { gasCode: string }) => g.gasCode === 'O2').sources[0];
+    // 20 L/min before, plus 2 × 40 = 100 L/min mean demand now.
+    expect(src.forecastFlowLMin).toBeCloseTo(100, 9);
+    expect(after.body.latestSignoff).toMatchObject({ id: signed.body.id, current: true });
+  });
+
   it('a sign-off needs a name; only the biomedical engineer signs', async () => {
     const siteId = org.siteIds[0];
     const cap = await biomed.get(`/api/sites/${siteId}/capacity`);

@@ -448,13 +448,18 @@ async function loadCapacityInput(actor: Actor, site: Site, options: CapacityQuer
   };
 }
 
-/** SHA-256 of everything the report is computed from, so a sign-off can tell whether it still applies. */
+/**
+ * SHA-256 of the design inputs of the report (site, what-if inputs, zones with their rules and pipe
+ * runs, sources), so a sign-off can tell whether it still applies. The forecast demand is left out on
+ * purpose: it moves with every reading, while the sign-off attests to the design; the report as signed
+ * keeps the demand figures of that day.
+ */
 function hashInputs(input: Loaded['input']): string {
   const canonical = JSON.stringify({
     site: input.site,
     options: input.options,
-    zones: input.zones.map((z) => ({ ...z, ruleSet: z.ruleSet })),
-    sources: input.sources,
+    zones: input.zones,
+    sources: input.sources.map(({ forecastFlowLMin: _f, forecastBasis: _b, ...design }) => design),
   });
   return createHash('sha256').update(canonical).digest('hex');
 }

@@ -90,7 +90,16 @@ export function RuleSetsScreen({ canEdit }: { canEdit: boolean }) {
               ))}
             </ul>
           </Card>
-          {current && <RuleSetView key={`${current.key}-${current.updatedAt}`} set={current} canEdit={canEdit} onCopy={() => setCopyOf(current)} onDeleted={() => setSelected('default')} />}
+          {current && (
+            <RuleSetView
+              key={`${current.key}-${current.updatedAt}`}
+              set={current}
+              basedOnName={sets.data.find((s) => s.key === current.basedOn)?.name ?? current.basedOn}
+              canEdit={canEdit}
+              onCopy={() => setCopyOf(current)}
+              onDeleted={() => setSelected('default')}
+            />
+          )}
         </div>
       )}
       <Dialog open={copyOf !== null} onClose={() => setCopyOf(null)} title={`Copy “${copyOf?.name ?? ''}”`}>
@@ -136,7 +145,7 @@ interface RuleRef {
   department: string;
 }
 
-function RuleSetView({ set, canEdit, onCopy, onDeleted }: { set: RuleSetRow; canEdit: boolean; onCopy: () => void; onDeleted: () => void }) {
+function RuleSetView({ set, basedOnName, canEdit, onCopy, onDeleted }: { set: RuleSetRow; basedOnName: string | null; canEdit: boolean; onCopy: () => void; onDeleted: () => void }) {
   const editable = canEdit && !set.builtin;
   const [draft, setDraft] = useState<DiversityRuleSet>(() => structuredClone(set.rules));
   const [name, setName] = useState(set.name);
@@ -168,10 +177,10 @@ function RuleSetView({ set, canEdit, onCopy, onDeleted }: { set: RuleSetRow; can
     });
 
   return (
-    <Card>
+    <Card className="min-w-0">
       <CardHeader
         title={set.name}
-        description={set.builtin ? 'Shipped with Plenum. Copy it to change a rule.' : `Copy of ${set.basedOn ?? 'a rule set'}. Changes apply to every zone that uses this set.`}
+        description={set.builtin ? 'Shipped with Plenum. Copy it to change a rule.' : `${basedOnName ? `Copy of ${basedOnName}.` : 'Written by your organisation.'} Changes apply to every zone that uses this set.`}
         actions={
           <>
             {canEdit && (
@@ -359,6 +368,14 @@ function toRuleDraft(draft: DiversityRuleSet, at: RuleRef | null): RuleDraft {
   };
 }
 
+/** zod's messages for people: what to enter, not what was received. */
+function ruleIssueMessage(issue: { code: string; message: string; minimum?: unknown; maximum?: unknown; inclusive?: boolean }): string {
+  if (issue.code === 'invalid_type') return 'enter a number';
+  if (issue.code === 'too_big') return `at most ${String(issue.maximum)}`;
+  if (issue.code === 'too_small') return issue.inclusive === false ? `above ${String(issue.minimum)}` : `at least ${String(issue.minimum)}`;
+  return issue.message;
+}
+
 function RuleForm({ draft, at, onDone }: { draft: DiversityRuleSet; at: RuleRef | null; onDone: (ref: RuleRef | null, rule: DepartmentRule | null) => void }) {
   const [v, setV] = useState<RuleDraft>(() => toRuleDraft(draft, at));
   const [errors, setErrors] = useState<Record<string, string>>({});
@@ -377,7 +394,7 @@ function RuleForm({ draft, at, onDone }: { draft: DiversityRuleSet; at: RuleRef 
             : { method: v.method, unit_L_min: n(v.unit), use_probability: n(v.p), confidence: n(v.confidence), ...meta };
     const parsed = departmentRuleSchema.safeParse(candidate);
     if (!parsed.success) {
-      setErrors(Object.fromEntries(parsed.error.issues.map((i) => [String(i.path[0]), /expected number/i.test(i.message) ? 'enter a number' : i.message])));
+      setErrors(Object.fromEntries(parsed.error.issues.map((i) => [String(i.path[0]), ruleIssueMessage(i)])));
       return;
     }
     onDone({ gas: v.gas, department: v.department }, parsed.data);

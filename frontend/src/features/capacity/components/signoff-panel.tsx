@@ -123,7 +123,7 @@ function SignoffForm({ report, whatIf, engineerName, onDone }: { report: Capacit
         </Alert>
       )}
       <Alert tone="warn" title="What you sign">
-        {report.caution} You sign the figures on this screen, computed from the inputs shown in the report; the name, the date and the report are recorded.
+        {report.caution} You sign the figures on this screen, computed from the inputs shown in the report; the name, the date and the report are recorded. A later change to the zones, pipe runs, sources or rules marks the sign-off as out of date; the daily demand forecast does not.
       </Alert>
       <Field label="Engineer's name" error={formState.errors.engineerName?.message}>
         {(c) => <Input {...c} {...register('engineerName')} autoComplete="name" />}
