@@ -139,6 +139,22 @@ describe('supply sources and readings', () => {
     expect(again.body.outlook.emptyAt).toBe(base.body.outlook.emptyAt);
   });
 
+  it('flags a vaporiser whose derated rating is below the peak hourly demand', async () => {
+    // 20 patients × 10 L/min = 12 m³/h; a 15 m³/h vaporiser derated to 0.7 carries 10.5 m³/h: overload.
+    const src = await fm.post(`/api/sites/${siteId}/sources`, tank('Tank V', { vaporiserM3H: 15, vaporiserDerating: 0.7 }));
+    const ward = await fm.post(`/api/sites/${siteId}/wards`, { name: 'Ward V', department: 'ward', beds: 20 });
+    await fm.put(`/api/wards/${ward.body.id}/feeds`, { feeds: [{ sourceId: src.body.id, gasCode: 'O2', role: 'primary' }] });
+    await fm.put(`/api/wards/${ward.body.id}/therapy`, { lines: [{ gasCode: 'O2', device: 'custom', patients: 20, flowLMin: 10 }] });
+    await fm.post(`/api/sources/${src.body.id}/readings`, { kind: 'kg', value: 8000, takenAt: new Date().toISOString() });
+    const detail = await fm.get(`/api/sources/${src.body.id}?draws=0`);
+    expect(detail.body.outlook.firstRisk.code).toBe('vaporiser_overload');
+    expect(detail.body.outlook.status).toBe('critical');
+    // With a 20 m³/h vaporiser (14 m³/h derated) there is no such risk.
+    await fm.put(`/api/sources/${src.body.id}`, tank('Tank V', { vaporiserM3H: 20, vaporiserDerating: 0.7 }));
+    const ok = await fm.get(`/api/sources/${src.body.id}?draws=0`);
+    expect(ok.body.outlook.firstRisk?.code ?? null).not.toBe('vaporiser_overload');
+  });
+
   it('records every write in the audit log with before and after', async () => {
     const admin = await signedIn(app, org.users.administrator);
     const src = await fm.post(`/api/sites/${siteId}/sources`, tank('Tank F'));

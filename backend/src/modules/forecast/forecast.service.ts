@@ -20,6 +20,8 @@ export const STATUS_TEXT: Record<SourceStatus, string> = {
 };
 
 const DEFAULT_LEAD_TIME_HOURS = 48;
+/** Vaporiser derating when none is entered: 0.7 for an alternating pair (the capacity engine's documented default). */
+const VAPORISER_DEFAULT_DERATING = 0.7;
 const MS_H = 3_600_000;
 
 export interface ForecastOptions {
@@ -300,6 +302,19 @@ export function outlookFor(model: SiteModel, s: SupplySource, opts: ForecastOpti
   else if (hoursToReorder !== null && hoursToReorder <= 7 * 24) status = 'watch';
   else if (daysOfStock !== null && daysOfStock * 24 <= lead) status = 'critical';
 
+  // A vaporiser carries the hourly demand only up to its derated rating (continuous duty, cold weather).
+  let risk = f.firstRisk ? { code: f.firstRisk.kind as string, message: f.firstRisk.message, atHours: f.firstRisk.atHours } : null;
+  if (s.type === 'bulk_liquid' && s.vaporiserM3H) {
+    const derated = s.vaporiserM3H * (s.vaporiserDerating ?? VAPORISER_DEFAULT_DERATING);
+    for (let i = elapsed; i < f.demandLPerHour.length; i++) {
+      if (f.demandLPerHour[i] / 1000 > derated) {
+        if (!risk || i + 1 < risk.atHours) risk = { code: 'vaporiser_overload', message: `Demand of ${(f.demandLPerHour[i] / 1000).toFixed(1)} m³/h is above the vaporiser's derated ${derated.toFixed(1)} m³/h.`, atHours: i };
+        break;
+      }
+    }
+    if (risk?.code === 'vaporiser_overload' && risk.atHours <= elapsed + 24 && status !== 'critical') status = 'critical';
+  }
+
   const trend: number[] = [];
   for (let d = 0; d <= 14; d++) {
     const i = elapsed + d * 24 - 1;
@@ -313,7 +328,7 @@ export function outlookFor(model: SiteModel, s: SupplySource, opts: ForecastOpti
     daysOfStock,
     emptyAt,
     reorderAt: reorderAtMs === null ? null : new Date(reorderAtMs).toISOString(),
-    firstRisk: f.firstRisk ? { code: f.firstRisk.kind, message: f.firstRisk.message, at: new Date(startMs + f.firstRisk.atHours * MS_H).toISOString() } : null,
+    firstRisk: risk ? { code: risk.code, message: risk.message, at: new Date(startMs + risk.atHours * MS_H).toISOString() } : null,
     trend,
     note: null,
     forecast: f,
