@@ -4,6 +4,7 @@ import { isGasCode } from '@common/gas/gases';
 import { queryClient } from '@/lib/query-client';
 import { catalogueQueries } from '@/features/catalogue/api/catalogue-api';
 import { CylinderCheck } from '@/features/cylinder-check/components/cylinder-check';
+import { Alert } from '@/components/ui/alert';
 import { Card } from '@/components/ui/card';
 import { PageHeader } from '@/components/ui/page-header';
 import { EmptyState, ErrorState, LoadingState } from '@/components/ui/states';
@@ -36,6 +37,12 @@ export function Component() {
           <ErrorState error={gases.error} onRetry={() => gases.refetch()} />
         </Card>
       ) : (
+        <>
+        {types.isError && (
+          <Alert tone="warn" className="mb-4" title="The cylinder types could not be loaded">
+            Enter the water capacity by hand; the check works without the catalogue.
+          </Alert>
+        )}
         <CylinderCheck
           // a new site means new units and a new store temperature: start afresh
           key={site.id}
@@ -43,6 +50,7 @@ export function Component() {
           gases={gases.data.filter((g) => isGasCode(g.code))}
           cylinderTypes={types.data ?? []}
         />
+        </>
       )}
     </div>
   );
