@@ -6,7 +6,7 @@ import { db } from '../../db/db';
 import { User, UserRole, UserSite } from '../../db/entities/user.entity';
 import { Site } from '../../db/entities/site.entity';
 import type { Actor } from '../../http/context';
-import { badRequest, conflict, notFound } from '../../errors/app-error';
+import { AppError, badRequest, notFound } from '../../errors/app-error';
 import { recordAudit, whoOf } from '../audit/audit.service';
 import { hashPassword } from '../auth/auth.service';
 import type { EntityManager } from 'typeorm';
@@ -68,7 +68,7 @@ export async function createUser(actor: Actor, input: UserCreateInput): Promise<
   const hash = await hashPassword(input.password);
   return db().transaction(async (m) => {
     await checkSites(m, actor, input.siteIds);
-    if (await m.getRepository(User).findOneBy({ email: input.email })) throw conflict('A user with this e-mail exists already', 'duplicate');
+    if (await m.getRepository(User).findOneBy({ email: input.email })) throw new AppError(409, 'duplicate', 'A user with this e-mail exists already', [{ path: 'email', message: 'already in use' }]);
     const saved = await m.getRepository(User).save(m.getRepository(User).create({ organisationId: actor.user.organisationId, email: input.email, name: input.name, passwordHash: hash, active: true, failedLogins: 0, lockedUntil: null, passwordChangedAt: new Date() }));
     await m.getRepository(UserRole).insert([...new Set(input.roles)].map((role) => ({ userId: saved.id, role })));
     if (input.siteIds.length) await m.getRepository(UserSite).insert([...new Set(input.siteIds)].map((siteId) => ({ userId: saved.id, siteId })));
