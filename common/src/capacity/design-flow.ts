@@ -103,7 +103,8 @@ export interface DesignFlowResult {
 
 /** Looks up a shipped rule set or throws InvalidInputError naming the field. */
 export function getRuleSet(id: string): DiversityRuleSet {
-  const set = DEFAULT_RULE_SETS[id];
+  // own keys only: "__proto__" or "constructor" are not rule sets
+  const set = Object.hasOwn(DEFAULT_RULE_SETS, id) ? DEFAULT_RULE_SETS[id] : undefined;
   if (!set) {
     throw new InvalidInputError(`Unknown rule set "${id}"`, [
       { path: 'rule_set', message: `unknown rule set; known: ${Object.keys(DEFAULT_RULE_SETS).join(', ')}, or pass your own in "rules"` },

@@ -4,11 +4,17 @@
  */
 import { InvalidInputError } from '../api/errors';
 
+/** Largest outlet count the binomial method accepts: it holds one probability per count, and no zone comes near it. */
+export const MAX_OUTLETS = 100_000;
+
 function requireOutletCount(n: number, path = 'outlets'): void {
   if (!Number.isInteger(n) || n < 1) {
     throw new InvalidInputError(`The number of outlets must be a whole number of at least 1 (got ${n})`, [
       { path, message: 'expected an integer ≥ 1' },
     ]);
+  }
+  if (n > MAX_OUTLETS) {
+    throw new InvalidInputError(`The number of outlets must be at most ${MAX_OUTLETS} (got ${n})`, [{ path, message: `expected at most ${MAX_OUTLETS}` }]);
   }
 }
 
