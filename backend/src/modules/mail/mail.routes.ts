@@ -20,7 +20,11 @@ export function mailRoutes(): RouteDef[] {
         const q = validate(listQuerySchema, req.query, 'query');
         const qb = db().getRepository(MailMessage).createQueryBuilder('m').select(['m.id', 'm.receivedAt', 'm.mailFrom', 'm.mailTo', 'm.subject', 'm.sizeBytes']);
         if (q.q) qb.where('(m.subject LIKE :q OR m.mail_to LIKE :q OR m.mail_from LIKE :q)', { q: `%${q.q}%` });
-        qb.orderBy('m.id', 'DESC').skip((q.page - 1) * q.pageSize).take(q.pageSize);
+        const sortable: Record<string, string> = { receivedAt: 'm.received_at', subject: 'm.subject', to: 'm.mail_to', from: 'm.mail_from' };
+        const col = q.sort ? sortable[q.sort] : undefined;
+        if (col) qb.orderBy(col, q.dir === 'desc' ? 'DESC' : 'ASC').addOrderBy('m.id', 'DESC');
+        else qb.orderBy('m.id', 'DESC');
+        qb.skip((q.page - 1) * q.pageSize).take(q.pageSize);
         const [rows, total] = await qb.getManyAndCount();
         const counts: { id: number; n: string }[] = rows.length
           ? await db().query(`SELECT mail_message_id AS id, COUNT(*) AS n FROM mail_attachment WHERE mail_message_id IN (${rows.map(() => '?').join(',')}) GROUP BY mail_message_id`, rows.map((r) => r.id))
