@@ -6,6 +6,9 @@ import { createDataSource } from './db/data-source';
 import { setDb } from './db/db';
 import { createApp } from './app';
 import { logger } from './logger';
+import { startImportWorker } from './modules/imports/import-runner';
+import { startReminderJob } from './modules/usage/usage-reminder';
+import { closeBulkPool } from './db/bulk-pool';
 import { startOrderJobs, type OrderJobs } from './modules/orders/order-jobs';
 
 const e = env();
@@ -28,6 +31,10 @@ const server: Server = app.listen(e.PORT, e.HOST, (err?: Error) => {
 });
 const jobs: OrderJobs | undefined = e.JOBS_ENABLED ? startOrderJobs() : undefined;
 
+// Background work of uploads and usage reports (outside createApp, so tests start their own).
+const stopImportWorker = startImportWorker();
+const stopReminders = startReminderJob();
+
 let stopping = false;
 async function stop(signal: string) {
   if (stopping) return;
@@ -35,6 +42,9 @@ async function stop(signal: string) {
   logger.info(`${signal}: stopping`);
   server.close();
   server.closeAllConnections?.();
+  await stopImportWorker().catch(() => undefined);
+  await stopReminders().catch(() => undefined);
+  await closeBulkPool();
   await jobs?.stop().catch(() => undefined);
   await close().catch(() => undefined);
   await ds.destroy().catch(() => undefined);

@@ -11,11 +11,13 @@ import { supplyRoutes } from './modules/supply/supply.routes';
 import { forecastRoutes } from './modules/forecast/forecast.routes';
 import { capacityRoutes } from './modules/capacity/capacity.routes';
 import { orderRoutes } from './modules/orders/orders.routes';
+import { usageRoutes } from './modules/usage/usage.routes';
+import { importRoutes } from './modules/imports/imports.routes';
 
 /**
  * The route table: every API route with the roles that may call it. The app registers exactly these,
  * and the role-matrix test reads the same list, so a new route cannot escape the matrix.
  */
 export function routeTable(): RouteDef[] {
-  return [...healthRoutes(), ...authRoutes(), ...siteRoutes(), ...userRoutes(), ...catalogueRoutes(), ...auditRoutes(), ...mailRoutes(), ...calcRoutes(), ...supplyRoutes(), ...forecastRoutes(), ...capacityRoutes(), ...orderRoutes()];
+  return [...healthRoutes(), ...authRoutes(), ...siteRoutes(), ...userRoutes(), ...catalogueRoutes(), ...auditRoutes(), ...mailRoutes(), ...calcRoutes(), ...supplyRoutes(), ...forecastRoutes(), ...capacityRoutes(), ...orderRoutes(), ...usageRoutes(), ...importRoutes()];
 }

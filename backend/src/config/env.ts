@@ -40,6 +40,20 @@ const envSchema = z.object({
     .default('true')
     .transform((v) => v === 'true'),
   LOG_LEVEL: z.enum(['silent', 'error', 'info', 'debug']).default('info'),
+  /** Largest CSV upload, MB (a year of 1-minute telemetry is about 20 MB). */
+  UPLOAD_MAX_MB: z.coerce.number().positive().max(2048).default(100),
+  /** Where uploaded files wait between upload and import (deleted after); default: the system temp folder. */
+  UPLOAD_DIR: z.string().default(''),
+  /** Rows per bulk insert of an import. */
+  IMPORT_BATCH_ROWS: z.coerce.number().int().min(100).max(100_000).default(5000),
+  IMPORT_POLL_MS: z.coerce.number().int().min(50).default(1000),
+  /** Local time at each site after which a ward with no report for the day gets a reminder (HH:mm). */
+  REPORT_REMINDER_LOCAL_TIME: z.string().regex(/^([01]\d|2[0-3]):[0-5]\d$/, 'use HH:mm, e.g. 14:00').default('14:00'),
+  REPORT_REMINDER_POLL_MS: z.coerce.number().int().min(1000).default(60_000),
+  /** Hours after filing during which a ward lead may still edit a report (then only a facilities manager). */
+  REPORT_EDIT_WINDOW_HOURS: z.coerce.number().min(0).max(24 * 30).default(24),
+  /** How many days back a ward lead may file a missing report. */
+  REPORT_BACKFILL_DAYS: z.coerce.number().int().min(0).max(31).default(3),
   /** Background jobs of this process (outbox worker, reorder scan, alerts); tests start them by hand. */
   JOBS_ENABLED: z
     .enum(['true', 'false'])

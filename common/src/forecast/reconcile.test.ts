@@ -10,6 +10,8 @@ import {
   isoWeekOf,
   meterConsumption,
   meterCurve,
+  orderedSeries,
+  refillThreshold,
   stepNoise,
   suggestCorrectionFactor,
   usedBetween,
@@ -184,5 +186,24 @@ describe('meter totals', () => {
     expect(meterConsumption(totals)).toEqual({ used: 150, resets: 1 });
     const curve = meterCurve(totals);
     expect(Array.from(curve.used)).toEqual([0, 50, 110, 110, 150]);
+  });
+});
+
+describe('orderedSeries and refillThreshold', () => {
+  it('sorts readings and keeps the last of two at one instant', () => {
+    const s = orderedSeries([
+      { atMs: 3, contents: 30 },
+      { atMs: 1, contents: 10 },
+      { atMs: 3, contents: 31 },
+    ]);
+    expect(s).toEqual([
+      { atMs: 1, contents: 10 },
+      { atMs: 3, contents: 31 },
+    ]);
+  });
+  it('takes 2 % of a tank (at least 50 kg) or half a cylinder', () => {
+    expect(refillThreshold({ capacity: 10_000, fullCylinder: null })).toBe(200);
+    expect(refillThreshold({ capacity: 1000, fullCylinder: null })).toBe(50);
+    expect(refillThreshold({ capacity: null, fullCylinder: 2000 })).toBe(1000);
   });
 });

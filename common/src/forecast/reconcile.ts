@@ -397,3 +397,31 @@ export function meterCurve(totals: readonly ContentsPoint[]): UseCurve {
   }
   return curve;
 }
+
+/**
+ * Readings as a series reconcile functions accept: sorted by time, one point per instant (the last
+ * reading given for an instant wins, as when a manual reading repeats a telemetry one).
+ * @param points readings in any order (atMs UTC ms; contents any unit)
+ */
+export function orderedSeries(points: readonly ContentsPoint[]): ContentsPoint[] {
+  const sorted = points.map((p, i) => ({ p, i })).sort((a, b) => a.p.atMs - b.p.atMs || a.i - b.i);
+  const out: ContentsPoint[] = [];
+  for (const { p } of sorted) {
+    if (!Number.isFinite(p.atMs) || !Number.isFinite(p.contents)) continue;
+    if (out.length && out[out.length - 1].atMs === p.atMs) out[out.length - 1] = p;
+    else out.push(p);
+  }
+  return out;
+}
+
+/**
+ * Smallest rise that counts as a delivery: half a cylinder for cylinder sources, 2 % of a tank's
+ * capacity (at least 50 kg) for bulk tanks — far above gauge noise, far below any tanker drop
+ * (common practice: bulk drops are a large part of the tank; cylinders arrive whole).
+ * @param opts.capacity tank capacity, kg (bulk) — or null
+ * @param opts.fullCylinder free gas of one full cylinder, L (cylinder sources) — or null
+ */
+export function refillThreshold(opts: { capacity: number | null; fullCylinder: number | null }): number {
+  if (opts.fullCylinder && opts.fullCylinder > 0) return 0.5 * opts.fullCylinder;
+  return Math.max(50, 0.02 * (opts.capacity ?? 0));
+}

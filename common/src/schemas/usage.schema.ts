@@ -100,9 +100,9 @@ export interface ImportColumn {
 /** The columns of each kind of upload, in template order. */
 export const IMPORT_COLUMNS: Record<ImportKind, readonly ImportColumn[]> = {
   tank_readings: [
-    { key: 'time', label: 'Time', required: true, aliases: ['timestamp', 'date_time', 'datetime', 'taken_at', 'time_utc', 'reading_time', 'date'], description: 'When the reading was taken: 2027-01-04T08:30 (site time) or with an offset, 2027-01-04T08:30:00Z', examples: ['2027-01-04T08:00', '2027-01-04T09:00', '2027-01-04T10:00:00+00:00'] },
-    { key: 'level', label: 'Level', required: true, aliases: ['value', 'reading', 'contents', 'level_percent', 'percent', 'kg', 'mass_kg', 'litres', 'dp', 'differential_pressure'], description: 'The reading, in the unit of the unit column (or the unit chosen on upload)', examples: ['62.5', '62.1', '5820'] },
-    { key: 'unit', label: 'Unit', required: false, aliases: ['units', 'uom'], description: '% (level), kg, L (litres of liquid) or the unit of the tank’s calibration table (differential pressure)', examples: ['%', '%', 'kg'] },
+    { key: 'time', label: 'Time', required: true, aliases: ['timestamp', 'date_time', 'datetime', 'taken_at', 'time_utc', 'reading_time', 'date'], description: 'When the reading was taken: 2027-01-04T08:30 (site time) or with an offset, 2027-01-04T08:30:00Z', examples: ['2027-01-04T08:00', '2027-01-04T09:00', '2027-01-04T10:00'] },
+    { key: 'level', label: 'Level', required: true, aliases: ['value', 'reading', 'contents', 'level_percent', 'percent', 'kg', 'mass_kg', 'litres', 'dp', 'differential_pressure'], description: 'The reading, in the unit of the unit column (or the unit chosen on upload)', examples: ['62.5', '62.1', '61.8'] },
+    { key: 'unit', label: 'Unit', required: false, aliases: ['units', 'uom'], description: '% (level), kg, L (litres of liquid) or the unit of the tank’s calibration table (differential pressure)', examples: ['%', '%', '%'] },
     { key: 'source', label: 'Tank', required: false, aliases: ['tank', 'source_name', 'source_id', 'vessel'], description: 'The tank’s name or number in Plenum; leave out to use the tank chosen on upload', examples: ['', '', ''] },
     { key: 'note', label: 'Note', required: false, aliases: ['comment', 'notes', 'remark'], description: 'Free text', examples: ['', 'after the morning round', ''] },
   ],

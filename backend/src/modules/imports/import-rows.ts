@@ -1,0 +1,437 @@
+import { IMPORT_COLUMNS, type ImportKind, type ImportRowError } from '@common/schemas/usage.schema';
+import { GAS_CODES_CATALOGUE } from '@common/schemas/admin.schema';
+import { resolveLocalTimeUtcMs } from '@common/forecast/hour-index';
+import type { ReadingInput } from '@common/schemas/supply.schema';
+import type { Site } from '../../db/entities/site.entity';
+import type { CylinderType } from '../../db/entities/catalogue.entity';
+import type { SupplySource, Ward } from '../../db/entities/supply.entity';
+import { AppError } from '../../errors/app-error';
+import { contentsOfReading } from '../supply/supply.service';
+
+/**
+ * Turning CSV records into rows of the database, one kind of upload at a time. Everything here is
+ * per-row hot code (a year of 1-minute telemetry is 525,600 rows): no zod, no luxon per row, time-zone
+ * offsets cached per local hour, errors collected rather than thrown.
+ */
+
+export type DateOrder = 'ymd' | 'dmy' | 'mdy';
+
+/** Everything a row needs that does not change from row to row. */
+export interface RowContext {
+  kind: ImportKind;
+  site: Site;
+  separator: ',' | ';';
+  dateOrder: DateOrder;
+  /** Canonical column key → index in the record (absent keys are not in the file). */
+  columns: Record<string, number>;
+  /** Unit chosen on upload (used when the file has no unit column or the cell is empty). */
+  defaultUnit: string | null;
+  /** Target chosen on upload. */
+  defaultSource: SupplySource | null;
+  defaultWard: SupplySource | Ward | null;
+  /** Sources of the site that this kind may write to, by lower-case name and by id. */
+  sources: Map<string, SupplySource>;
+  wards: Map<string, Ward>;
+  cylinderTypes: Map<number, CylinderType>;
+  userId: number | null;
+  jobId: number;
+  now: number;
+}
+
+/** One row ready for the bulk insert, with what duplicate checks and the preview need. */
+export interface ParsedRow {
+  values: unknown[];
+  /** Identifies the row's slot (target + time or day): two rows with one key are duplicates. */
+  dupKey: number;
+  /** The target (source or ward) the row belongs to. */
+  targetId: number;
+  /** UTC ms of the reading, or of the local day's start for daily usage. */
+  atMs: number;
+}
+
+export type RowParser = ((record: string[], line: number, onError: (e: ImportRowError) => void) => ParsedRow | null) & {
+  /** The duplicate key of a target (source or ward) at an instant, as rows compute it (gas: historic usage). */
+  keyOf: (targetId: number, atMs: number, gasCode?: string) => number;
+};
+
+/** The bulk INSERT of each kind: the columns of `ParsedRow.values`, in order. */
+export const INSERT_SQL: Record<ImportKind, string> = {
+  tank_readings: 'INSERT INTO source_reading (source_id, taken_at, kind, value, detail_json, contents, method, taken_by_user_id, note) VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?)',
+  store_counts: 'INSERT INTO source_reading (source_id, taken_at, kind, value, detail_json, contents, method, taken_by_user_id, note) VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?)',
+  flow_meter_totals: 'INSERT INTO flow_meter_reading (site_id, ward_id, source_id, taken_at, total_l, note, import_job_id) VALUES (?, ?, ?, ?, ?, ?, ?)',
+  historic_usage: 'INSERT INTO usage_history (site_id, ward_id, gas_code, usage_date, volume_l, note, import_job_id) VALUES (?, ?, ?, ?, ?, ?, ?)',
+};
+
+// ---------- cells ----------
+
+/** A cell as text; a leading apostrophe our own exports put before = + - @ is taken off again. */
+function cell(record: string[], index: number | undefined): string {
+  if (index === undefined || index < 0) return '';
+  const v = record[index];
+  if (v === undefined) return '';
+  if (v.charCodeAt(0) === 39 && v.length > 1) {
+    const c = v.charCodeAt(1);
+    if (c === 61 || c === 43 || c === 45 || c === 64 || c === 9 || c === 13) return v.slice(1).trim();
+  }
+  return v.trim();
+}
+
+/** A number cell: NaN when not a number; a decimal comma is read when the separator is a semicolon. */
+function numberOf(text: string, decimalComma: boolean): number {
+  if (text === '') return Number.NaN;
+  const t = decimalComma && text.includes(',') ? text.replace(',', '.') : text;
+  const v = Number(t);
+  return Number.isFinite(v) ? v : Number.NaN;
+}
+
+const clip = (s: string) => (s.length > 80 ? `${s.slice(0, 77)}…` : s);
+
+// ---------- times ----------
+
+const ISO_RE = /^(\d{4})-(\d{1,2})-(\d{1,2})(?:[T ](\d{1,2}):(\d{2})(?::(\d{2})(?:[.,](\d{1,9}))?)?)?\s*(Z|z|[+-]\d{2}(?::?\d{2})?)?$/;
+const DMY_RE = /^(\d{1,2})[/.-](\d{1,2})[/.-](\d{4})(?:[T ,]+(\d{1,2}):(\d{2})(?::(\d{2})(?:[.,](\d{1,9}))?)?)?\s*(Z|z|[+-]\d{2}(?::?\d{2})?)?$/;
+
+export interface ParsedTime {
+  /** UTC ms (first occurrence for a local time in the hour repeated when clocks go back). */
+  ms: number;
+  /** The second occurrence when the local time is ambiguous, else null. */
+  altMs: number | null;
+  hasTime: boolean;
+  /** Local date as written, yyyy-MM-dd. */
+  date: string;
+}
+
+const hourCache = new Map<string, { start: number | null; alt: number | null }>();
+const wallFormats = new Map<string, Intl.DateTimeFormat>();
+
+/** Local wall clock `yyyy-MM-ddTHH:mm` of an instant (sv-SE formats that way); one formatter per zone. */
+function wallClockOf(ms: number, zone: string): string {
+  let f = wallFormats.get(zone);
+  if (!f) {
+    f = new Intl.DateTimeFormat('sv-SE', { timeZone: zone, year: 'numeric', month: '2-digit', day: '2-digit', hour: '2-digit', minute: '2-digit', hourCycle: 'h23' });
+    if (wallFormats.size < 100) wallFormats.set(zone, f);
+  }
+  return f.format(new Date(ms)).replace(' ', 'T');
+}
+
+function localHourStart(zone: string, y: number, mo: number, d: number, h: number): { start: number | null; alt: number | null } {
+  const key = `${zone}|${y}|${mo}|${d}|${h}`;
+  let hit = hourCache.get(key);
+  if (!hit) {
+    const local = `${y}-${String(mo).padStart(2, '0')}-${String(d).padStart(2, '0')}T${String(h).padStart(2, '0')}:00`;
+    const start = resolveLocalTimeUtcMs(local, zone);
+    let alt: number | null = null;
+    if (start !== null) {
+      // The same wall hour an hour later in real time is the repeat of a clock going back.
+      if (wallClockOf(start + 3_600_000, zone) === local) alt = start + 3_600_000;
+    }
+    hit = { start, alt };
+    if (hourCache.size > 200_000) hourCache.clear();
+    hourCache.set(key, hit);
+  }
+  return hit;
+}
+
+/**
+ * Reads a time cell: ISO-like `2027-01-04T08:30[:ss[.mmm]][Z|±hh:mm]` (a space may replace the T), or
+ * day/month/year or month/day/year when that order is chosen. Without an offset the time is the site's
+ * local time (IANA zone); a time skipped by the spring clock change is an error; a time in the repeated
+ * autumn hour gives both candidates. Returns a reason string when the cell cannot be read.
+ */
+export function parseTimeCell(text: string, zone: string, order: DateOrder, needTime: boolean): ParsedTime | string {
+  if (text === '') return 'missing';
+  let m = ISO_RE.exec(text);
+  let y: number, mo: number, d: number;
+  if (m) {
+    y = +m[1];
+    mo = +m[2];
+    d = +m[3];
+  } else {
+    m = DMY_RE.exec(text);
+    if (!m) return 'not a date and time (use 2027-01-04T08:30 or 2027-01-04 08:30)';
+    if (order === 'ymd') return 'a day/month or month/day date: choose the date order on upload';
+    y = +m[3];
+    mo = order === 'dmy' ? +m[2] : +m[1];
+    d = order === 'dmy' ? +m[1] : +m[2];
+  }
+  const hasTime = m[4] !== undefined;
+  if (needTime && !hasTime) return 'needs the time of day as well as the date';
+  const h = hasTime ? +m[4] : 0;
+  const mi = hasTime ? +m[5] : 0;
+  const s = m[6] !== undefined ? +m[6] : 0;
+  const frac = m[7] !== undefined ? Math.round(Number(`0.${m[7]}`) * 1000) : 0;
+  if (mo < 1 || mo > 12 || d < 1 || d > 31 || h > 23 || mi > 59 || s > 59) return 'not a calendar date and time';
+  const wall = Date.UTC(y, mo - 1, d, h, mi, s, frac);
+  const check = new Date(wall);
+  if (check.getUTCDate() !== d || check.getUTCMonth() !== mo - 1) return 'not a calendar date';
+  const date = `${y}-${String(mo).padStart(2, '0')}-${String(d).padStart(2, '0')}`;
+  const off = m[8];
+  if (off !== undefined) {
+    if (off === 'Z' || off === 'z') return { ms: wall, altMs: null, hasTime, date };
+    const sign = off[0] === '-' ? -1 : 1;
+    const digits = off.slice(1).replace(':', '');
+    const minutes = sign * (Number(digits.slice(0, 2)) * 60 + Number(digits.slice(2) || '0'));
+    if (Math.abs(minutes) > 14 * 60) return 'offset beyond ±14:00';
+    return { ms: wall - minutes * 60_000, altMs: null, hasTime, date };
+  }
+  const hour = localHourStart(zone, y, mo, d, h);
+  if (hour.start === null) return `does not exist in ${zone} (the clocks went forward): add the UTC offset, e.g. +01:00`;
+  const within = mi * 60_000 + s * 1000 + frac;
+  return { ms: hour.start + within, altMs: hour.alt === null ? null : hour.alt + within, hasTime, date };
+}
+
+// ---------- units ----------
+
+const TANK_UNITS: Record<string, ReadingInput['kind']> = { '%': 'level_percent', percent: 'level_percent', pct: 'level_percent', level_percent: 'level_percent', kg: 'kg', l: 'litres_liquid', litres: 'litres_liquid', liters: 'litres_liquid', litres_liquid: 'litres_liquid', l_liquid: 'litres_liquid', dp: 'calibration', calibration: 'calibration' };
+const VOLUME_UNITS: Record<string, number> = { l: 1, litres: 1, liters: 1, m3: 1000, 'm³': 1000, cubic_metres: 1000, cubic_meters: 1000 };
+
+const unitKey = (u: string) => u.trim().toLowerCase().replace(/³/g, '3').replace(/\s+/g, '_');
+
+/** The reading kind a tank unit means for a source (its calibration unit counts as differential pressure). */
+export function tankUnitKind(unit: string, source: SupplySource | null): ReadingInput['kind'] | null {
+  const k = unitKey(unit);
+  if (source?.calibrationUnit && k === unitKey(source.calibrationUnit)) return 'calibration';
+  return TANK_UNITS[k] ?? null;
+}
+
+export function volumeUnitFactor(unit: string): number | null {
+  return VOLUME_UNITS[unitKey(unit)] ?? null;
+}
+
+export function unitsAccepted(kind: ImportKind, source: SupplySource | null): string {
+  if (kind === 'tank_readings') return `%, kg, L (litres of liquid)${source?.calibrationUnit ? ` or ${source.calibrationUnit}` : ' or the tank’s calibration unit'}`;
+  if (kind === 'flow_meter_totals' || kind === 'historic_usage') return 'L or m3';
+  return '';
+}
+
+// ---------- the row parsers ----------
+
+function formatUtc(ms: number): string {
+  return new Date(ms).toISOString().slice(0, 23).replace('T', ' ');
+}
+
+/**
+ * Resolves the repeated autumn hour: the first row at an ambiguous local time takes the first
+ * occurrence, a second row at the same time (same target) the second. Memory: only rows in such hours.
+ */
+function ambiguityResolver() {
+  const seen = new Set<string>();
+  return (targetId: number, t: ParsedTime): number => {
+    if (t.altMs === null) return t.ms;
+    const key = `${targetId}|${t.ms}`;
+    if (seen.has(key)) return t.altMs;
+    seen.add(key);
+    return t.ms;
+  };
+}
+
+/** Builds the parser of one kind of upload for one job. */
+export function createRowParser(ctx: RowContext): RowParser {
+  // Errors seen so far: each row compares before and after to know whether it added any.
+  let errs = 0;
+  const c = ctx.columns;
+  const comma = ctx.separator === ';';
+  const zone = ctx.site.timeZone;
+  const resolve = ambiguityResolver();
+  const label = (key: string) => IMPORT_COLUMNS[ctx.kind].find((x) => x.key === key)?.label ?? key;
+  const futureLimit = ctx.now + 5 * 60_000;
+  const smallIndex = new Map<number, number>();
+  const indexOf = (id: number) => {
+    let i = smallIndex.get(id);
+    if (i === undefined) {
+      i = smallIndex.size;
+      smallIndex.set(id, i);
+    }
+    return i;
+  };
+
+  const sourceOf = (record: string[], line: number, onError: (e: ImportRowError) => void, what: string): SupplySource | null => {
+    const text = cell(record, c.source);
+    if (text === '') {
+      if (ctx.defaultSource) return ctx.defaultSource;
+      onError({ row: line, column: label('source'), value: '', reason: `no ${what}: choose one on upload or fill this column` });
+      return null;
+    }
+    const s = ctx.sources.get(text.toLowerCase());
+    if (!s) onError({ row: line, column: label('source'), value: clip(text), reason: `no ${what} with this name or number on this site` });
+    return s ?? null;
+  };
+
+  const timeOf = (record: string[], line: number, onError: (e: ImportRowError) => void, targetId: number): number | null => {
+    const text = cell(record, c.time);
+    const t = parseTimeCell(text, zone, ctx.dateOrder, true);
+    if (typeof t === 'string') {
+      onError({ row: line, column: label('time'), value: clip(text), reason: t });
+      return null;
+    }
+    const ms = resolve(targetId, t);
+    if (ms > futureLimit) {
+      onError({ row: line, column: label('time'), value: clip(text), reason: 'in the future' });
+      return null;
+    }
+    return ms;
+  };
+
+  const noteOf = (record: string[], line: number, onError: (e: ImportRowError) => void): string | null => {
+    const note = cell(record, c.note);
+    if (note.length > 500) {
+      onError({ row: line, column: label('note'), value: clip(note), reason: 'longer than 500 characters' });
+      return null;
+    }
+    return note;
+  };
+
+  const contentsOf = (source: SupplySource, reading: ReadingInput, line: number, column: string, value: string, onError: (e: ImportRowError) => void): number | null => {
+    const cyl = source.cylinderTypeId ? (ctx.cylinderTypes.get(source.cylinderTypeId) ?? null) : null;
+    try {
+      return contentsOfReading(source, ctx.site, cyl, reading);
+    } catch (e) {
+      if (e instanceof AppError) {
+        onError({ row: line, column, value: clip(value), reason: e.message });
+        return null;
+      }
+      throw e;
+    }
+  };
+
+  const gasIndex = new Map<string, number>(GAS_CODES_CATALOGUE.map((g, i) => [g.toLowerCase(), i]));
+  const keyOf = (targetId: number, atMs: number, gasCode?: string): number => {
+    if (ctx.kind === 'flow_meter_totals') return atMs;
+    if (ctx.kind === 'historic_usage') return (atMs / 86_400_000) * 2 ** 20 + indexOf(targetId) * 32 + (gasIndex.get((gasCode ?? 'O2').toLowerCase()) ?? 0);
+    // Exact below 2^53 until the year 2248; a file with over 1,024 tanks could alias two of them.
+    return atMs * 1024 + (indexOf(targetId) % 1024);
+  };
+  return Object.assign(rowParser(), { keyOf });
+
+  function rowParser(): (record: string[], line: number, onError: (e: ImportRowError) => void) => ParsedRow | null {
+  if (ctx.kind === 'tank_readings') {
+    return (record, line, onError) => {
+      const before = errs;
+      const count = (e: ImportRowError) => {
+        errs++;
+        onError(e);
+      };
+      const source = sourceOf(record, line, count, 'tank');
+      const unitText = cell(record, c.unit) || ctx.defaultUnit || '';
+      const kind = unitText ? tankUnitKind(unitText, source) : null;
+      if (!kind) count({ row: line, column: label('unit'), value: clip(unitText), reason: unitText ? `not a unit of a tank reading: use ${unitsAccepted('tank_readings', source)}` : 'missing: fill the unit column or choose the unit on upload' });
+      const levelText = cell(record, c.level);
+      const value = numberOf(levelText, comma);
+      if (Number.isNaN(value)) count({ row: line, column: label('level'), value: clip(levelText), reason: levelText === '' ? 'missing' : 'not a number' });
+      else if (kind === 'level_percent' && (value < 0 || value > 100)) count({ row: line, column: label('level'), value: clip(levelText), reason: 'a level is 0–100 %' });
+      else if ((kind === 'kg' || kind === 'litres_liquid') && value < 0) count({ row: line, column: label('level'), value: clip(levelText), reason: 'cannot be negative' });
+      const at = timeOf(record, line, count, source?.id ?? 0);
+      const note = noteOf(record, line, count);
+      if (errs !== before || !source || !kind || at === null || note === null) return null;
+      const contents = contentsOf(source, { kind, value, takenAt: '', method: 'import', note } as ReadingInput, line, label('level'), levelText, count);
+      if (contents === null) return null;
+      return { values: [source.id, formatUtc(at), kind, value, null, contents, 'import', ctx.userId, note], dupKey: keyOf(source.id, at), targetId: source.id, atMs: at };
+    };
+  }
+
+  if (ctx.kind === 'store_counts') {
+    return (record, line, onError) => {
+      const before = errs;
+      const count = (e: ImportRowError) => {
+        errs++;
+        onError(e);
+      };
+      const source = sourceOf(record, line, count, 'cylinder store');
+      const int = (key: string, required: boolean): number | null => {
+        const text = cell(record, c[key]);
+        if (text === '' && !required) return 0;
+        const v = numberOf(text, comma);
+        if (Number.isNaN(v) || !Number.isInteger(v) || v < 0 || v > 100_000) {
+          count({ row: line, column: label(key), value: clip(text), reason: text === '' ? 'missing' : 'a count of cylinders: a whole number from 0' });
+          return null;
+        }
+        return v;
+      };
+      const full = int('full', true);
+      const empty = int('empty', false);
+      const gaugeText = cell(record, c.in_use_gauges_bar);
+      const gauges: number[] = [];
+      if (gaugeText !== '') {
+        for (const part of gaugeText.split(/[\s|]+/)) {
+          const g = numberOf(part, comma);
+          if (Number.isNaN(g) || g < 0 || g > 350) {
+            count({ row: line, column: label('in_use_gauges_bar'), value: clip(gaugeText), reason: `“${clip(part)}” is not a gauge pressure of 0–350 bar` });
+            break;
+          }
+          gauges.push(g);
+        }
+      }
+      const at = timeOf(record, line, count, source?.id ?? 0);
+      const note = noteOf(record, line, count);
+      if (errs !== before || !source || full === null || empty === null || at === null || note === null) return null;
+      const reading = { kind: 'store_count', full, inUseGaugeBar: gauges, empty, takenAt: '', method: 'import', note } as ReadingInput;
+      const contents = contentsOf(source, reading, line, label('full'), String(full), count);
+      if (contents === null) return null;
+      return { values: [source.id, formatUtc(at), 'store_count', null, JSON.stringify({ full, inUseGaugeBar: gauges, empty }), contents, 'import', ctx.userId, note], dupKey: keyOf(source.id, at), targetId: source.id, atMs: at };
+    };
+  }
+
+  if (ctx.kind === 'flow_meter_totals') {
+    const target = ctx.defaultWard;
+    const isWard = target !== null && !('type' in target);
+    return (record, line, onError) => {
+      const before = errs;
+      const count = (e: ImportRowError) => {
+        errs++;
+        onError(e);
+      };
+      const unitText = cell(record, c.unit) || ctx.defaultUnit || '';
+      const factor = unitText ? volumeUnitFactor(unitText) : null;
+      if (factor === null) count({ row: line, column: label('unit'), value: clip(unitText), reason: unitText ? 'use L or m3 (free gas at the reference conditions)' : 'missing: fill the unit column or choose the unit on upload' });
+      const totalText = cell(record, c.total);
+      const total = numberOf(totalText, comma);
+      if (Number.isNaN(total) || total < 0) count({ row: line, column: label('total'), value: clip(totalText), reason: totalText === '' ? 'missing' : 'a meter total is a number from 0' });
+      const at = timeOf(record, line, count, target?.id ?? 0);
+      const note = noteOf(record, line, count);
+      if (errs !== before || factor === null || at === null || note === null || !target) return null;
+      return { values: [ctx.site.id, isWard ? target.id : null, isWard ? null : target.id, formatUtc(at), total * factor, note, ctx.jobId], dupKey: keyOf(target.id, at), targetId: target.id, atMs: at };
+    };
+  }
+
+  // historic_usage
+  return (record, line, onError) => {
+    const before = errs;
+    const count = (e: ImportRowError) => {
+      errs++;
+      onError(e);
+    };
+    const dateText = cell(record, c.date);
+    const t = parseTimeCell(dateText, zone, ctx.dateOrder, false);
+    let date: string | null = null;
+    let dayMs = 0;
+    if (typeof t === 'string') count({ row: line, column: label('date'), value: clip(dateText), reason: t });
+    else if (t.hasTime) count({ row: line, column: label('date'), value: clip(dateText), reason: 'a day without a time, e.g. 2026-11-30' });
+    else {
+      date = t.date;
+      dayMs = Date.UTC(+date.slice(0, 4), +date.slice(5, 7) - 1, +date.slice(8, 10));
+      if (t.ms > ctx.now) count({ row: line, column: label('date'), value: clip(dateText), reason: 'in the future' });
+    }
+    const wardText = cell(record, c.ward);
+    const ward = wardText ? ctx.wards.get(wardText.toLowerCase()) : undefined;
+    if (!ward) count({ row: line, column: label('ward'), value: clip(wardText), reason: wardText ? 'no ward with this name or number on this site' : 'missing' });
+    const gasText = cell(record, c.gas) || 'O2';
+    const gi = gasIndex.get(gasText.toLowerCase());
+    if (gi === undefined) count({ row: line, column: label('gas'), value: clip(gasText), reason: `not a gas code: ${GAS_CODES_CATALOGUE.join(', ')}` });
+    const unitText = cell(record, c.unit) || ctx.defaultUnit || '';
+    const factor = unitText ? volumeUnitFactor(unitText) : null;
+    if (factor === null) count({ row: line, column: label('unit'), value: clip(unitText), reason: unitText ? 'use L or m3 (free gas at the reference conditions)' : 'missing: fill the unit column or choose the unit on upload' });
+    const volText = cell(record, c.volume);
+    const vol = numberOf(volText, comma);
+    if (Number.isNaN(vol) || vol < 0) count({ row: line, column: label('volume'), value: clip(volText), reason: volText === '' ? 'missing' : 'a volume is a number from 0' });
+    const note = noteOf(record, line, count);
+    if (errs !== before || !ward || gi === undefined || factor === null || date === null || note === null) return null;
+    return { values: [ctx.site.id, ward.id, GAS_CODES_CATALOGUE[gi], date, vol * factor, note, ctx.jobId], dupKey: keyOf(ward.id, dayMs, GAS_CODES_CATALOGUE[gi]), targetId: ward.id, atMs: dayMs };
+  };
+  }
+}
+
+/** True for a record that is an empty line (csv-parse passes it through as one empty field). */
+export function isBlankRecord(record: string[]): boolean {
+  if (record.length > 0 && record[0] !== '' && record[0].trim() !== '') return false;
+  return record.every((v) => v.trim() === '');
+}
