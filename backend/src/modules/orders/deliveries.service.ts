@@ -11,6 +11,7 @@ import { logger } from '../../logger';
 import { recordAudit } from '../audit/audit.service';
 import { loadSiteModels } from '../forecast/site-model';
 import { outlookFor } from '../forecast/forecast.service';
+import { bumpSiteVersion } from '../forecast/site-version';
 import { contentsOfReading, presentReading } from '../supply/supply.service';
 import { addEvent, formatQuantity, whoOfDoer } from './orders.shared';
 import { idempotent, transactionWithRetry } from './transactions';
@@ -108,6 +109,7 @@ export async function recordDelivery(actor: Actor, orderId: number, input: Deliv
       await m.getRepository(DeliveryRecord).insert({ purchaseOrderId: po.id, siteId: po.siteId, sourceId: po.sourceId, deliveryNote: input.deliveryNote, deliveredAt, quantity: input.quantity, unit: po.unit, emptiesCollected: input.emptiesCollected, readingId, note: input.note, recordedByUserId: actor.user.id });
       await m.getRepository(PurchaseOrder).update({ id: po.id }, { status, deliveredQuantity: input.quantity });
       if (po.scheduledDeliveryId) await m.getRepository(ScheduledDelivery).update({ id: po.scheduledDeliveryId }, { status: 'delivered' });
+      await bumpSiteVersion(m, po.siteId);
       const r = await m.getRepository(ReorderRequest).createQueryBuilder('r').setLock('pessimistic_write').where('r.id = :id', { id: po.requestId }).getOneOrFail();
       await m.getRepository(ReorderRequest).update({ id: r.id }, { status, version: r.version + 1 });
       const comment = `${formatQuantity(input.quantity, po.unit)} of ${formatQuantity(po.quantity, po.unit)} delivered, note ${input.deliveryNote}${input.emptiesCollected ? `, ${input.emptiesCollected} empties collected` : ''}${short ? '; the order is closed in part' : ''}. ${readingNote}`;

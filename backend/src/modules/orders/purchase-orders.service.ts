@@ -25,12 +25,10 @@ export async function pdfForOrder(ds: DataSource, id: number): Promise<{ pdf: Bu
   if (!rows.length) throw notFound('Purchase order');
   if (rows[0].pdf) return { pdf: Buffer.from(rows[0].pdf), poNumber: rows[0].po_number };
   const po = await ds.getRepository(PurchaseOrder).findOneByOrFail({ id });
-  const [site, supplier, source, org] = await Promise.all([
-    ds.getRepository(Site).findOneByOrFail({ id: po.siteId }),
-    ds.getRepository(Supplier).findOneByOrFail({ id: po.supplierId }),
-    ds.getRepository(SupplySource).findOneByOrFail({ id: po.sourceId }),
-    ds.getRepository(Organisation).findOneByOrFail({ id: po.organisationId }),
-  ]);
+  const site = await ds.getRepository(Site).findOneByOrFail({ id: po.siteId });
+  const supplier = await ds.getRepository(Supplier).findOneByOrFail({ id: po.supplierId });
+  const source = await ds.getRepository(SupplySource).findOneByOrFail({ id: po.sourceId });
+  const org = await ds.getRepository(Organisation).findOneByOrFail({ id: po.organisationId });
   const pdf = await renderPurchaseOrderPdf({
     poNumber: po.poNumber,
     issuedAt: po.createdAt,
@@ -109,11 +107,9 @@ export async function listOrders(actor: Actor, q: { status?: string; siteId?: nu
 async function namesFor(rows: PurchaseOrder[]) {
   const uniq = (f: (p: PurchaseOrder) => number) => [...new Set(rows.map(f))];
   const ds = db();
-  const [sites, suppliers, sources] = await Promise.all([
-    rows.length ? ds.getRepository(Site).findBy({ id: In(uniq((p) => p.siteId)) }) : [],
-    rows.length ? ds.getRepository(Supplier).findBy({ id: In(uniq((p) => p.supplierId)) }) : [],
-    rows.length ? ds.getRepository(SupplySource).findBy({ id: In(uniq((p) => p.sourceId)) }) : [],
-  ]);
+  const sites = rows.length ? await ds.getRepository(Site).findBy({ id: In(uniq((p) => p.siteId)) }) : [];
+  const suppliers = rows.length ? await ds.getRepository(Supplier).findBy({ id: In(uniq((p) => p.supplierId)) }) : [];
+  const sources = rows.length ? await ds.getRepository(SupplySource).findBy({ id: In(uniq((p) => p.sourceId)) }) : [];
   return { sites: new Map(sites.map((s) => [s.id, s.name])), suppliers: new Map(suppliers.map((s) => [s.id, s.name])), sources: new Map(sources.map((s) => [s.id, s.name])) };
 }
 
@@ -121,11 +117,9 @@ async function namesFor(rows: PurchaseOrder[]) {
 export async function getOrder(actor: Actor, id: number) {
   const po = await orderFor(actor, id);
   const names = await namesFor([po]);
-  const [delivery, mails, request] = await Promise.all([
-    db().getRepository(DeliveryRecord).findOneBy({ purchaseOrderId: id }),
-    db().getRepository(MailOutbox).find({ select: { id: true, kind: true, toAddress: true, ccAddress: true, status: true, attempts: true, lastError: true, sentAt: true, nextAttemptAt: true }, where: { purchaseOrderId: id } }),
-    db().getRepository(ReorderRequest).findOneByOrFail({ id: po.requestId }),
-  ]);
+  const delivery = await db().getRepository(DeliveryRecord).findOneBy({ purchaseOrderId: id });
+  const mails = await db().getRepository(MailOutbox).find({ select: { id: true, kind: true, toAddress: true, ccAddress: true, status: true, attempts: true, lastError: true, sentAt: true, nextAttemptAt: true }, where: { purchaseOrderId: id } });
+  const request = await db().getRepository(ReorderRequest).findOneByOrFail({ id: po.requestId });
   return {
     ...presentOrder(po, { site: names.sites.get(po.siteId), supplier: names.suppliers.get(po.supplierId), source: names.sources.get(po.sourceId) }),
     pdfUrl: `/api/orders/${po.id}/pdf`,

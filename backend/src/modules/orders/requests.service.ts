@@ -13,6 +13,7 @@ import { recordAudit } from '../audit/audit.service';
 import { loadSiteModels, type SiteModel } from '../forecast/site-model';
 import { outlookFor, type SourceOutlook } from '../forecast/forecast.service';
 import { sourceFor } from '../supply/supply.service';
+import { bumpSiteVersion } from '../forecast/site-version';
 import { OPEN, addEvent, describeItem, formatMoney, formatQuantity, lineTotalMinor, priceFor, unitOf, usersWithRoleAtSite, whoOfDoer, type Doer } from './orders.shared';
 import { idempotent, isDuplicateKey, transactionWithRetry } from './transactions';
 import { enqueueMail } from './outbox.service';
@@ -93,6 +94,8 @@ async function insertRequest(m: EntityManager, doer: Doer, n: NewRequest): Promi
   const pricing = await priceFor(m, n.source, n.site);
   const status: RequestStatus = n.submit && !pricing.problem ? 'submitted' : 'draft';
   const repo = m.getRepository(ReorderRequest);
+  // The unique key decides a race; this look-up only spares the usual case a failed insert.
+  if (await repo.exists({ where: { sourceId: n.source.id, status: In(OPEN) } })) return null;
   let saved: ReorderRequest;
   try {
     saved = await repo.save(
@@ -256,14 +259,14 @@ async function contextFor(rows: ReorderRequest[]): Promise<Ctx> {
   const ids = (f: (r: ReorderRequest) => number | null) => [...new Set(rows.map(f).filter((x): x is number => x !== null))];
   const ds = db();
   const q = <T extends { id: number }>(cls: new () => T, list: number[]) => (list.length ? ds.getRepository(cls).findBy({ id: In(list) } as never) : Promise.resolve([] as T[]));
-  const [sites, sources, suppliers, users, cyl, orders] = await Promise.all([
-    q(Site, ids((r) => r.siteId)),
-    q(SupplySource, ids((r) => r.sourceId)),
-    q(Supplier, ids((r) => r.supplierId)),
-    q(User, ids((r) => r.requestedByUserId)),
-    q(CylinderType, ids((r) => r.cylinderTypeId)),
-    rows.length ? ds.getRepository(PurchaseOrder).find({ where: { requestId: In(rows.map((r) => r.id)) } }) : Promise.resolve([]),
-  ]);
+  // One query after another: a request holds one pooled connection at a time, so a burst of requests
+  // queues fairly instead of overflowing the pool's queue.
+  const sites = await q(Site, ids((r) => r.siteId));
+  const sources = await q(SupplySource, ids((r) => r.sourceId));
+  const suppliers = await q(Supplier, ids((r) => r.supplierId));
+  const users = await q(User, ids((r) => r.requestedByUserId));
+  const cyl = await q(CylinderType, ids((r) => r.cylinderTypeId));
+  const orders = rows.length ? await ds.getRepository(PurchaseOrder).find({ where: { requestId: In(rows.map((r) => r.id)) } }) : [];
   const map = <T extends { id: number }>(list: T[]) => new Map(list.map((x) => [x.id, x]));
   return { sites: map(sites), sources: map(sources), suppliers: map(suppliers), users: map(users), cyl: map(cyl), orders: new Map(orders.map((o) => [o.requestId, o])) };
 }
@@ -307,11 +310,9 @@ function presentRequestRow(r: ReorderRequest, ctx: Ctx) {
 export async function getRequest(actor: Actor, id: number) {
   const r = await requestFor(db().manager, actor, id);
   const ctx = await contextFor([r]);
-  const [events, approvals, limit] = await Promise.all([
-    db().getRepository(ReorderRequestEvent).find({ where: { requestId: id }, order: { at: 'ASC', id: 'ASC' } }),
-    db().getRepository(RequestApproval).find({ where: { requestId: id }, order: { at: 'ASC' } }),
-    db().getRepository(UserApprovalLimit).findOneBy({ userId: actor.user.id }),
-  ]);
+  const events = await db().getRepository(ReorderRequestEvent).find({ where: { requestId: id }, order: { at: 'ASC', id: 'ASC' } });
+  const approvals = await db().getRepository(RequestApproval).find({ where: { requestId: id }, order: { at: 'ASC' } });
+  const limit = await db().getRepository(UserApprovalLimit).findOneBy({ userId: actor.user.id });
   const approvers = approvals.length ? await db().getRepository(User).findBy({ id: In(approvals.map((a) => a.userId)) }) : [];
   return {
     ...presentRequestRow(r, ctx),
@@ -551,6 +552,7 @@ async function createPurchaseOrder(m: EntityManager, actor: Actor, r: ReorderReq
     }),
   );
   await m.getRepository(ScheduledDelivery).update({ id: sd.id }, { reference: poNumber });
+  await bumpSiteVersion(m, site.id);
   const copyTo = r.requestedByUserId ? await m.getRepository(User).findBy({ id: r.requestedByUserId }) : await usersWithRoleAtSite(m, r.organisationId, r.siteId, 'facilities_manager');
   await enqueueMail(m, {
     organisationId: r.organisationId,

@@ -32,7 +32,8 @@ export async function transactionWithRetry<T>(ds: DataSource, work: (m: EntityMa
 
 /** The Idempotency-Key header of a request (validated), or undefined. */
 export function idempotencyKeyOf(req: Request): string | undefined {
-  return validate(idempotencyKeySchema, req.get(IDEMPOTENCY_HEADER) ?? undefined, 'Idempotency-Key header');
+  const raw = req.get(IDEMPOTENCY_HEADER);
+  return raw === undefined ? undefined : validate(idempotencyKeySchema, raw, 'Idempotency-Key header');
 }
 
 /**
