@@ -14,6 +14,7 @@ import { env } from '../../config/env';
 import { AppError, badRequest } from '../../errors/app-error';
 import * as svc from './import.service';
 import { exportTable } from './exports';
+import { getSiteFor } from '../sites/sites.service';
 
 const id = (params: unknown) => validate(idParamSchema, params, 'address').id;
 const FM: Role[] = ['facilities_manager'];
@@ -76,6 +77,8 @@ export function importRoutes(): RouteDef[] {
       path: '/api/sites/:id/import-template',
       access: FM,
       handler: async (req, res) => {
+        // Another organisation's site is 404 before the query is looked at.
+        await getSiteFor(actorOf(req), id(req.params));
         const { kind } = validate(importTemplateQuerySchema, req.query, 'query');
         const csv = await svc.templateCsv(actorOf(req), id(req.params), kind);
         res.setHeader('Content-Type', 'text/csv; charset=utf-8');
@@ -89,6 +92,7 @@ export function importRoutes(): RouteDef[] {
       path: '/api/sites/:id/export',
       access: FM,
       handler: async (req, res) => {
+        await getSiteFor(actorOf(req), id(req.params));
         const { table } = validate(exportQuerySchema, req.query, 'query');
         await exportTable(actorOf(req), id(req.params), table, res);
         return undefined;
