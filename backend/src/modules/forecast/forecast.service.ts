@@ -6,6 +6,8 @@ import type { DemandLine, DemandScenario } from '@common/forecast/demand-lines';
 import { freeGasLitresPerKg, type ReferenceCode } from '@common/gas/reference-conditions';
 import { isLiquefiedGas, type GasCode } from '@common/gas/gases';
 import { InvalidInputError } from '@common/api/errors';
+import { consumptionBetweenReadings, dailyRates, demandCvFromDays, detectRefills, orderedSeries, refillThreshold, type Consumption } from '@common/forecast/reconcile';
+import { nominalContents } from '@common/catalogue/cylinder-type';
 import type { Scenario, SupplySource } from '../../db/entities/supply.entity';
 import type { SiteModel } from './site-model';
 
@@ -110,24 +112,49 @@ function meanLPerDay(lines: DemandLine[]): number {
   return perWeek / 7;
 }
 
+const consumptionCache = new WeakMap<object, Consumption | null>();
+
+/**
+ * Consumption of a source over its recent readings (time order, one point per instant, refills found
+ * and bridged), computed once per loaded model: the overview asks for it for every source.
+ */
+function recentConsumption(model: SiteModel, s: SupplySource): Consumption | null {
+  const readings = model.recentReadings.get(s.id);
+  if (!readings) return null;
+  if (consumptionCache.has(readings)) return consumptionCache.get(readings)!;
+  const points = orderedSeries(readings.map((r) => ({ atMs: r.takenAt.getTime(), contents: r.contents })));
+  let c: Consumption | null = null;
+  if (points.length >= 2) {
+    const cyl = s.cylinderTypeId ? model.cylinderTypes.get(s.cylinderTypeId) : undefined;
+    const full = cyl ? (nominalContents({ gas: cyl.gasCode, waterCapacityL: cyl.waterCapacityL, fillPressureBar: cyl.fillPressureBar, maxFillingRatioKgPerL: cyl.maxFillingRatioKgPerL })?.freeGasL ?? null) : null;
+    const minRise = refillThreshold({ capacity: s.capacityKg, fullCylinder: s.type === 'bulk_liquid' ? null : full });
+    c = consumptionBetweenReadings(points, detectRefills(points, { minRise }));
+  }
+  consumptionCache.set(readings, c);
+  return c;
+}
+
 /**
  * Measured consumption of a bulk tank from its recent readings, L/day of free gas at the reference:
- * the sum of the falls between consecutive readings over the time they span (rises are refills and are
- * skipped). Null when fewer than two days of readings exist or for cylinder sources (whose measured use
- * comes from usage reports).
+ * consumption between readings with tanker refills found and bridged (reconcile.ts: signed falls, so
+ * gauge noise does not add up as use), over the time the readings span. Null when fewer than two days
+ * of readings exist or for cylinder sources (whose measured use comes from usage reports).
  */
 export function measuredLPerDay(model: SiteModel, s: SupplySource, reference: ReferenceCode): number | null {
   if (s.type !== 'bulk_liquid') return null;
-  const rs = model.recentReadings.get(s.id) ?? [];
-  if (rs.length < 2) return null;
-  const spanH = (rs[rs.length - 1].takenAt.getTime() - rs[0].takenAt.getTime()) / MS_H;
-  if (spanH < 48) return null;
-  let fallKg = 0;
-  for (let i = 1; i < rs.length; i++) {
-    const d = rs[i - 1].contents - rs[i].contents;
-    if (d > 0) fallKg += d;
-  }
-  return (fallKg / spanH) * 24 * freeGasLitresPerKg(s.gasCode as GasCode, reference);
+  const c = recentConsumption(model, s);
+  if (!c || c.spanHours < 48 || c.perDay === null) return null;
+  return Math.max(0, c.perDay) * freeGasLitresPerKg(s.gasCode as GasCode, reference);
+}
+
+/**
+ * Day-to-day variability of a source's measured use (coefficient of variation of whole local days) for
+ * the Monte Carlo band; 0.2 until seven whole days of readings exist (reconcile.ts, demandCvFromDays).
+ */
+export function measuredDemandCv(model: SiteModel, s: SupplySource): { cv: number; measured: boolean; days: number } {
+  const c = recentConsumption(model, s);
+  if (!c) return { cv: 0.2, measured: false, days: 0 };
+  return demandCvFromDays(dailyRates(c.curve, model.site.timeZone));
 }
 
 /** A stored scenario as the engine's overlay for one source (extra patients go to the sources of their ward). */
@@ -202,7 +229,7 @@ export function buildForecastInput(model: SiteModel, s: SupplySource, opts: Fore
   const deliveries = model.deliveries
     .filter((d) => d.sourceId === s.id && d.dueAt.getTime() >= start.toMillis())
     .map((d) => ({ at: toLocal(d.dueAt, zone), ...(d.kg !== null ? { kg: d.kg } : {}), ...(d.cylinders !== null ? { cylinders: d.cylinders } : {}) }));
-  const common = { start: startLocal, timezone: zone, horizon_days: horizonDays, reference, demand: lines, scenarios, deliveries, draws: opts.draws ?? 0, demand_cv: 0.2, seed: s.id };
+  const common = { start: startLocal, timezone: zone, horizon_days: horizonDays, reference, demand: lines, scenarios, deliveries, draws: opts.draws ?? 0, demand_cv: measuredDemandCv(model, s).cv, seed: s.id };
   const detail = reading.detailJson ? (JSON.parse(reading.detailJson) as Record<string, unknown>) : {};
   const cyl = s.cylinderTypeId ? model.cylinderTypes.get(s.cylinderTypeId) : undefined;
   const temperatureC = s.temperatureC ?? model.site.storeTemperatureC;
