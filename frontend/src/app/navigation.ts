@@ -30,6 +30,7 @@ export const NAV_ITEMS: readonly NavItem[] = [
   { path: '/', label: 'Today', icon: 'today', roles: EVERYONE, section: 'work', end: true },
   { path: '/cylinder-check', label: 'Cylinder check', icon: 'cylinder', roles: EVERYONE, section: 'work' },
   { path: '/capacity', label: 'Capacity', icon: 'sites', roles: ['biomedical_engineer', 'facilities_manager', 'administrator'], section: 'work' },
+  { path: '/orders', label: 'Orders', icon: 'supplier', roles: ['purchasing_officer', 'facilities_manager', 'administrator'], section: 'work' },
   { path: '/admin/cylinder-types', label: 'Cylinder types', icon: 'catalogue', roles: ['administrator', 'facilities_manager', 'biomedical_engineer', 'purchasing_officer'], section: 'catalogue' },
   { path: '/admin/suppliers', label: 'Suppliers', icon: 'supplier', roles: ['administrator', 'purchasing_officer', 'facilities_manager'], section: 'catalogue' },
   { path: '/admin/sites', label: 'Sites', icon: 'sites', roles: ['administrator'], section: 'admin' },

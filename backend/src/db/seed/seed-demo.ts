@@ -2,6 +2,7 @@ import type { DataSource } from 'typeorm';
 import { Organisation } from '../entities/organisation.entity';
 import { DEMO_ORGANISATION, seedFoundation } from './demo-foundation';
 import { seedSupply } from './demo-supply';
+import { seedOrders } from './demo-orders';
 import { seedCapacity } from './demo-capacity';
 
 /** Creates the whole demo organisation in one transaction; returns false when it exists already. */
@@ -11,6 +12,7 @@ export async function seedDemo(ds: DataSource): Promise<boolean> {
     if (existing) return false;
     const ids = await seedFoundation(m);
     await seedSupply(m, ids);
+    await seedOrders(m, ids);
     await seedCapacity(m, ids);
     return true;
   });

@@ -30,9 +30,13 @@ export async function transactionWithRetry<T>(ds: DataSource, work: (m: EntityMa
   }
 }
 
-/** The Idempotency-Key header of a request (validated), or undefined. */
+/**
+ * The request's idempotency key (validated), or undefined: the Idempotency-Key header, or an
+ * `idempotencyKey` field of the JSON body for clients that cannot set headers.
+ */
 export function idempotencyKeyOf(req: Request): string | undefined {
-  const raw = req.get(IDEMPOTENCY_HEADER);
+  const fromBody = (req.body as { idempotencyKey?: unknown } | undefined)?.idempotencyKey;
+  const raw = req.get(IDEMPOTENCY_HEADER) ?? (fromBody === undefined ? undefined : fromBody);
   return raw === undefined ? undefined : validate(idempotencyKeySchema, raw, 'Idempotency-Key header');
 }
 
