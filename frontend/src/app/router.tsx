@@ -17,6 +17,12 @@ export function createAppRouter() {
       children: [
         { index: true, lazy: () => import('./routes/today') },
         { path: 'cylinder-check', lazy: () => import('./routes/cylinder-check') },
+        { path: 'sources', lazy: () => import('./routes/current-site-redirect') },
+        { path: 'sources/:id', lazy: () => import('./routes/source-detail') },
+        { path: 'sites/:siteId/sources', lazy: () => import('./routes/sources') },
+        { path: 'wards', lazy: () => import('./routes/current-site-redirect') },
+        { path: 'wards/:id', lazy: () => import('./routes/ward-detail') },
+        { path: 'sites/:siteId/wards', lazy: () => import('./routes/wards') },
         { path: 'capacity', lazy: () => import('./routes/capacity') },
         { path: 'capacity/rule-sets', lazy: () => import('./routes/capacity/rule-sets') },
         { path: 'capacity/signoffs/:signoffId', lazy: () => import('./routes/capacity/signoff') },

@@ -13,10 +13,23 @@ export function bodyResolver<F extends FieldValues, S extends z.ZodType>(schema:
     const errors: Record<string, unknown> = {};
     for (const issue of parsed.error.issues) {
       const path = renamePath(issue.path.map(String).join('.'));
-      setIn(errors, path || 'root', { type: issue.code, message: issue.message });
+      setIn(errors, path || 'root', { type: issue.code, message: messageOf(issue) });
     }
     return { values: {}, errors: errors as FieldErrors<F> };
   };
+}
+
+/**
+ * A schema whose number type carries its own message ("flow must be a number") gives that message for
+ * a range problem too; a person needs the range then.
+ */
+function messageOf(issue: z.core.$ZodIssue): string {
+  if (/must be a number$/.test(issue.message)) {
+    if (issue.code === 'too_big') return `must be at most ${String(issue.maximum)}`;
+    if (issue.code === 'too_small') return `must be at least ${String(issue.minimum)}`;
+    if (issue.code === 'invalid_type' && issue.expected === 'int') return 'enter a whole number';
+  }
+  return issue.message;
 }
 
 function setIn(target: Record<string, unknown>, path: string, error: { type: string; message: string }): void {

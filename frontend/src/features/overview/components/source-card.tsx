@@ -1,5 +1,6 @@
 import { lazy, Suspense } from 'react';
 import { DateTime } from 'luxon';
+import { Link } from 'react-router-dom';
 import { GAS_INFO, isGasCode } from '@common/gas/gases';
 import { cn } from '@/lib/cn';
 import { formatDateTime, formatDay, formatDays, formatNumber, formatRelative } from '@/lib/format';
@@ -32,11 +33,11 @@ function ReorderLine({ s }: { s: RankedSource }) {
 export function SourceCard({ s, showSite }: { s: RankedSource; showSite: boolean }) {
   const fill = s.capacity && s.capacity > 0 ? Math.max(0, Math.min(1, s.contents / s.capacity)) : null;
   return (
-    <article className={cn('flex flex-col gap-3 rounded-card border border-l-[6px] border-line bg-surface p-4 shadow-card', EDGE[s.status])} aria-labelledby={`source-${s.siteId}-${s.id}`}>
+    <article className={cn('relative flex flex-col gap-3 rounded-card border border-l-[6px] border-line bg-surface p-4 shadow-card', EDGE[s.status])} aria-labelledby={`source-${s.siteId}-${s.id}`}>
       <header className="flex flex-wrap items-start justify-between gap-2">
         <div className="min-w-0">
           <h3 id={`source-${s.siteId}-${s.id}`} className="text-lg leading-tight">
-            {s.name}
+            <Link to={`/sources/${s.id}`} className="text-primary underline-offset-2 after:absolute after:inset-0 hover:underline">{s.name}</Link>
           </h3>
           <p className="text-sm text-fg-muted">
             {gasName(s.gasCode)} · {TYPE_LABEL[s.type] ?? s.type}

@@ -12,6 +12,9 @@ import { Field, Input, UnitInput } from '@/components/ui/field';
 import { useScheduleDelivery, type SourceDetail } from '../api/sources-api';
 import { localInputToIso, toLocalInput } from '../lib/site-time';
 
+/** An empty number field: shown blank, and reported by the schema as "must be a number" if left so. */
+const BLANK = '' as unknown as number;
+
 interface DeliveryFormValues {
   dueAt: string;
   amount: number;
@@ -34,7 +37,7 @@ export function DeliveryForm({ detail, onDone, onSaved }: { detail: SourceDetail
       (v) => ({ dueAt: localInputToIso(v.dueAt, tz) ?? '', kg: bulk ? v.amount : null, cylinders: bulk ? null : v.amount, reference: v.reference }),
       (p) => (p === 'kg' || p === 'cylinders' ? 'amount' : p),
     ),
-    defaultValues: { dueAt: toLocalInput(tomorrow.toJSDate(), tz), amount: NaN, reference: '' },
+    defaultValues: { dueAt: toLocalInput(tomorrow.toJSDate(), tz), amount: BLANK, reference: '' },
   });
   const e = formState.errors;
   const dueError = e.dueAt ? (/ISO|offset/i.test(e.dueAt.message ?? '') ? 'enter the date and time the delivery is due, at the site' : e.dueAt.message) : undefined;

@@ -17,7 +17,12 @@ function describeScenario(s: Scenario): string {
   return `${parts.length ? parts.join(', ') : 'no change to demand'}, ${when}.${s.note ? ` ${s.note}` : ''}`;
 }
 
-const EVENT_LABEL: Record<string, string> = { changeover: 'Changeover to bank', bank_replaced: 'Bank replaced' };
+const EVENT_LABEL: Record<string, string> = {
+  changeover: 'Changeover to bank',
+  bank_replaced: 'Bank replaced:',
+  supply_lost: 'Both banks empty: supply lost, last bank',
+  supply_restored: 'Supply restored from bank',
+};
 const SHOWN_EVENTS = 8;
 
 /** The forecast: which scenario, the depletion chart, the orders the rule places and the manifold's changeovers. */
@@ -105,8 +110,8 @@ export function ForecastCard({ detail, onScenarioChange, updating }: { detail: S
             <p className="pb-2 text-sm text-fg-muted">When the duty bank reaches the changeover pressure the manifold switches banks; the empty bank is replaced with full cylinders.</p>
             <ol className="divide-y divide-line rounded-lg border border-line">
               {events.map((ev, i) => (
-                <li key={i} className="flex flex-wrap items-baseline justify-between gap-x-4 gap-y-0.5 px-3 py-2 text-sm">
-                  <span className="font-bold">
+                <li key={i} className={`flex flex-wrap items-baseline justify-between gap-x-4 gap-y-0.5 px-3 py-2 text-sm ${ev.kind === 'supply_lost' ? 'bg-critical-soft' : ''}`}>
+                  <span className={`font-bold ${ev.kind === 'supply_lost' ? 'text-critical' : ''}`}>
                     {EVENT_LABEL[ev.kind] ?? ev.kind} {ev.bank}
                     {ev.cylinders ? ` (${ev.cylinders} cylinders)` : ''}
                   </span>

@@ -15,6 +15,9 @@ import { useAddReading, type ReadingKind, type SourceDetail } from '../api/sourc
 import { READING_METHOD_LABEL } from '../lib/source-labels';
 import { localInputToIso, toLocalInput } from '../lib/site-time';
 
+/** An empty number field: shown blank, and reported by the schema as "must be a number" if left so. */
+const BLANK = '' as unknown as number;
+
 interface ReadingFormValues {
   kind: ReadingKind;
   value: number;
@@ -79,11 +82,11 @@ export function ReadingForm({ detail, onSaved }: { detail: SourceDetail; onSaved
   const [banner, setBanner] = useState<string | null>(null);
   const fresh = (kind: ReadingKind): ReadingFormValues => ({
     kind,
-    value: NaN,
-    dutyBar: NaN,
-    standbyBar: NaN,
+    value: BLANK,
+    dutyBar: BLANK,
+    standbyBar: BLANK,
     spareFull: 0,
-    full: NaN,
+    full: BLANK,
     inUseGauges: [],
     empty: 0,
     takenAt: toLocalInput(new Date(), tz),
@@ -207,7 +210,7 @@ export function ReadingForm({ detail, onSaved }: { detail: SourceDetail; onSaved
             </ul>
             {e.inUseGauges?.message && <FieldError>{e.inUseGauges.message}</FieldError>}
             <div>
-              <Button variant="secondary" size="sm" onClick={() => gauges.append({ bar: NaN }, { shouldFocus: true })}>
+              <Button variant="secondary" size="sm" onClick={() => gauges.append({ bar: BLANK }, { shouldFocus: true })}>
                 <Icon name="plus" className="size-4" />
                 Add a cylinder in use
               </Button>
@@ -220,7 +223,7 @@ export function ReadingForm({ detail, onSaved }: { detail: SourceDetail; onSaved
         <Field label="Taken at" hint={`Site time (${tz}).`} error={takenAtError}>
           {(c) => (
             <div className="flex gap-2">
-              <Input {...c} {...register('takenAt')} type="datetime-local" max={toLocalInput(new Date(), tz)} />
+              <Input {...c} {...register('takenAt')} type="datetime-local" max={toLocalInput(new Date(), tz)} className="min-w-0 flex-1" />
               <Button variant="secondary" size="sm" className="shrink-0 self-stretch" onClick={() => setValue('takenAt', toLocalInput(new Date(), tz), { shouldValidate: formState.isSubmitted })}>
                 Now
               </Button>

@@ -15,7 +15,8 @@ export function ReadingsCard({ detail, meId }: { detail: SourceDetail; meId: num
   const unit = detail.outlook.unit;
   const calibrationUnit = detail.source.calibrationUnit;
   const columns = useMemo(() => {
-    const who = (r: Reading) => (r.takenByUserId === null ? (r.method === 'telemetry' ? 'Tank telemetry' : '–') : r.takenByUserId === meId ? 'You' : `Colleague (user ${r.takenByUserId})`);
+    // the API gives the user's id only: "you" is certain, anyone else is a colleague of the organisation
+    const who = (r: Reading) => (r.takenByUserId === null ? null : r.takenByUserId === meId ? 'You' : `Colleague (user ${r.takenByUserId})`);
     return [
       col.accessor('takenAt', {
         header: 'Taken',
@@ -36,7 +37,8 @@ export function ReadingsCard({ detail, meId }: { detail: SourceDetail; meId: num
               {describeReading(r, calibrationUnit)}
               {/* on phones the method and who ride under the reading */}
               <span className="block text-xs text-fg-muted md:hidden">
-                {READING_METHOD_LABEL[r.method] ?? r.method} · {who(r)}
+                {READING_METHOD_LABEL[r.method] ?? r.method}
+                {who(r) && ` · ${who(r)}`}
               </span>
               {r.note && <span className="block text-xs text-fg-muted italic">{r.note}</span>}
             </span>
@@ -45,7 +47,7 @@ export function ReadingsCard({ detail, meId }: { detail: SourceDetail; meId: num
       }),
       col.accessor('contents', { header: unit === 'kg' ? 'Contents' : 'Free gas', meta: { numeric: true }, cell: (info) => <span className="whitespace-nowrap">{unit === 'kg' ? formatKg(info.getValue()) : formatLitres(info.getValue())}</span> }),
       col.accessor('method', { header: 'Method', meta: { className: 'hidden md:table-cell' }, cell: (info) => READING_METHOD_LABEL[info.getValue()] ?? info.getValue() }),
-      col.display({ id: 'who', header: 'Who', meta: { className: 'hidden md:table-cell' }, cell: (info) => who(info.row.original) }),
+      col.display({ id: 'who', header: 'Who', meta: { className: 'hidden md:table-cell' }, cell: (info) => who(info.row.original) ?? (info.row.original.method === 'telemetry' ? 'Feed' : '–') }),
     ];
   }, [tz, unit, calibrationUnit, meId]);
 

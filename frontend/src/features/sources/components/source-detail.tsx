@@ -1,7 +1,7 @@
 import { useQuery } from '@tanstack/react-query';
 import { Link } from 'react-router-dom';
 import type { Role } from '@common/api/roles';
-import { ButtonLink, buttonClasses } from '@/components/ui/button';
+import { Button, ButtonLink, buttonClasses } from '@/components/ui/button';
 import { Card, CardBody, CardHeader } from '@/components/ui/card';
 import { Icon } from '@/components/ui/icons';
 import { PageHeader } from '@/components/ui/page-header';
@@ -51,6 +51,12 @@ export function SourceDetailScreen({
   const detail = q.data;
   const { source, site } = detail;
   const can = (allowed: Role[]) => roles.some((r) => allowed.includes(r));
+  // on a phone the form is far below the chart: take the person there and into the first field
+  const goToReadingForm = () => {
+    const card = document.getElementById('enter-reading');
+    card?.scrollIntoView({ behavior: 'smooth', block: 'start' });
+    card?.querySelector<HTMLElement>('input:not([type=radio]), select')?.focus({ preventScroll: true });
+  };
   const updating = q.isPlaceholderData || (q.isFetching && detail.scenarioId !== scenarioId);
 
   return (
@@ -68,6 +74,12 @@ export function SourceDetailScreen({
         description={`${gasName(source.gasCode)} · ${SOURCE_TYPE_LABEL[source.type] ?? source.type}${source.cylinderTypeName ? ` · ${source.cylinderTypeName} cylinders` : ''}${source.type === 'bulk_liquid' && source.capacityKg ? ` · ${source.capacityKg.toLocaleString('en-GB')} kg tank` : ''}`}
         actions={
           <>
+            {can(READING_ROLES) && (
+              <Button onClick={goToReadingForm}>
+                <Icon name="pencil" />
+                Enter a reading
+              </Button>
+            )}
             <a href={forecastCsvUrl(id, scenarioId)} download className={buttonClasses({ variant: 'secondary' })}>
               <Icon name="download" />
               Export CSV
@@ -88,7 +100,7 @@ export function SourceDetailScreen({
       <div className="grid gap-5 xl:grid-cols-[minmax(0,3fr)_minmax(0,2fr)]">
         <div className="flex min-w-0 flex-col gap-5">
           {can(READING_ROLES) && (
-            <Card>
+            <Card id="enter-reading" className="scroll-mt-20">
               <CardHeader title="Enter a reading" description={source.type === 'bulk_liquid' ? 'From the tank’s contents gauge or telemetry.' : source.type === 'manifold' ? 'Both bank gauges and the spare full cylinders.' : 'After the store round: full, in use and empty.'} />
               <CardBody>
                 <PanelBoundary bare title="The reading form">

@@ -15,6 +15,9 @@ import { Icon } from '@/components/ui/icons';
 import { useSaveSource, type Source } from '../api/sources-api';
 import { BASIS_LABEL, gasName, SOURCE_TYPE_LABEL } from '../lib/source-labels';
 
+/** An empty number field: shown blank, and reported by the schema as "must be a number" if left so. */
+const BLANK = '' as unknown as number;
+
 /** The schema's input, with the calibration table always a list (empty means none) for the row editor. */
 type SourceFormValues = Omit<z.input<typeof sourceSchema>, 'calibration'> & { calibration: { reading: number; kg: number }[] };
 type SourceBody = z.output<typeof sourceSchema>;
@@ -244,7 +247,7 @@ export function SourceForm({
             )}
             {e.calibration?.message && <FieldError>{e.calibration.message}</FieldError>}
             <div>
-              <Button variant="secondary" size="sm" onClick={() => calibration.append({ reading: NaN, kg: NaN })}>
+              <Button variant="secondary" size="sm" onClick={() => calibration.append({ reading: BLANK, kg: BLANK })}>
                 <Icon name="plus" className="size-4" />
                 Add a calibration row
               </Button>

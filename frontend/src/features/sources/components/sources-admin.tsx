@@ -32,7 +32,8 @@ export function SourcesAdmin({
   siteId: number;
   canEdit: boolean;
   cylinderTypes: CylinderTypeOption[];
-  suppliers: SupplierOption[];
+  /** Null for those who may not read the supplier list (the column is left out). */
+  suppliers: SupplierOption[] | null;
   editing: number | 'new' | null;
   onEdit: (id: number | 'new' | null) => void;
   onSaved?: () => void;
@@ -40,7 +41,7 @@ export function SourcesAdmin({
   const sources = useQuery(sourcesQueries.site(siteId));
   const columns = useMemo(() => {
     const typeName = (id: number | null) => cylinderTypes.find((c) => c.id === id)?.name;
-    const supplierName = (id: number | null) => suppliers.find((s) => s.id === id)?.name;
+    const supplierName = (id: number | null) => suppliers?.find((s) => s.id === id)?.name;
     return [
       col.accessor('name', {
         header: 'Source',
@@ -75,6 +76,9 @@ export function SourcesAdmin({
         },
       }),
       col.display({ id: 'reorder', header: 'Reorder rule', meta: { className: 'hidden md:table-cell' }, cell: (info) => describeReorderRule(info.row.original) }),
+      ...(suppliers === null
+        ? []
+        : [
       col.display({
         id: 'supplier',
         header: 'Supplier',
@@ -89,6 +93,7 @@ export function SourcesAdmin({
           );
         },
       }),
+          ]),
       col.accessor('forecastBasis', {
         header: 'Basis',
         meta: { className: 'hidden xl:table-cell' },
@@ -145,7 +150,7 @@ export function SourcesAdmin({
             initial={current ?? null}
             siteSources={list}
             cylinderTypes={cylinderTypes}
-            suppliers={suppliers}
+            suppliers={suppliers ?? []}
             onDone={() => onEdit(null)}
             onSaved={onSaved}
           />
