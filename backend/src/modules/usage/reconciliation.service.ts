@@ -139,9 +139,29 @@ function reconcileWard(model: SiteModel, w: Ward, data: WardData, fromDate: stri
   const reports = data.reports.filter((r) => r.wardId === w.id);
   const flowOf = (device: string) => model.deviceFlows.get(device) ?? DEVICE_DEFAULTS[device as OxygenDevice]?.flowLMin ?? 0;
   const leak = 1 + w.leakagePercent / 100;
-  // Reported demand of a day: patients now on each device × its flow, all day, plus the leakage allowance.
-  const reportedDaily = reports.map((r) => ({ date: r.date, amount: r.devices.reduce((sum, d) => sum + d.patientsNow * flowOf(d.device) * 1440 * leak, 0) }));
-  const reportedPerDay = reportedDaily.length ? reportedDaily.reduce((s, d) => s + d.amount, 0) / reportedDaily.length : null;
+  const rowsOf = (device: string) => model.therapy.filter((t) => t.wardId === w.id && t.gasCode === 'O2' && t.device === device);
+  // Reported demand of a day: each device's modelled lines (their own flows, hours and weekdays) scaled
+  // by reported ÷ modelled patients; a device the model lacks runs all day at its flow. Plus leakage.
+  const reportedOn = (r: PresentedReport): number =>
+    r.devices.reduce((sum, d) => {
+      const rows = rowsOf(d.device);
+      const modelledPatients = rows.reduce((a, t) => a + t.patients, 0);
+      if (modelledPatients > 0) {
+        const lines = rows.map((t) => ({ flow_L_min: t.patients * (t.flowLMin ?? flowOf(t.device)), hours: t.hoursJson ? (JSON.parse(t.hoursJson) as number[]) : undefined, weekdays: t.weekdaysJson ? (JSON.parse(t.weekdaysJson) as number[]) : undefined }));
+        return sum + modelledOnDate(lines, r.date) * (d.patientsNow / modelledPatients) * leak;
+      }
+      return sum + d.patientsNow * flowOf(d.device) * 1440 * leak;
+    }, 0);
+  const reportedDaily = reports.map((r) => ({ date: r.date, amount: reportedOn(r) }));
+  // Measured days are compared with the model on the same dates (a weekday-only line makes weekends
+  // quiet in both), then stated per average day of the model's week.
+  const perModelDay = (days: { date: string; amount: number }[]): number | null => {
+    if (!days.length) return null;
+    const measuredSum = days.reduce((a, d) => a + d.amount, 0);
+    const modelledSum = days.reduce((a, d) => a + modelledOnDate(lines, d.date), 0);
+    return modelledSum > 0 ? (modelled * measuredSum) / modelledSum : measuredSum / days.length;
+  };
+  const reportedPerDay = perModelDay(reportedDaily);
   const modelPatients = new Map<string, number>();
   for (const t of model.therapy) if (t.wardId === w.id && t.gasCode === 'O2' && t.device in DEVICE_DEFAULTS) modelPatients.set(t.device, (modelPatients.get(t.device) ?? 0) + t.patients);
   const devices = Object.keys(DEVICE_DEFAULTS)
@@ -178,13 +198,13 @@ function reconcileWard(model: SiteModel, w: Ward, data: WardData, fromDate: stri
   // Flow meters on the ward's branch.
   const meterPoints = orderedSeries(data.meters.filter((m) => m.wardId === w.id).map((m) => ({ atMs: m.takenAt.getTime(), contents: m.totalL })));
   const meterDays = meterPoints.length >= 2 ? dailyRates(meterCurve(meterPoints), zone) : [];
-  const meterPerDay = meterDays.length ? meterDays.reduce((s, d) => s + d.perDay, 0) / meterDays.length : null;
+  const meterPerDay = perModelDay(meterDays.map((d) => ({ date: d.date, amount: d.perDay })));
 
   const history = data.history.filter((h) => h.wardId === w.id && h.gasCode === 'O2' && h.usageDate >= fromDate && h.usageDate <= toDate);
-  const historyPerDay = history.length ? history.reduce((s, h) => s + h.volumeL, 0) / history.length : null;
+  const historyPerDay = perModelDay(history.map((h) => ({ date: h.usageDate, amount: h.volumeL })));
 
   // The best measurement the ward has: a meter, then historic usage, then the reported patients.
-  const [measured, basis] = meterPerDay !== null ? [meterPerDay, 'flow meter'] : historyPerDay !== null ? [historyPerDay, 'historic usage'] : reportedPerDay !== null ? [reportedPerDay, 'reported patients × device flows'] : [null, null];
+  const [measured, basis] = meterPerDay !== null ? [meterPerDay, 'flow meter'] : historyPerDay !== null ? [historyPerDay, 'historic usage'] : reportedPerDay !== null ? [reportedPerDay, 'reported patients'] : [null, null];
   const daily = new Map<string, { date: string; modelledL: number; reportedL: number | null; meterL: number | null; historyL: number | null }>();
   const row = (date: string) => {
     let d = daily.get(date);
@@ -252,7 +272,7 @@ export async function siteReconciliation(actor: Actor, siteId: number, days: num
     method: [
       'Tanks and stores: consumption between readings (falls in contents); a delivery is a rise of at least 2 % of a tank or half a cylinder, and the use during it is filled in at the rate around it.',
       'Daily rates are whole local days in the site’s time zone; their coefficient of variation feeds the forecast’s Monte Carlo band once seven days exist.',
-      'Wards: a flow meter or historic usage where present; otherwise the patients reported on each device × its flow over 24 h plus the leakage allowance. Cylinders changed count as used to empty (an upper estimate).',
+      'Wards: a flow meter or historic usage where present; otherwise the model’s lines for each device scaled by the patients reported on it (a device the model lacks runs all day at its flow), plus the leakage allowance. Cylinders changed count as used to empty (an upper estimate).',
       'Suggested factor = measured ÷ modelled, offered only between 0.2 and 5.',
     ],
     sources,
