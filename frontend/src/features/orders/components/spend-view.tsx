@@ -1,6 +1,7 @@
 import { useMemo } from 'react';
 import { useQuery } from '@tanstack/react-query';
 import { Bar, BarChart, CartesianGrid, Legend, ResponsiveContainer, Tooltip, XAxis, YAxis } from 'recharts';
+import { GAS_INFO, type GasCode } from '@common/gas/gases';
 import { formatMoney, formatNumber } from '@/lib/format';
 import { Card, CardBody, CardHeader } from '@/components/ui/card';
 import { ChartFrame } from '@/components/ui/chart-frame';
@@ -8,7 +9,7 @@ import { Icon } from '@/components/ui/icons';
 import { EmptyState, ErrorState, LoadingState } from '@/components/ui/states';
 import { ordersQueries, spendCsvUrl, type SpendRow } from '../api/orders-api';
 
-const COLOURS = ['var(--color-ink-700)', 'var(--color-sand-500)', 'var(--color-ink-200)', '#c26a00', '#6b4f8c'];
+const COLOURS = ['var(--color-ink-700)', 'var(--color-sand-500)', '#4f8fa3', '#c26a00', '#6b4f8c'];
 
 function sumBy(rows: SpendRow[], key: (r: SpendRow) => string, value: (r: SpendRow) => number) {
   const m = new Map<string, number>();
@@ -72,7 +73,7 @@ export function SpendView({ siteId }: { siteId: number | null }) {
                 <Tooltip formatter={(v) => money(Number(v))} />
                 <Legend />
                 {gases.map((g, i) => (
-                  <Bar key={g} dataKey={g} stackId="g" fill={COLOURS[i % COLOURS.length]} />
+                  <Bar key={g} dataKey={g} name={GAS_INFO[g as GasCode]?.name ?? g} stackId="g" fill={COLOURS[i % COLOURS.length]} />
                 ))}
               </BarChart>
             </ResponsiveContainer>
