@@ -22,3 +22,4 @@ await Promise.all(
   }),
 );
 process.send!({ latencies, errors }, () => process.exit(0));
+export {};
