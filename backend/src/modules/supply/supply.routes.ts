@@ -7,6 +7,8 @@ import type { RouteDef } from '../../http/route';
 import { actorOf } from '../../http/context';
 import { validate } from '../../http/validate';
 import * as svc from './supply.service';
+import { raiseRequestsForCrossings } from '../orders/requests.service';
+import { logger } from '../../logger';
 
 const id = (params: unknown) => validate(idParamSchema, params, 'address').id;
 const FM: Role[] = ['facilities_manager'];
@@ -39,7 +41,18 @@ export function supplyRoutes(): RouteDef[] {
         return svc.listReadings(actorOf(req), id(req.params), q.page, q.pageSize);
       },
     },
-    { method: 'post', path: '/api/sources/:id/readings', access: READING_WRITERS, handler: (req) => svc.addReading(actorOf(req), id(req.params), validate(readingInputSchema, req.body, 'reading')) },
+    {
+      method: 'post',
+      path: '/api/sources/:id/readings',
+      access: READING_WRITERS,
+      handler: async (req) => {
+        const reading = await svc.addReading(actorOf(req), id(req.params), validate(readingInputSchema, req.body, 'reading'));
+        // A reading can push a source across its reorder point: raise the request now, not at the next scan.
+        const source = await svc.sourceFor(actorOf(req), id(req.params));
+        await raiseRequestsForCrossings([source.siteId]).catch((e: Error) => logger.error(`reorder scan after a reading failed: ${e.message}`));
+        return reading;
+      },
+    },
     // deliveries
     { method: 'get', path: '/api/sources/:id/deliveries', access: READERS, handler: (req) => svc.listDeliveries(actorOf(req), id(req.params)) },
     { method: 'post', path: '/api/sources/:id/deliveries', access: ['facilities_manager', 'purchasing_officer'], handler: (req) => svc.scheduleDelivery(actorOf(req), id(req.params), validate(deliverySchema, req.body, 'delivery')) },
