@@ -3,7 +3,7 @@ import { Area, CartesianGrid, ComposedChart, ReferenceArea, ReferenceLine, Respo
 import { formatDateTime, formatNumber } from '@/lib/format';
 import { ChartFrame, LegendItem } from '@/components/ui/chart-frame';
 import type { SourceDetail } from '../api/sources-api';
-import { thinSeries } from '../lib/chart-data';
+import { niceAxis, thinSeries } from '../lib/chart-data';
 import { dayTicks, formatTick } from '../lib/site-time';
 
 const COLOURS = {
@@ -52,6 +52,7 @@ export function DepletionChart({ detail, height = 300 }: { detail: SourceDetail;
   const arrives = orders.map((o) => ms(o.arrivesAt)).filter(inRange);
   const dues = deliveries.map((d) => ms(d.dueAt)).filter(inRange);
   const max = Math.max(...data.map((p) => p.contents), reorderLevel ?? 0, outlook.capacity ?? 0);
+  const axis = niceAxis(max);
   const low = data.reduce((a, b) => (b.contents < a.contents ? b : a));
 
   const summary = [
@@ -88,7 +89,7 @@ export function DepletionChart({ detail, height = 300 }: { detail: SourceDetail;
         <ComposedChart data={data} margin={{ top: 10, right: 12, bottom: 0, left: 4 }} accessibilityLayer={false}>
           <CartesianGrid stroke="var(--color-line)" strokeDasharray="2 4" vertical={false} />
           <XAxis dataKey="t" type="number" scale="time" domain={[start, end]} ticks={ticks} tickFormatter={(t: number) => formatTick(t, tz)} tick={{ fontSize: 12, fill: 'var(--color-fg-muted)' }} minTickGap={16} />
-          <YAxis domain={[0, Math.ceil(max * 1.05)]} tickFormatter={(v: number) => formatNumber(v)} width={unit === 'L' ? 76 : 56} tick={{ fontSize: 12, fill: 'var(--color-fg-muted)' }} />
+          <YAxis domain={[0, axis.top]} ticks={axis.ticks} tickFormatter={(v: number) => formatNumber(v)} width={unit === 'L' ? 76 : 56} tick={{ fontSize: 12, fill: 'var(--color-fg-muted)' }} />
           {bandFrom !== null && bandTo !== null && <ReferenceArea x1={bandFrom} x2={Math.max(bandTo, bandFrom + 3_600_000)} fill={COLOURS.band} fillOpacity={0.12} stroke={COLOURS.band} strokeOpacity={0.3} ifOverflow="extendDomain" />}
           <Area type="linear" dataKey="contents" stroke={COLOURS.contents} strokeWidth={2} fill={COLOURS.contents} fillOpacity={0.12} isAnimationActive={false} dot={false} activeDot={{ r: 4 }} />
           {reorderLevel !== null && <ReferenceLine y={reorderLevel} stroke={COLOURS.reorder} strokeWidth={2} strokeDasharray="6 4" ifOverflow="extendDomain" />}

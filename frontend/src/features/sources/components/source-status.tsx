@@ -1,7 +1,7 @@
 import { DateTime } from 'luxon';
 import { cn } from '@/lib/cn';
 import { formatDateTime, formatDays, formatKg, formatLitres, formatNumber, formatRelative } from '@/lib/format';
-import { Badge, StatusBadge } from '@/components/ui/badge';
+import { Badge, StatusBadge, SUPPLY_STATUS } from '@/components/ui/badge';
 import { Card } from '@/components/ui/card';
 import { Icon } from '@/components/ui/icons';
 import type { SourceDetail } from '../api/sources-api';
@@ -41,7 +41,7 @@ export function SourceStatus({ detail }: { detail: SourceDetail }) {
           ) : (
             <StatusBadge status={outlook.status} />
           )}
-          <p className="font-bold">{outlook.statusText}</p>
+          {outlook.status !== 'unknown' && SUPPLY_STATUS[outlook.status]?.label !== outlook.statusText && <p className="font-bold">{outlook.statusText}</p>}
         </div>
         {outlook.note && (
           <p className="flex items-start gap-2 rounded-lg bg-surface-sunken px-3 py-2 text-sm">

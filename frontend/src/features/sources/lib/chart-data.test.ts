@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { thinSeries, type ChartPoint } from './chart-data';
+import { niceAxis, thinSeries, type ChartPoint } from './chart-data';
 
 // A tank used at 10 kg/h that is refilled to 1,000 kg every 50 h: a saw-tooth (common practice for bulk supply).
 function sawTooth(hours: number): ChartPoint[] {
@@ -23,5 +23,20 @@ describe('thinning the hourly forecast for the chart', () => {
     expect(thin[thin.length - 1]).toEqual(s[s.length - 1]);
     // time order is kept, so the line never doubles back
     for (let i = 1; i < thin.length; i++) expect(thin[i].t).toBeGreaterThan(thin[i - 1].t);
+  });
+});
+
+describe('a round value axis', () => {
+  it('ends a 10,000 kg tank at its capacity in steps of 2,500', () => {
+    expect(niceAxis(10_000)).toEqual({ top: 10_000, ticks: [0, 2_500, 5_000, 7_500, 10_000] });
+  });
+
+  it('rounds an odd maximum up to the next whole step', () => {
+    // 309,439 L / 4 ≈ 77,360 → step 100,000 (the next of 1, 2, 2.5, 5 × 10^k)
+    expect(niceAxis(309_439)).toEqual({ top: 400_000, ticks: [0, 100_000, 200_000, 300_000, 400_000] });
+  });
+
+  it('copes with an empty source', () => {
+    expect(niceAxis(0).top).toBeGreaterThan(0);
   });
 });

@@ -26,3 +26,18 @@ export function thinSeries(points: readonly ChartPoint[], maxPoints = 600): Char
   out.push(points[points.length - 1]);
   return out;
 }
+
+/**
+ * A round top for a value axis and its ticks: steps of 1, 2, 2.5 or 5 × 10^k, about four of them, so the
+ * axis reads 0, 2,500, 5,000… rather than stopping at an odd maximum.
+ */
+export function niceAxis(max: number, count = 4): { top: number; ticks: number[] } {
+  if (!(max > 0) || !Number.isFinite(max)) return { top: 1, ticks: [0, 1] };
+  const raw = max / count;
+  const pow = 10 ** Math.floor(Math.log10(raw));
+  const step = [1, 2, 2.5, 5, 10].map((m) => m * pow).find((s) => s >= raw - 1e-9) ?? 10 * pow;
+  const top = Math.ceil(max / step - 1e-9) * step;
+  const ticks: number[] = [];
+  for (let t = 0; t <= top + step / 2; t += step) ticks.push(Math.round(t * 1e6) / 1e6);
+  return { top, ticks };
+}

@@ -96,8 +96,8 @@ function FeedsForm({ detail, sources, onSaved }: { detail: WardDetail; sources: 
             {feeds.fields.map((f, i) => {
               const sid = values[i]?.sourceId;
               return (
-                <li key={f.id} className="grid items-start gap-2 rounded-lg border border-line bg-surface-sunken p-3 sm:grid-cols-[minmax(0,1fr)_11rem_auto]">
-                  <Field label={`Source ${i + 1}`} hint={sid && Number.isFinite(sid) ? gasName(gasOf(sid)) : undefined} error={e.feeds?.[i]?.sourceId ? (e.feeds[i].sourceId.type === 'server' ? e.feeds[i].sourceId.message : 'choose a source') : undefined}>
+                <li key={f.id} className="grid grid-cols-[minmax(0,1fr)_auto] items-start gap-x-2 gap-y-3 rounded-lg border border-line bg-surface-sunken p-3">
+                  <Field className="col-span-2" label={`Source ${i + 1}`} hint={sid && Number.isFinite(sid) ? gasName(gasOf(sid)) : undefined} error={e.feeds?.[i]?.sourceId ? (e.feeds[i].sourceId.type === 'server' ? e.feeds[i].sourceId.message : 'choose a source') : undefined}>
                     {(c) => (
                       <Select {...c} {...register(`feeds.${i}.sourceId`, { setValueAs: optionalId })}>
                         <option value="">Choose a source…</option>
@@ -127,7 +127,7 @@ function FeedsForm({ detail, sources, onSaved }: { detail: WardDetail; sources: 
                       </Select>
                     )}
                   </Field>
-                  <Button variant="ghost" size="sm" className="sm:mt-7" onClick={() => feeds.remove(i)} aria-label={`Remove feed ${i + 1}`}>
+                  <Button variant="ghost" size="sm" className="mt-7" onClick={() => feeds.remove(i)} aria-label={`Remove feed ${i + 1}`}>
                     <Icon name="close" className="size-4" />
                     Remove
                   </Button>

@@ -65,8 +65,8 @@ export function ScenariosPanel({
       ) : (
         <ul className="divide-y divide-line">
           {scenarios.map((s) => (
-            <li key={s.id} className="flex flex-wrap items-start justify-between gap-3 px-4 py-3 sm:px-5">
-              <div className="min-w-0">
+            <li key={s.id} className="flex items-start justify-between gap-3 px-4 py-3 sm:px-5">
+              <div className="min-w-0 flex-1">
                 <p className="font-bold">{s.name}</p>
                 <p className="text-sm">{what(s, wards)}</p>
                 <p className="text-sm text-fg-muted">

@@ -173,7 +173,7 @@ function TherapyLineRow({
   const perDay = flow !== null && Number.isFinite(patients) ? lineLitresPerDay(patients, flow, line?.hours ?? null, line?.weekdays ?? null, leak) : null;
   const needsFlow = line?.device === 'custom' || line?.device === 'theatre';
   return (
-    <li className="rounded-lg border border-line bg-surface-sunken p-3">
+    <li className="@container rounded-lg border border-line bg-surface-sunken p-3">
       <div className="mb-2 flex items-center justify-between gap-2">
         <p className="font-bold">Line {i + 1}</p>
         <Button variant="ghost" size="sm" onClick={onRemove} aria-label={`Remove line ${i + 1}`}>
@@ -181,8 +181,8 @@ function TherapyLineRow({
           Remove
         </Button>
       </div>
-      <div className="grid gap-3 sm:grid-cols-2 lg:grid-cols-4">
-        <Field label="Gas" error={errors?.gasCode?.message}>
+      <div className="grid grid-cols-2 gap-3 @3xl:grid-cols-4">
+        <Field label="Gas" error={errors?.gasCode?.message} className="col-span-2 @sm:col-span-1">
           {(c) => (
             <Select {...c} {...register(`lines.${i}.gasCode`)}>
               {GAS_CODES_CATALOGUE.map((g) => (
@@ -193,7 +193,7 @@ function TherapyLineRow({
             </Select>
           )}
         </Field>
-        <Field label="Device" error={errors?.device?.message}>
+        <Field label="Device" error={errors?.device?.message} className="col-span-2 @sm:col-span-1">
           {(c) => (
             <Select {...c} {...register(`lines.${i}.device`)}>
               {THERAPY_DEVICES.map((d) => (
@@ -214,7 +214,7 @@ function TherapyLineRow({
         >
           {(c) => <UnitInput {...c} {...register(`lines.${i}.flowLMin`, { setValueAs: optionalNumber })} unit="L/min" inputMode="decimal" placeholder={device && !needsFlow ? formatNumber(device.flowLMin, 1) : undefined} />}
         </Field>
-        <Field label="Label" hint="Optional, e.g. “Night CPAP”." error={errors?.label?.message} className="sm:col-span-2 lg:col-span-4">
+        <Field label="Label" hint="Optional, e.g. “Night CPAP”." error={errors?.label?.message} className="col-span-2 @3xl:col-span-4">
           {(c) => <Input {...c} {...register(`lines.${i}.label`)} maxLength={120} />}
         </Field>
       </div>

@@ -68,33 +68,29 @@ export function WardDetailScreen({ id, roles, sources, onSupplyChanged }: { id: 
         </p>
       )}
 
-      <div className="grid gap-5 xl:grid-cols-[minmax(0,3fr)_minmax(0,2fr)]">
-        <div className="flex min-w-0 flex-col gap-5">
-          <PanelBoundary title="Therapy lines">
-            {flows.isPending ? (
-              <Card>
-                <LoadingState label="Loading device flows…" />
-              </Card>
-            ) : (
-              <TherapyEditor detail={detail} deviceFlows={flows.data ?? []} canEdit={canTherapy} onSaved={onSupplyChanged} />
-            )}
-          </PanelBoundary>
-        </div>
-        <div className="flex min-w-0 flex-col gap-5">
-          <DemandCheck detail={detail} sources={sources} canAccept={fm} onSaved={onSupplyChanged} />
-          <FeedsEditor detail={detail} sources={sources} canEdit={fm} onSaved={onSupplyChanged} />
-          <ScenariosPanel
-            siteId={site.id}
-            timeZone={site.timeZone}
-            scenarios={detail.scenarios}
-            wards={wards.data ?? [ward]}
-            canEdit={fm}
-            defaultWardId={ward.id}
-            description="Site-wide scenarios and those of this ward."
-            onSaved={onSupplyChanged}
-          />
-        </div>
+      <div className="grid items-start gap-5 xl:grid-cols-2">
+        <DemandCheck detail={detail} sources={sources} canAccept={fm} onSaved={onSupplyChanged} />
+        <FeedsEditor detail={detail} sources={sources} canEdit={fm} onSaved={onSupplyChanged} />
       </div>
+      <PanelBoundary title="Therapy lines">
+        {flows.isPending ? (
+          <Card>
+            <LoadingState label="Loading device flows…" />
+          </Card>
+        ) : (
+          <TherapyEditor detail={detail} deviceFlows={flows.data ?? []} canEdit={canTherapy} onSaved={onSupplyChanged} />
+        )}
+      </PanelBoundary>
+      <ScenariosPanel
+        siteId={site.id}
+        timeZone={site.timeZone}
+        scenarios={detail.scenarios}
+        wards={wards.data ?? [ward]}
+        canEdit={fm}
+        defaultWardId={ward.id}
+        description="Site-wide scenarios and those of this ward."
+        onSaved={onSupplyChanged}
+      />
       <Dialog open={editing} onClose={() => setEditing(false)} title={`Edit ${ward.name}`}>
         {editing && <WardForm siteId={site.id} initial={ward} onDone={() => setEditing(false)} onSaved={onSupplyChanged} />}
       </Dialog>
