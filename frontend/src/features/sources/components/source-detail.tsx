@@ -1,4 +1,5 @@
 import { useQuery } from '@tanstack/react-query';
+import { isApiError } from '@/lib/api-client';
 import { Link } from 'react-router-dom';
 import type { Role } from '@common/api/roles';
 import { Button, ButtonLink, buttonClasses } from '@/components/ui/button';
@@ -44,7 +45,7 @@ export function SourceDetailScreen({
   if (q.isError) {
     return (
       <Card>
-        <ErrorState error={q.error} title="This source could not be loaded" onRetry={() => q.refetch()} />
+        <ErrorState error={q.error} title="This source could not be loaded" onRetry={isApiError(q.error) && q.error.status === 404 ? undefined : () => q.refetch()} />
       </Card>
     );
   }

@@ -52,7 +52,16 @@ export function SourceStatus({ detail }: { detail: SourceDetail }) {
         <dl className="grid grid-cols-2 gap-x-6 gap-y-4 md:grid-cols-3 xl:grid-cols-6">
           <div className="col-span-2 md:col-span-1">
             <dt className="text-sm text-fg-muted">Days of stock</dt>
-            <dd className="text-3xl leading-tight font-black tabular">{outlook.daysOfStock === null ? (outlook.note ? '–' : 'Beyond the forecast') : formatDays(outlook.daysOfStock)}</dd>
+            {outlook.daysOfStock !== null ? (
+              <dd className="text-3xl leading-tight font-black tabular">{formatDays(outlook.daysOfStock)}</dd>
+            ) : outlook.note ? (
+              <dd className="text-3xl leading-tight font-black">–</dd>
+            ) : (
+              <>
+                <dd className="text-xl leading-tight font-black">Lasts the forecast</dd>
+                <dd className="text-sm text-fg-muted">{detail.method.basis.modelledLPerDay > 0 ? 'no run-out in the horizon' : 'no demand drawn from it'}</dd>
+              </>
+            )}
           </div>
           <Figure label="Holds now" sub={fill !== null ? `${formatNumber(fill * 100)} % of ${fmt(outlook.capacity)}` : undefined}>
             {fmt(contents)}

@@ -1,6 +1,7 @@
 import { useState } from 'react';
 import type { z } from 'zod';
 import { useForm, useWatch } from 'react-hook-form';
+import { DateTime } from 'luxon';
 import { scenarioSchema } from '@common/schemas/supply.schema';
 import { bodyResolver } from '@/lib/body-resolver';
 import { applyServerErrors } from '@/lib/form-errors';
@@ -14,6 +15,14 @@ import { useDeleteScenario, useSaveScenario, type Scenario, type Ward } from '..
 const FIELDS = ['name', 'multiplier', 'extraPatients', 'extraFlowLMin', 'wardId', 'wardChange', 'fromLocal', 'untilLocal', 'note'] as const;
 const optionalId = (v: unknown) => (v === '' || v === null || v === undefined ? null : Number(v));
 const optionalText = (v: unknown) => (v === '' || v === null || v === undefined ? null : String(v));
+
+/** Midnight starting tomorrow at the site: a scenario usually starts with a day. */
+function startOfTomorrow(timeZone: string | undefined): string {
+  return DateTime.now().setZone(timeZone ?? 'local').plus({ days: 1 }).startOf('day').toFormat("yyyy-MM-dd'T'HH:mm");
+}
+
+/** The schema asks for the text a datetime-local input gives; a person only needs to fill it in. */
+const localError = (message: string | undefined) => (message && /yyyy/.test(message) ? 'enter the date and time' : message);
 
 /**
  * A what-if for the forecast: demand × a multiplier, extra patients at a flow, a ward that opens or
@@ -44,7 +53,7 @@ export function ScenarioForm({
     resolver: bodyResolver<z.input<typeof scenarioSchema>, typeof scenarioSchema>(scenarioSchema, (v) => v),
     defaultValues: initial
       ? { name: initial.name, multiplier: initial.multiplier, extraPatients: initial.extraPatients, extraFlowLMin: initial.extraFlowLMin, wardId: initial.wardId, wardChange: initial.wardChange, fromLocal: initial.fromLocal, untilLocal: initial.untilLocal, note: initial.note }
-      : { name: '', multiplier: 1, extraPatients: 0, extraFlowLMin: 0, wardId: defaultWardId, wardChange: null, fromLocal: '', untilLocal: null, note: '' },
+      : { name: '', multiplier: 1, extraPatients: 0, extraFlowLMin: 0, wardId: defaultWardId, wardChange: null, fromLocal: startOfTomorrow(timeZone), untilLocal: null, note: '' },
   });
   const wardId = useWatch({ control, name: 'wardId' });
   const e = formState.errors;
@@ -108,10 +117,10 @@ export function ScenarioForm({
         </Field>
       </div>
       <div className="grid gap-4 sm:grid-cols-2">
-        <Field label="From" hint={timeZone ? `Site time (${timeZone}).` : 'Site time.'} error={e.fromLocal?.message}>
+        <Field label="From" hint={timeZone ? `Site time (${timeZone}).` : 'Site time.'} error={localError(e.fromLocal?.message)}>
           {(c) => <Input {...c} {...register('fromLocal')} type="datetime-local" />}
         </Field>
-        <Field label="Until" hint="Blank: to the end of the forecast." error={e.untilLocal?.message}>
+        <Field label="Until" hint="Blank: to the end of the forecast." error={localError(e.untilLocal?.message)}>
           {(c) => <Input {...c} {...register('untilLocal', { setValueAs: optionalText })} type="datetime-local" />}
         </Field>
       </div>

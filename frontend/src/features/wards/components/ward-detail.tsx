@@ -1,5 +1,6 @@
 import { useState } from 'react';
 import { useQuery } from '@tanstack/react-query';
+import { isApiError } from '@/lib/api-client';
 import { Link } from 'react-router-dom';
 import type { Role } from '@common/api/roles';
 import { formatNumber } from '@/lib/format';
@@ -33,7 +34,7 @@ export function WardDetailScreen({ id, roles, sources, onSupplyChanged }: { id: 
   if (q.isError) {
     return (
       <Card>
-        <ErrorState error={q.error} title="This ward could not be loaded" onRetry={() => q.refetch()} />
+        <ErrorState error={q.error} title="This ward could not be loaded" onRetry={isApiError(q.error) && q.error.status === 404 ? undefined : () => q.refetch()} />
       </Card>
     );
   }
@@ -41,6 +42,19 @@ export function WardDetailScreen({ id, roles, sources, onSupplyChanged }: { id: 
   const { ward, site } = detail;
   const fm = roles.includes('facilities_manager');
   const canTherapy = fm || roles.includes('ward_lead');
+
+  // a ward lead comes here for the therapy lines: they lead the page for them
+  const therapyPanel = (
+    <PanelBoundary title="Therapy lines">
+      {flows.isPending ? (
+        <Card>
+          <LoadingState label="Loading device flows…" />
+        </Card>
+      ) : (
+        <TherapyEditor detail={detail} deviceFlows={flows.data ?? []} canEdit={canTherapy} onSaved={onSupplyChanged} />
+      )}
+    </PanelBoundary>
+  );
 
   return (
     <div className="flex flex-col gap-5">
@@ -68,19 +82,12 @@ export function WardDetailScreen({ id, roles, sources, onSupplyChanged }: { id: 
         </p>
       )}
 
+      {!fm && canTherapy && therapyPanel}
       <div className="grid items-start gap-5 xl:grid-cols-2">
         <DemandCheck detail={detail} sources={sources} canAccept={fm} onSaved={onSupplyChanged} />
         <FeedsEditor detail={detail} sources={sources} canEdit={fm} onSaved={onSupplyChanged} />
       </div>
-      <PanelBoundary title="Therapy lines">
-        {flows.isPending ? (
-          <Card>
-            <LoadingState label="Loading device flows…" />
-          </Card>
-        ) : (
-          <TherapyEditor detail={detail} deviceFlows={flows.data ?? []} canEdit={canTherapy} onSaved={onSupplyChanged} />
-        )}
-      </PanelBoundary>
+      {(fm || !canTherapy) && therapyPanel}
       <ScenariosPanel
         siteId={site.id}
         timeZone={site.timeZone}

@@ -24,7 +24,7 @@ export function WardsScreen({ siteId, timeZone, roles, onSupplyChanged }: { site
       <PanelBoundary title="Wards">
         <WardsAdmin siteId={siteId} canEdit={fm} onSaved={onSupplyChanged} />
       </PanelBoundary>
-      <div className="grid gap-5 xl:grid-cols-2">
+      <div className="grid items-start gap-5 xl:grid-cols-2">
         <PanelBoundary title="Scenarios">
           <SiteScenarios siteId={siteId} timeZone={timeZone} canEdit={fm} onSaved={onSupplyChanged} />
         </PanelBoundary>
