@@ -1,14 +1,46 @@
 import 'reflect-metadata';
-import { DataSource } from 'typeorm';
+import { DataSource, type EntityManager } from 'typeorm';
 import { env } from '../config/env';
 import { SnakeNamingStrategy } from './naming-strategy';
 import { entities } from './entities';
 import { migrations } from './migrations';
 
+// The last overload of DataSource.transaction takes the isolation level first.
+type IsolationLevel = Parameters<DataSource['transaction']>[0];
+
+const RETRYABLE_LOCK_ERRORS = new Set(['ER_LOCK_DEADLOCK', 'ER_LOCK_WAIT_TIMEOUT']);
+const TRANSACTION_ATTEMPTS = 5;
+
+function lockErrorCode(e: unknown): string | undefined {
+  const x = e as { code?: string; driverError?: { code?: string } };
+  return x?.driverError?.code ?? x?.code;
+}
+
+/**
+ * A DataSource whose transactions are run again when InnoDB picks them as a deadlock victim or a lock
+ * wait times out. Two writes at one site deadlock in the ordinary course (each insert's foreign-key check
+ * takes a shared lock on the site row, then both bump the site's data version); the whole unit is rolled
+ * back, so running it again is what a person pressing the button again would do, only sooner.
+ */
+export class RetryingDataSource extends DataSource {
+  override transaction<T>(run: (m: EntityManager) => Promise<T>): Promise<T>;
+  override transaction<T>(isolationLevel: IsolationLevel, run: (m: EntityManager) => Promise<T>): Promise<T>;
+  override async transaction<T>(a: IsolationLevel | ((m: EntityManager) => Promise<T>), b?: (m: EntityManager) => Promise<T>): Promise<T> {
+    for (let attempt = 1; ; attempt++) {
+      try {
+        return typeof a === 'function' ? await super.transaction(a) : await super.transaction(a, b!);
+      } catch (e) {
+        if (attempt >= TRANSACTION_ATTEMPTS || !RETRYABLE_LOCK_ERRORS.has(lockErrorCode(e) ?? '')) throw e;
+        await new Promise((r) => setTimeout(r, 5 * attempt + Math.random() * 25 * attempt));
+      }
+    }
+  }
+}
+
 /** Builds the application's one DataSource (MariaDB through mysql2). Times are read and written in UTC. */
 export function createDataSource(overrides: { database?: string; port?: number; poolSize?: number } = {}): DataSource {
   const e = env();
-  return new DataSource({
+  return new RetryingDataSource({
     type: 'mariadb',
     host: e.DB_HOST,
     port: overrides.port ?? e.DB_PORT,
