@@ -236,7 +236,7 @@ describe('uploads refuse what is not CSV text or is too large, storing nothing',
   async function upload(name: string, bytes: Uint8Array, type = 'text/csv') {
     const form = new FormData();
     form.append('kind', 'tank_readings');
-    form.append('file', new Blob([bytes], { type }), name);
+    form.append('file', new Blob([bytes as Uint8Array<ArrayBuffer>], { type }), name);
     const res = await fetch(`${app.baseUrl}/api/sites/${org.siteIds[0]}/imports`, { method: 'POST', body: form, headers: { cookie: `plenum.sid=${fm.cookies.get('plenum.sid')}`, 'x-csrf-token': fm.csrf! } });
     return { status: res.status, body: (await res.json()) as any };
   }

@@ -31,7 +31,7 @@ export interface ChildApp {
 /**
  * The real app as its own process (`node --import tsx backend/src/main.ts`), as production runs it, on a
  * free loopback port. `env` overrides the configuration (DB_*, limits); background jobs are off unless
- * asked for. Resolves once the process says it is listening.
+ * asked for. Resolves once the process answers HTTP (whatever the state of its database).
  */
 export async function startChildApp(env: Record<string, string>, opts: { timeoutMs?: number } = {}): Promise<ChildApp> {
   const port = await freePort();
@@ -47,7 +47,12 @@ export async function startChildApp(env: Record<string, string>, opts: { timeout
   const deadline = Date.now() + (opts.timeoutMs ?? 60_000);
   let gone = false;
   void exited.then(() => (gone = true));
-  while (!/listening on/i.test(out)) {
+  const answers = () =>
+    fetch(`http://127.0.0.1:${port}/api/health`, { signal: AbortSignal.timeout(5_000) }).then(
+      () => true,
+      () => false,
+    );
+  while (!(await answers())) {
     if (gone) throw new Error(`The app exited before listening:\n${out}`);
     if (Date.now() > deadline) {
       proc.kill('SIGKILL');
@@ -73,7 +78,7 @@ export async function startChildApp(env: Record<string, string>, opts: { timeout
 /** Creates (or recreates) a database on the test MariaDB and runs the migrations in it. */
 export async function createMigratedDatabase(name: string, conn: { port?: number } = {}): Promise<void> {
   const extra = conn.port ? { port: conn.port } : {};
-  const admin = createDataSource({ ...extra, poolSize: 1 });
+  const admin = createDataSource({ ...extra, database: 'information_schema', poolSize: 1 });
   await admin.initialize();
   try {
     await admin.query(`DROP DATABASE IF EXISTS \`${name}\``);
