@@ -25,10 +25,13 @@ describe('sign in as each demo role, reach the overview, sign out', () => {
     for (const [device, viewport] of [['desktop', DESKTOP], ['phone', PHONE]] as const) {
       it(`${name} on a ${device}`, async () => {
         const context = await browser.newContext({ viewport });
+        context.setDefaultTimeout(45_000);
         const page = await context.newPage();
         const errors = watchErrors(page);
-        await page.goto(baseUrl + '/');
-        await page.waitForURL(/\/sign-in/);
+        await page.goto(baseUrl + '/', { waitUntil: 'domcontentloaded' });
+        // Signed out, the app sends us to the sign-in page.
+        await page.getByLabel('E-mail').waitFor();
+        expect(page.url()).toMatch(/\/sign-in/);
         await page.getByLabel('E-mail').fill(email);
         await page.getByLabel('Password').fill('demo-plenum');
         await page.getByRole('button', { name: 'Sign in' }).click();
