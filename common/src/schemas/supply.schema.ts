@@ -12,7 +12,8 @@ export const FEED_ROLES = ['primary', 'secondary', 'reserve'] as const;
 export const THERAPY_DEVICES = ['nasal_cannula', 'simple_mask', 'non_rebreather', 'venturi_35', 'hfno', 'cpap', 'ventilator', 'theatre', 'custom'] as const;
 export const READING_METHODS = ['manual', 'telemetry', 'delivery_note', 'import'] as const;
 
-const num = (what: string) => z.number({ error: `${what} must be a number` });
+/** A number whose type error names the field; range errors keep their own (or zod's) wording. */
+const num = (what: string) => z.number({ error: (issue) => (issue.code === 'invalid_type' ? `${what} must be a number` : undefined) });
 const gasCode = z.enum(GAS_CODES_CATALOGUE, { error: 'choose a gas' });
 const LOCAL_RE = /^\d{4}-\d{2}-\d{2}T\d{2}:\d{2}$/;
 export const localTimeSchema = z.string().regex(LOCAL_RE, 'use a local date and time, yyyy-MM-ddTHH:mm');

@@ -12,7 +12,7 @@ import { SourceReading } from '../../db/entities/supply.entity';
 import { loadSiteModels, type SiteModel } from './site-model';
 import { siteVersions, VersionedCache } from './site-version';
 import { FORECAST_CAUTION, measuredDemandCv, measuredLPerDay, modelledLines, outlookFor, wardDemandLines, wardsFedBy, type SourceOutlook } from './forecast.service';
-import { presentReading, presentScenario, presentSource, presentTherapy, presentWard, sourceFor, wardFor } from '../supply/supply.service';
+import { presentReading, readerNames, presentScenario, presentSource, presentTherapy, presentWard, sourceFor, wardFor } from '../supply/supply.service';
 
 const MS_H = 3_600_000;
 const STATUS_RANK = { critical: 0, reorder: 1, watch: 2, unknown: 3, ok: 4 } as const;
@@ -127,6 +127,7 @@ async function sourceDetail(actor: Actor, id: number, q: { scenario?: number; dr
   const cyl = s.cylinderTypeId ? model.cylinderTypes.get(s.cylinderTypeId) : undefined;
   const readings = await db().getRepository(SourceReading).find({ where: { sourceId: id }, order: { takenAt: 'DESC', id: 'DESC' }, take: 20 });
   const lines = modelledLines(model, s);
+  const names = await readerNames(actor.user.organisationId, readings);
   return {
     source: { ...presentSource(s), cylinderTypeName: cyl ? cylinderTypeName(cyl.waterCapacityL, cyl.fillPressureBar) : null, supplierName: s.supplierId ? (model.suppliers.get(s.supplierId)?.name ?? null) : null },
     site: { id: model.site.id, name: model.site.name, timeZone: model.site.timeZone, referenceCode: model.site.referenceCode, currency: model.site.currency },
@@ -140,7 +141,7 @@ async function sourceDetail(actor: Actor, id: number, q: { scenario?: number; dr
     scenarios: model.scenarios.map(presentScenario),
     scenarioId: q.scenario ?? null,
     wardsFed: wardsFedBy(model, s).map(presentWard),
-    readings: readings.map(presentReading),
+    readings: readings.map((r) => presentReading(r, names)),
     method: {
       caution: FORECAST_CAUTION,
       basis: o.basis,

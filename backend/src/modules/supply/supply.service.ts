@@ -51,8 +51,16 @@ export function presentSource(s: SupplySource) {
   };
 }
 
-export function presentReading(r: SourceReading) {
-  return { id: r.id, takenAt: r.takenAt.toISOString(), kind: r.kind, value: r.value, detail: r.detailJson ? JSON.parse(r.detailJson) : null, contents: r.contents, method: r.method, takenByUserId: r.takenByUserId, note: r.note };
+export function presentReading(r: SourceReading, names?: Map<number, string>) {
+  return { id: r.id, takenAt: r.takenAt.toISOString(), kind: r.kind, value: r.value, detail: r.detailJson ? JSON.parse(r.detailJson) : null, contents: r.contents, method: r.method, takenByUserId: r.takenByUserId, takenByName: r.takenByUserId ? (names?.get(r.takenByUserId) ?? null) : null, note: r.note };
+}
+
+/** Names of the people who took readings (same organisation only), for the readings tables. */
+export async function readerNames(organisationId: number, readings: SourceReading[]): Promise<Map<number, string>> {
+  const ids = [...new Set(readings.map((r) => r.takenByUserId).filter((x): x is number => x !== null))];
+  if (ids.length === 0) return new Map();
+  const rows: { id: number; name: string }[] = await db().query(`SELECT id, name FROM app_user WHERE organisation_id = ? AND id IN (${ids.map(() => '?').join(',')})`, [organisationId, ...ids]);
+  return new Map(rows.map((u) => [Number(u.id), u.name]));
 }
 
 export function presentWard(w: Ward) {
@@ -235,14 +243,15 @@ export async function addReading(actor: Actor, sourceId: number, input: ReadingI
     const saved = await m.getRepository(SourceReading).save(m.getRepository(SourceReading).create({ sourceId, takenAt, kind, value, detailJson: detail, contents, method, note, takenByUserId: actor.user.id }));
     await recordAudit(m, whoOf(actor), { action: 'create', entity: 'source_reading', entityId: saved.id, after: presentReading(saved) });
     await bumpSiteVersion(m, source.siteId);
-    return presentReading(saved);
+    return presentReading(saved, new Map([[actor.user.id, actor.user.name]]));
   });
 }
 
 export async function listReadings(actor: Actor, sourceId: number, page: number, pageSize: number) {
   await sourceFor(actor, sourceId);
   const [rows, total] = await db().getRepository(SourceReading).findAndCount({ where: { sourceId }, order: { takenAt: 'DESC', id: 'DESC' }, skip: (page - 1) * pageSize, take: pageSize });
-  return { items: rows.map(presentReading), total, page, pageSize };
+  const names = await readerNames(actor.user.organisationId, rows);
+  return { items: rows.map((r) => presentReading(r, names)), total, page, pageSize };
 }
 
 // ---------- wards, feeds, therapy lines ----------
