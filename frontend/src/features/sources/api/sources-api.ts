@@ -92,6 +92,7 @@ export interface Reading {
   contents: number;
   method: 'manual' | 'telemetry' | 'delivery_note' | 'import';
   takenByUserId: number | null;
+  takenByName: string | null;
   note: string;
 }
 

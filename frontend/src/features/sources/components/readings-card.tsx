@@ -16,7 +16,7 @@ export function ReadingsCard({ detail, meId }: { detail: SourceDetail; meId: num
   const calibrationUnit = detail.source.calibrationUnit;
   const columns = useMemo(() => {
     // the API gives the user's id only: "you" is certain, anyone else is a colleague of the organisation
-    const who = (r: Reading) => (r.takenByUserId === null ? null : r.takenByUserId === meId ? 'You' : `Colleague (user ${r.takenByUserId})`);
+    const who = (r: Reading) => (r.takenByUserId === null ? null : r.takenByUserId === meId ? 'You' : (r.takenByName ?? 'A colleague'));
     return [
       col.accessor('takenAt', {
         header: 'Taken',
