@@ -15,7 +15,7 @@ export function ReadingsCard({ detail, meId }: { detail: SourceDetail; meId: num
   const unit = detail.outlook.unit;
   const calibrationUnit = detail.source.calibrationUnit;
   const columns = useMemo(() => {
-    // the API gives the user's id only: "you" is certain, anyone else is a colleague of the organisation
+    // "You" for the signed-in user, else the name the API gives (same organisation only)
     const who = (r: Reading) => (r.takenByUserId === null ? null : r.takenByUserId === meId ? 'You' : (r.takenByName ?? 'A colleague'));
     return [
       col.accessor('takenAt', {
