@@ -55,7 +55,9 @@ export function createDataSource(overrides: { database?: string; port?: number; 
     synchronize: false,
     namingStrategy: new SnakeNamingStrategy(),
     poolSize: overrides.poolSize ?? e.DB_POOL_SIZE,
-    extra: { connectTimeout: 5000, waitForConnections: true, queueLimit: 200 },
+    // A request may hold several queries at once (Promise.all): at 100 users a queue of 200 overflowed.
+    // Past this many waiting queries the app answers 503 "busy" rather than queue without bound.
+    extra: { connectTimeout: 5000, waitForConnections: true, queueLimit: 2000 },
     logging: ['error'],
   });
 }

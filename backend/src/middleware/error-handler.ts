@@ -11,10 +11,11 @@ function isDatabaseDown(err: unknown): boolean {
   return (code !== undefined && DB_DOWN_CODES.has(code)) || /connect ECONNREFUSED|Pool is closed|Connection lost/i.test(e?.message ?? '');
 }
 
-function isLockContention(err: unknown): boolean {
-  const e = err as { code?: string; driverError?: { code?: string } };
+/** A deadlock or lock wait left after the transaction's retries, or the connection pool's queue full. */
+function isBusy(err: unknown): boolean {
+  const e = err as { code?: string; driverError?: { code?: string }; message?: string };
   const code = e?.driverError?.code ?? e?.code;
-  return code === 'ER_LOCK_DEADLOCK' || code === 'ER_LOCK_WAIT_TIMEOUT';
+  return code === 'ER_LOCK_DEADLOCK' || code === 'ER_LOCK_WAIT_TIMEOUT' || /^Queue limit reached/.test(e?.message ?? '');
 }
 
 /** The one error middleware: known errors keep their status and code; the rest become a logged 500. */
@@ -35,11 +36,11 @@ export function errorHandler(err: unknown, req: Request, res: Response, _next: N
   } else if (e?.type === 'entity.too.large') {
     status = 413;
     body = { error: { code: 'too_large', message: 'The request body is too large' } };
-  } else if (isLockContention(err)) {
-    // Still a deadlock after the transaction's own retries: the change was rolled back whole.
+  } else if (isBusy(err)) {
+    // A deadlock after the transaction's own retries rolled the change back whole; a full queue ran nothing.
     status = 503;
-    body = { error: { code: 'busy', message: 'Another change to the same records was being saved at the same moment; nothing was changed. Try again.' } };
-    logger.error(`[${req.id}] lock contention after retries: ${e?.message}`);
+    body = { error: { code: 'busy', message: 'Plenum is very busy just now (or another change to the same records was being saved at the same moment); nothing was changed. Try again.' } };
+    logger.error(`[${req.id}] busy: ${e?.message}`);
   } else if (isDatabaseDown(err)) {
     status = 503;
     body = { error: { code: 'service_unavailable', message: 'The database is not reachable just now; nothing was changed. Try again in a moment.' } };
