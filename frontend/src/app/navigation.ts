@@ -39,6 +39,7 @@ export const NAV_ITEMS: readonly NavItem[] = [
   { path: '/admin/users', label: 'Users', icon: 'users', roles: ['administrator'], section: 'admin' },
   { path: '/admin/audit', label: 'Audit log', icon: 'audit', roles: ['administrator'], section: 'admin' },
   { path: '/admin/mail', label: 'Mail', icon: 'mail', roles: ['administrator'], section: 'admin' },
+  { path: '/admin/outbox', label: 'Outbox', icon: 'clock', roles: ['administrator'], section: 'admin' },
 ];
 
 /** Screens reachable by everyone who is signed in, outside the main menu. */

@@ -39,6 +39,7 @@ export function createAppRouter() {
         { path: 'admin/audit', lazy: () => import('./routes/admin/audit') },
         { path: 'admin/mail', lazy: () => import('./routes/admin/mail') },
         { path: 'admin/mail/:messageId', lazy: () => import('./routes/admin/mail-message') },
+        { path: 'admin/outbox', lazy: () => import('./routes/admin/outbox') },
         { path: '*', lazy: () => import('./routes/not-found') },
       ],
     },
