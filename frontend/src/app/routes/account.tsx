@@ -1,6 +1,9 @@
 import type { LoaderFunctionArgs } from 'react-router-dom';
 import { ROLE_LABELS } from '@common/api/roles';
+import { queryClient } from '@/lib/query-client';
 import { ChangePasswordForm } from '@/features/auth/components/change-password-form';
+import { subscriptionQueries } from '@/features/alerts/api/subscriptions-api';
+import { AlertSubscriptions } from '@/features/alerts/components/alert-subscriptions';
 import { Card, CardBody, CardHeader } from '@/components/ui/card';
 import { PageHeader } from '@/components/ui/page-header';
 import { useMe } from '../hooks/use-current-site';
@@ -8,6 +11,7 @@ import { requireMe } from '../route-guards';
 
 export async function loader({ request }: LoaderFunctionArgs) {
   await requireMe(request);
+  void queryClient.ensureQueryData(subscriptionQueries.mine()).catch(() => undefined);
   return null;
 }
 
@@ -15,7 +19,7 @@ export function Component() {
   const me = useMe();
   return (
     <div className="max-w-3xl">
-      <PageHeader title="Account" description="Your details and your password." />
+      <PageHeader title="Account" description="Your details, your e-mail alerts and your password." />
       <div className="flex flex-col gap-5">
         <Card>
           <CardHeader title="You" />
@@ -32,6 +36,12 @@ export function Component() {
               <dt className="font-bold text-fg-muted">Sites</dt>
               <dd>{me.sites.length ? me.sites.map((s) => s.name).join(', ') : 'None granted yet'}</dd>
             </dl>
+          </CardBody>
+        </Card>
+        <Card>
+          <CardHeader title="Alerts by e-mail" description="Hear when a source at a site runs low, at once or in one daily e-mail." />
+          <CardBody>
+            <AlertSubscriptions sites={me.sites.map((s) => ({ id: s.id, name: s.name }))} />
           </CardBody>
         </Card>
         <Card>
