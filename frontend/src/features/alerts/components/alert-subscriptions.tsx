@@ -20,7 +20,7 @@ const MODE_TEXT: Record<SubscriptionInput['mode'], { label: string; hint: string
   immediate: { label: 'At once', hint: 'one e-mail for each change, as it happens' },
   digest: { label: 'Daily digest', hint: 'one e-mail a day gathering the changes' },
 };
-/** A new subscription's alert level: about the usual lead time plus a margin (common practice). */
+/** A starting alert level for a new subscription; the person sets their own before saving. */
 const DEFAULT_POLICY_DAYS = 3;
 
 function daysText(d: number): string {
