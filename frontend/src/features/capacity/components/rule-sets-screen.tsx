@@ -234,7 +234,8 @@ function RuleSetView({ set, basedOnName, canEdit, onCopy, onDeleted }: { set: Ru
               {gasLabel(gas)}
             </h3>
             {rules!.note && <p className="mb-2 text-xs text-fg-muted">{rules!.note}</p>}
-            <div className="overflow-x-auto">
+            {/* scrolls sideways on a phone: focusable, so the keyboard can scroll it too */}
+            <div className="overflow-x-auto" tabIndex={0} role="region" aria-labelledby={`rules-${gas}`}>
               <table className="w-full min-w-[44rem] text-sm">
                 <thead>
                   <tr className="border-b border-line text-left text-xs text-fg-muted uppercase">

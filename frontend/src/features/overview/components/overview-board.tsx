@@ -94,7 +94,7 @@ export function OverviewBoard() {
 
       <ul className="grid grid-cols-2 gap-2 sm:grid-cols-4" aria-label="Sources by status">
         {(Object.keys(SUPPLY_STATUS) as SupplyStatus[]).map((st) => (
-          <li key={st} className={cn('flex items-center justify-between gap-2 rounded-lg border px-3 py-2', TILE[st], counts[st] === 0 && 'opacity-60')}>
+          <li key={st} className={cn('flex items-center justify-between gap-2 rounded-lg border px-3 py-2', counts[st] === 0 ? 'border-line bg-surface-sunken text-fg-muted' : TILE[st])}>
             <span className="font-bold">{SUPPLY_STATUS[st].label}</span>
             <span className="text-2xl font-black tabular">{counts[st]}</span>
           </li>

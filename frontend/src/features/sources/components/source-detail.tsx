@@ -63,7 +63,7 @@ export function SourceDetailScreen({
   return (
     <div className="flex flex-col gap-5">
       <nav aria-label="Breadcrumb" className="-mb-3 text-sm">
-        <Link to="/" className="text-primary underline-offset-2 hover:underline">
+        <Link to="/" className="text-primary underline underline-offset-2">
           Today
         </Link>
         <span className="px-1 text-fg-muted">/</span>
