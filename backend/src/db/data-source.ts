@@ -9,7 +9,7 @@ import { migrations } from './migrations';
 type IsolationLevel = Parameters<DataSource['transaction']>[0];
 
 const RETRYABLE_LOCK_ERRORS = new Set(['ER_LOCK_DEADLOCK', 'ER_LOCK_WAIT_TIMEOUT']);
-const TRANSACTION_ATTEMPTS = 5;
+const TRANSACTION_ATTEMPTS = 8;
 
 function lockErrorCode(e: unknown): string | undefined {
   const x = e as { code?: string; driverError?: { code?: string } };
@@ -31,7 +31,8 @@ export class RetryingDataSource extends DataSource {
         return typeof a === 'function' ? await super.transaction(a) : await super.transaction(a, b!);
       } catch (e) {
         if (attempt >= TRANSACTION_ATTEMPTS || !RETRYABLE_LOCK_ERRORS.has(lockErrorCode(e) ?? '')) throw e;
-        await new Promise((r) => setTimeout(r, 5 * attempt + Math.random() * 25 * attempt));
+        // Exponential back-off with full jitter, so the victims of one deadlock do not meet again at once.
+        await new Promise((r) => setTimeout(r, Math.random() * Math.min(1_000, 10 * 2 ** attempt)));
       }
     }
   }
