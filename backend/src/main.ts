@@ -6,7 +6,7 @@ import { createDataSource } from './db/data-source';
 import { setDb } from './db/db';
 import { createApp } from './app';
 import { logger } from './logger';
-import { startImportWorker } from './modules/imports/import-runner';
+import { startImportWorkerProcess } from './modules/imports/import-worker-process';
 import { startReminderJob } from './modules/usage/usage-reminder';
 import { closeBulkPool } from './db/bulk-pool';
 import { startOrderJobs, type OrderJobs } from './modules/orders/order-jobs';
@@ -32,7 +32,7 @@ const server: Server = app.listen(e.PORT, e.HOST, (err?: Error) => {
 const jobs: OrderJobs | undefined = e.JOBS_ENABLED ? startOrderJobs() : undefined;
 
 // Background work of uploads and usage reports (outside createApp, so tests start their own).
-const stopImportWorker = startImportWorker();
+const stopImportWorker = startImportWorkerProcess();
 const stopReminders = startReminderJob();
 
 let stopping = false;

@@ -115,21 +115,54 @@ export function sniffSeparator(line: string): ',' | ';' {
 }
 
 /**
- * The data records of a file, streamed (csv-parse, back-pressured by the consumer), each with its line
- * number as a spreadsheet shows it (the header is line 1). Empty lines are passed through as `[""]` so
- * the numbering stays true; a quoted cell spanning lines shifts later numbers (rare in these exports).
+ * The data records of a file, streamed (csv-parse, back-pressured by the consumer) in chunks of the
+ * records parsed so far — one await per chunk rather than per record keeps the loop cheap — each
+ * record with its line number as a spreadsheet shows it (the header is line 1). Empty lines are passed
+ * through as `[""]` so the numbering stays true; a quoted cell spanning lines shifts later numbers
+ * (rare in these exports).
  */
-export async function* readCsvRecords(path: string, separator: ',' | ';'): AsyncGenerator<{ line: number; record: string[] }> {
+export async function* readCsvChunks(path: string, separator: ',' | ';'): AsyncGenerator<{ firstLine: number; records: string[][] }> {
   const parser = createReadStream(path, { highWaterMark: 1 << 20 }).pipe(parseStream({ delimiter: separator, bom: true, relax_column_count: true, relax_quotes: true, skip_empty_lines: false, from_line: 2 }));
-  let line = 1;
+  let line = 2;
+  let failure: Error | null = null;
+  let ended = false;
+  let wake: (() => void) | null = null;
+  parser.on('readable', () => wake?.());
+  parser.on('end', () => {
+    ended = true;
+    wake?.();
+  });
+  parser.on('error', (e: Error) => {
+    failure = e;
+    wake?.();
+  });
   try {
-    for await (const record of parser as AsyncIterable<string[]>) {
-      line++;
-      yield { line, record };
+    for (;;) {
+      const records: string[][] = [];
+      let r: string[] | null;
+      while (records.length < 4096 && (r = parser.read() as string[] | null) !== null) records.push(r);
+      if (records.length) {
+        yield { firstLine: line, records };
+        line += records.length;
+        continue;
+      }
+      if (failure) throw failure;
+      if (ended) return;
+      await new Promise<void>((resolve) => {
+        wake = resolve;
+      });
+      wake = null;
     }
   } catch (e) {
-    throw badRequest(`The file cannot be read as CSV near line ${line + 1}: ${(e as Error).message}`, [{ path: 'file', message: `not CSV at line ${line + 1}` }]);
+    throw badRequest(`The file cannot be read as CSV near line ${line}: ${(e as Error).message}`, [{ path: 'file', message: `not CSV at line ${line}` }]);
   } finally {
     parser.destroy();
+  }
+}
+
+/** Record by record (for callers that do not need the speed of chunks). */
+export async function* readCsvRecords(path: string, separator: ',' | ';'): AsyncGenerator<{ line: number; record: string[] }> {
+  for await (const { firstLine, records } of readCsvChunks(path, separator)) {
+    for (let i = 0; i < records.length; i++) yield { line: firstLine + i, record: records[i] };
   }
 }

@@ -13,9 +13,9 @@ import { CylinderType } from '../../db/entities/catalogue.entity';
 import { SupplySource, Ward } from '../../db/entities/supply.entity';
 import { ImportFile, ImportJob } from '../../db/entities/usage.entity';
 import { User } from '../../db/entities/user.entity';
-import { readCsvRecords } from './csv-file';
-import { createRowParser, INSERT_SQL, isBlankRecord, type ParsedRow, type RowContext, type RowParser } from './import-rows';
-import { KeyLineMap } from './key-set';
+import { readCsvChunks } from './csv-file';
+import { batchStatement, createRowParser, INSERT_TARGET, isBlankRecord, type ParsedRow, type RowContext, type RowParser } from './import-rows';
+import { SlotTracker } from './key-set';
 import type { JobOptions, JobPreview } from './import.service';
 
 /**
@@ -195,30 +195,34 @@ export async function validateJob(job: ImportJob, workerId: string, signal: { st
     errorCount++;
     if (errors.length < ERRORS_KEPT) errors.push(e);
   };
-  const keys = new KeyLineMap();
+  const keys = new SlotTracker();
   const ranges = new Map<number, { min: number; max: number; rows: number }>();
   const preview: Record<string, unknown>[] = [];
   let rows = 0;
   let last = Date.now();
   try {
-    for await (const { line, record } of readCsvRecords(l.file.storagePath!, ctx.separator)) {
-      if (isBlankRecord(record)) continue;
-      rows++;
-      const r = parse(record, line, onError);
-      if (r) {
-        const first = keys.addOrGet(r.dupKey, line);
-        if (first) onError({ row: line, column: timeLabel(ctx.kind), value: ctx.kind === 'historic_usage' ? String(r.values[3]) : localText(r.atMs, ctx.site.timeZone), reason: `repeats row ${first} (same ${slotWord(ctx.kind)})` });
-        else {
-          const g = ranges.get(r.targetId);
-          if (g) {
-            if (r.atMs < g.min) g.min = r.atMs;
-            if (r.atMs > g.max) g.max = r.atMs;
-            g.rows++;
-          } else ranges.set(r.targetId, { min: r.atMs, max: r.atMs, rows: 1 });
-          if (preview.length < PREVIEW_ROWS) preview.push(previewOf(l, line, r));
+    for await (const { firstLine, records } of readCsvChunks(l.file.storagePath!, ctx.separator)) {
+      for (let k = 0; k < records.length; k++) {
+        const record = records[k];
+        if (isBlankRecord(record)) continue;
+        const line = firstLine + k;
+        rows++;
+        const r = parse(record, line, onError);
+        if (!r) continue;
+        const first = keys.add(parse.groupOf(r.targetId, ctx.kind === 'historic_usage' ? String(r.values[2]) : undefined), r.atMs, r.dupKey, line);
+        if (first) {
+          onError({ row: line, column: timeLabel(ctx.kind), value: ctx.kind === 'historic_usage' ? String(r.values[3]) : localText(r.atMs, ctx.site.timeZone), reason: `repeats row ${first} (same ${slotWord(ctx.kind)})` });
+          continue;
         }
+        const g = ranges.get(r.targetId);
+        if (g) {
+          if (r.atMs < g.min) g.min = r.atMs;
+          if (r.atMs > g.max) g.max = r.atMs;
+          g.rows++;
+        } else ranges.set(r.targetId, { min: r.atMs, max: r.atMs, rows: 1 });
+        if (preview.length < PREVIEW_ROWS) preview.push(previewOf(l, line, r));
       }
-      if ((rows & 511) === 0 && Date.now() - last > TICK_MS) {
+      if (Date.now() - last > TICK_MS) {
         last = Date.now();
         await tick(job.id, workerId, rows, signal, false);
       }
@@ -235,6 +239,8 @@ export async function validateJob(job: ImportJob, workerId: string, signal: { st
     throw e;
   }
   if (rows === 0) onError({ row: 2, column: '', value: '', reason: 'the file has a header but no data rows' });
+  const table = INSERT_TARGET[ctx.kind].table;
+  const [{ top }] = (await db().query(`SELECT COALESCE(MAX(id), 0) AS top FROM ${table}`)) as { top: string | number }[];
   if (errors.length < ERRORS_KEPT && ranges.size) await checkStored(l, keys, ranges, onError);
   const firstAt = ranges.size ? Math.min(...[...ranges.values()].map((g) => g.min)) : null;
   const lastAt = ranges.size ? Math.max(...[...ranges.values()].map((g) => g.max)) : null;
@@ -243,6 +249,7 @@ export async function validateJob(job: ImportJob, workerId: string, signal: { st
     firstAt: firstAt === null ? null : new Date(firstAt).toISOString(),
     lastAt: lastAt === null ? null : new Date(lastAt).toISOString(),
     targets: [...ranges.entries()].map(([id, g]) => ({ id, name: l.names.get(id) ?? String(id), rows: g.rows })),
+    checkedUpToId: Number(top),
   };
   const partial = keys.full ? ' (the file is too long to check every pair of rows for repeats here; the import checks them again)' : '';
   await finish(job.id, workerId, 'validating', {
@@ -259,7 +266,7 @@ export async function validateJob(job: ImportJob, workerId: string, signal: { st
 }
 
 /** Rows whose slot (target and time, or ward, gas and day) is stored already: found by streaming the stored keys. */
-async function checkStored(l: Loaded, keys: KeyLineMap, ranges: Map<number, { min: number; max: number }>, onError: (e: ImportRowError) => void): Promise<void> {
+async function checkStored(l: Loaded, keys: SlotTracker, ranges: Map<number, { min: number; max: number }>, onError: (e: ImportRowError) => void): Promise<void> {
   const { ctx, parse } = l;
   const conn = await bulkPool().getConnection();
   try {
@@ -281,7 +288,7 @@ async function checkStored(l: Loaded, keys: KeyLineMap, ranges: Map<number, { mi
       const stream = conn.queryStream(sql, params);
       for await (const row of stream as AsyncIterable<{ t?: Date; d?: string; g?: string }>) {
         const at = row.t ? row.t.getTime() : Date.UTC(+row.d!.slice(0, 4), +row.d!.slice(5, 7) - 1, +row.d!.slice(8, 10));
-        const line = keys.get(parse.keyOf(targetId, at, row.g));
+        const line = keys.lineOf(parse.groupOf(targetId, row.g), at, parse.keyOf(targetId, at, row.g));
         if (line) onError({ row: line, column: timeLabel(ctx.kind), value: row.d ?? localText(at, ctx.site.timeZone), reason: ctx.kind === 'historic_usage' ? 'usage for this ward, gas and day is stored already' : 'a reading at this time is stored already (imported before?)' });
       }
     }
@@ -306,7 +313,6 @@ export async function importJob(job: ImportJob, workerId: string, signal: { stop
     throw e;
   }
   const { ctx, parse } = l;
-  const sql = INSERT_SQL[ctx.kind];
   const conn: PoolConnection = await bulkPool().getConnection();
   let rows = 0;
   let inserted = 0;
@@ -315,40 +321,56 @@ export async function importJob(job: ImportJob, workerId: string, signal: { stop
   const onError = (e: ImportRowError) => {
     if (rowErrors.length < 20) rowErrors.push(e);
   };
+  // One batch travels to the server while the next is parsed: on two cores, parsing and the server's
+  // inserts overlap instead of taking turns.
+  let inflight: Promise<void> | null = null;
+  const send = async (rowsOut: unknown[][]) => {
+    if (inflight) await inflight;
+    const st = batchStatement(ctx.kind, rowsOut, (v) => conn.escape(v));
+    const p = conn.batch({ sql: st.sql, fullResult: false } as { sql: string }, st.params).then(() => {
+      inserted += rowsOut.length;
+    });
+    p.catch(() => undefined); // awaited below; this only keeps an early exit from leaving it unhandled
+    inflight = p;
+  };
+  const checked = job.previewJson ? (JSON.parse(job.previewJson) as JobPreview) : null;
+  let recheck = true;
   try {
     await conn.beginTransaction();
+    recheck = await lockTargets(conn, ctx, checked);
     let batch: unknown[][] = [];
     let last = Date.now();
-    for await (const { line, record } of readCsvRecords(l.file.storagePath!, ctx.separator)) {
-      if (isBlankRecord(record)) continue;
-      rows++;
-      const r = parse(record, line, onError);
-      if (!r) {
-        const first = rowErrors[0];
-        throw new RowFailure(rowErrors, first ? `Row ${first.row}, ${first.column}: ${first.reason}` : `Row ${line} cannot be imported`);
-      }
-      batch.push(r.values);
-      const g = ranges.get(r.targetId);
-      if (g) {
-        if (r.atMs < g.min) g.min = r.atMs;
-        if (r.atMs > g.max) g.max = r.atMs;
-      } else ranges.set(r.targetId, { min: r.atMs, max: r.atMs });
-      if (batch.length >= batchRows) {
-        await conn.batch(sql, batch);
-        inserted += batch.length;
-        batch = [];
-        if (Date.now() - last > TICK_MS) {
-          last = Date.now();
-          await tick(job.id, workerId, rows, signal, true);
+    for await (const { firstLine, records } of readCsvChunks(l.file.storagePath!, ctx.separator)) {
+      for (let k = 0; k < records.length; k++) {
+        const record = records[k];
+        if (isBlankRecord(record)) continue;
+        const line = firstLine + k;
+        rows++;
+        const r = parse(record, line, onError);
+        if (!r) {
+          const first = rowErrors[0];
+          throw new RowFailure(rowErrors, first ? `Row ${first.row}, ${first.column}: ${first.reason}` : `Row ${line} cannot be imported`);
+        }
+        batch.push(r.values);
+        const g = ranges.get(r.targetId);
+        if (g) {
+          if (r.atMs < g.min) g.min = r.atMs;
+          if (r.atMs > g.max) g.max = r.atMs;
+        } else ranges.set(r.targetId, { min: r.atMs, max: r.atMs });
+        if (batch.length >= batchRows) {
+          await send(batch);
+          batch = [];
         }
       }
+      if (Date.now() - last > TICK_MS) {
+        last = Date.now();
+        await tick(job.id, workerId, rows, signal, true);
+      }
     }
-    if (batch.length) {
-      await conn.batch(sql, batch);
-      inserted += batch.length;
-    }
+    if (batch.length) await send(batch);
+    if (inflight) await inflight;
     await tick(job.id, workerId, rows, signal, true);
-    await checkNoRepeats(conn, ctx.kind, ranges, ctx);
+    if (recheck) await checkNoRepeats(conn, ctx.kind, ranges, ctx);
     const who = job.committedByUserId ? await db().getRepository(User).findOne({ select: { id: true, email: true }, where: { id: job.committedByUserId } }) : null;
     await conn.query('INSERT INTO audit_log (organisation_id, user_id, user_email, action, entity, entity_id, after_json) VALUES (?, ?, ?, ?, ?, ?, ?)', [
       job.organisationId,
@@ -365,6 +387,7 @@ export async function importJob(job: ImportJob, workerId: string, signal: { stop
     await finish(job.id, workerId, 'running', { status: 'done', insertedRows: inserted, processedRows: rows, finishedAt: new Date(), message: `${inserted.toLocaleString('en-GB')} rows imported.` });
     await removeFile(l.file);
   } catch (e) {
+    if (inflight) await (inflight as Promise<void>).catch(() => undefined);
     await conn.rollback().catch(() => undefined);
     if (e instanceof Stop) {
       if (e.why === 'cancelled') {
@@ -389,6 +412,25 @@ export async function importJob(job: ImportJob, workerId: string, signal: { stop
   } finally {
     conn.release();
   }
+}
+
+/**
+ * Locks the rows of the targets (tank, store, meter's ward or source) for the import's transaction, so
+ * two imports into one target run one after the other, and tells whether rows reached a target after
+ * the check compared with stored rows (then the import looks for repeats again once its rows are in;
+ * otherwise the check's answer still holds and the scan over a million rows is skipped).
+ */
+async function lockTargets(conn: PoolConnection, ctx: RowContext, checked: JobPreview | null): Promise<boolean> {
+  if (ctx.kind === 'historic_usage') return false; // a unique key refuses repeats on insert
+  const ids = checked?.targets.map((t) => t.id) ?? [];
+  if (!ids.length || checked?.checkedUpToId === undefined) return true;
+  const place = ids.map(() => '?').join(',');
+  const meterOnWard = ctx.kind === 'flow_meter_totals' && ctx.defaultWard !== null && !('type' in ctx.defaultWard);
+  await conn.query(`SELECT id FROM ${meterOnWard ? 'ward' : 'supply_source'} WHERE id IN (${place}) FOR UPDATE`, ids);
+  const table = INSERT_TARGET[ctx.kind].table;
+  const col = meterOnWard ? 'ward_id' : 'source_id';
+  const later: unknown[] = await conn.query(`SELECT 1 FROM ${table} WHERE id > ? AND ${col} IN (${place}) LIMIT 1`, [checked.checkedUpToId, ...ids]);
+  return later.length > 0;
 }
 
 /** Inside the import's transaction: no target may now hold two rows for one slot (stored before or just added). */
@@ -418,10 +460,17 @@ async function removeFile(file: ImportFile): Promise<void> {
 // ---------- the worker ----------
 
 let wakeUp: (() => void) | null = null;
+let remoteWake: (() => void) | null = null;
 
-/** Makes a sleeping worker of this process look for work now (after an upload or a commit). */
+/** Makes a sleeping worker (of this process, or the worker process) look for work now (after an upload or a commit). */
 export function wakeImportWorker(): void {
   wakeUp?.();
+  remoteWake?.();
+}
+
+/** How to wake the worker process (main.ts registers it; null when it is not running). */
+export function setRemoteWake(fn: (() => void) | null): void {
+  remoteWake = fn;
 }
 
 /** Jobs whose worker stopped answering: an import is queued again (its transaction died with it), a check is released. */

@@ -33,6 +33,8 @@ export interface JobPreview {
   firstAt: string | null;
   lastAt: string | null;
   targets: { id: number; name: string; rows: number }[];
+  /** Highest row id of the target table when the check compared with stored rows: later rows were not compared. */
+  checkedUpToId?: number;
 }
 
 const SOURCE_TYPES_FOR: Partial<Record<ImportKind, string[]>> = {
