@@ -6,6 +6,7 @@ import { createDataSource } from './db/data-source';
 import { setDb } from './db/db';
 import { createApp } from './app';
 import { logger } from './logger';
+import { seedDemo } from './db/seed/seed-demo';
 import { startImportWorkerProcess } from './modules/imports/import-worker-process';
 import { startReminderJob } from './modules/usage/usage-reminder';
 import { closeBulkPool } from './db/bulk-pool';
@@ -16,6 +17,13 @@ logger.setLevel(e.LOG_LEVEL);
 const ds = createDataSource();
 await ds.initialize();
 setDb(ds);
+if (e.PREPARE_ON_START !== 'none') {
+  for (const m of await ds.runMigrations({ transaction: 'each' })) logger.info(`migration ran: ${m.name}`);
+  if (e.PREPARE_ON_START === 'migrate-and-seed') {
+    if (e.NODE_ENV === 'production') logger.info('Production: no demo data and no demo sign-ins are created.');
+    else logger.info((await seedDemo(ds)) ? 'Demo organisation created.' : 'Demo organisation exists already; left as it is.');
+  }
+}
 const pending = await ds.showMigrations();
 if (pending) {
   logger.error('The database has migrations that have not run: run scripts/migrate (scripts/start does it)');

@@ -55,6 +55,12 @@ const envSchema = z.object({
   /** How many days back a ward lead may file a missing report. */
   REPORT_BACKFILL_DAYS: z.coerce.number().int().min(0).max(31).default(3),
   /** Background jobs of this process (outbox worker, reorder scan, alerts); tests start them by hand. */
+  /**
+   * What the app process does to its database before it listens: nothing (production: run the migrations
+   * as a release step), run the migrations, or run them and load the demo organisation once (scripts/start;
+   * refused in production). Doing it in this process spares two process starts.
+   */
+  PREPARE_ON_START: z.enum(['none', 'migrate', 'migrate-and-seed']).default('none'),
   JOBS_ENABLED: z
     .enum(['true', 'false'])
     .default('true')
