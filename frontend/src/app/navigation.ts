@@ -29,8 +29,11 @@ const EVERYONE = ROLES;
 export const NAV_ITEMS: readonly NavItem[] = [
   { path: '/', label: 'Today', icon: 'today', roles: EVERYONE, section: 'work', end: true },
   { path: '/cylinder-check', label: 'Cylinder check', icon: 'cylinder', roles: EVERYONE, section: 'work' },
+  { path: '/report', label: 'Report', icon: 'clipboard', roles: ['ward_lead', 'facilities_manager'], section: 'work' },
   { path: '/sources', label: 'Sources', icon: 'tank', roles: ['facilities_manager', 'biomedical_engineer', 'administrator'], section: 'work' },
   { path: '/wards', label: 'Wards', icon: 'bed', roles: ['facilities_manager', 'ward_lead'], section: 'work' },
+  { path: '/uploads', label: 'Uploads', icon: 'upload', roles: ['facilities_manager'], section: 'work' },
+  { path: '/reconciliation', label: 'Measured use', icon: 'chart', roles: ['facilities_manager', 'biomedical_engineer'], section: 'work' },
   { path: '/capacity', label: 'Capacity', icon: 'sites', roles: ['biomedical_engineer', 'facilities_manager', 'administrator'], section: 'work' },
   { path: '/orders', label: 'Orders', icon: 'supplier', roles: ['purchasing_officer', 'facilities_manager', 'administrator'], section: 'work' },
   { path: '/admin/cylinder-types', label: 'Cylinder types', icon: 'catalogue', roles: ['administrator', 'facilities_manager', 'biomedical_engineer', 'purchasing_officer'], section: 'catalogue' },

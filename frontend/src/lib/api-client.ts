@@ -102,14 +102,16 @@ async function readError(res: Response): Promise<ApiError> {
 
 async function send(method: Method, path: string, options: RequestOptions): Promise<Response> {
   const headers: Record<string, string> = { Accept: 'application/json' };
-  if (options.body !== undefined) headers['Content-Type'] = 'application/json';
+  // A FormData body (a file upload) goes as multipart: the browser writes its Content-Type and boundary.
+  const isForm = typeof FormData !== 'undefined' && options.body instanceof FormData;
+  if (options.body !== undefined && !isForm) headers['Content-Type'] = 'application/json';
   if (method !== 'GET' && !options.skipCsrf) headers[CSRF_HEADER] = await getCsrfToken();
   try {
     return await fetch(apiUrl(path, options.query), {
       method,
       headers,
       credentials: 'same-origin',
-      body: options.body === undefined ? undefined : JSON.stringify(options.body),
+      body: options.body === undefined ? undefined : isForm ? (options.body as FormData) : JSON.stringify(options.body),
       signal: options.signal,
     });
   } catch (e) {
@@ -144,6 +146,8 @@ export const api = {
   put: <T>(path: string, body: unknown, options?: RequestOptions) => request<T>('PUT', path, { ...options, body }),
   patch: <T>(path: string, body: unknown, options?: RequestOptions) => request<T>('PATCH', path, { ...options, body }),
   delete: <T>(path: string, options?: RequestOptions) => request<T>('DELETE', path, options),
+  /** A multipart POST (a file and its form fields). */
+  upload: <T>(path: string, form: FormData, options?: Omit<RequestOptions, 'body'>) => request<T>('POST', path, { ...options, body: form }),
 };
 
 /** A message fit for people, whatever was thrown. */

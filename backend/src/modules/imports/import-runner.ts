@@ -112,7 +112,9 @@ async function load(job: ImportJob, now = Date.now()): Promise<Loaded> {
     jobId: job.id,
     now,
   };
-  const names = new Map<number, string>([...sources.map((s) => [s.id, s.name] as [number, string]), ...wards.map((w) => [w.id, w.name] as [number, string])]);
+  // Targets are wards (daily usage, a meter on a ward) or sources: ids of the two tables overlap, so one map per upload.
+  const byWard = kind === 'historic_usage' || (kind === 'flow_meter_totals' && chosenWard !== null);
+  const names = new Map<number, string>(byWard ? wards.map((w) => [w.id, w.name] as [number, string]) : sources.map((s) => [s.id, s.name] as [number, string]));
   return { job, file, options, ctx, parse: createRowParser(ctx), names };
 }
 

@@ -1,0 +1,133 @@
+import { queryOptions, useMutation, useQueryClient } from '@tanstack/react-query';
+import type { ExportTable, ImportColumn, ImportKind, ImportRemap, ImportRowError, ImportStatus } from '@common/schemas/usage.schema';
+import { api, apiUrl } from '@/lib/api-client';
+
+export interface ImportJob {
+  id: number;
+  siteId: number;
+  kind: ImportKind;
+  kindLabel: string;
+  status: ImportStatus;
+  phase: 'check' | 'import' | null;
+  file: { name: string; sizeBytes: number; sha256: string; lines: number } | null;
+  options: { sourceId: number | null; wardId: number | null; unit: string | null; headerUnit: string | null; dateOrder: 'ymd' | 'dmy' | 'mdy'; separator: ',' | ';' };
+  mapping: Record<string, string>;
+  columns: ImportColumn[];
+  header: string[];
+  sample: string[][];
+  totalRows: number | null;
+  processedRows: number;
+  insertedRows: number;
+  progress: number;
+  errorCount: number;
+  errors: ImportRowError[];
+  preview: { rows: { row: number; time: string; target?: string; reading: string; contents: string | null }[]; firstAt: string | null; lastAt: string | null; targets: { id: number; name: string; rows: number }[] } | null;
+  message: string;
+  cancelRequested: boolean;
+  canCommit: boolean;
+  canCancel: boolean;
+  canRemap: boolean;
+  createdAt: string;
+  startedAt: string | null;
+  finishedAt: string | null;
+}
+
+export interface ImportKinds {
+  maxMb: number;
+  kinds: { kind: ImportKind; label: string; columns: ImportColumn[] }[];
+}
+
+/** The targets an upload can go to (the site's sources and wards, as this screen needs them). */
+export interface TargetSource {
+  id: number;
+  name: string;
+  type: string;
+  gasCode: string;
+  calibrationUnit: string | null;
+}
+export interface TargetWard {
+  id: number;
+  name: string;
+}
+
+/** A job that the worker is still busy with: its screen polls. */
+export function isBusy(status: ImportStatus | undefined): boolean {
+  return status === 'validating' || status === 'queued' || status === 'running';
+}
+
+export const importsQueries = {
+  all: () => ['imports'] as const,
+  /** What can be uploaded: fixed by the server's release, fresh for an hour. */
+  kinds: () => queryOptions({ queryKey: [...importsQueries.all(), 'kinds'] as const, queryFn: ({ signal }) => api.get<ImportKinds>('/import-kinds', { signal }), staleTime: 3_600_000 }),
+  /** The site's uploads: polled every 2 s while one of them is being checked or imported. */
+  list: (siteId: number) =>
+    queryOptions({
+      queryKey: [...importsQueries.all(), 'site', siteId] as const,
+      queryFn: ({ signal }) => api.get<ImportJob[]>(`/sites/${siteId}/imports`, { signal }),
+      staleTime: 5_000,
+      refetchInterval: (q) => (q.state.data?.some((j) => isBusy(j.status)) ? 2_000 : false),
+    }),
+  /** One upload: polled every second while the worker has it, so the bar moves (and survives a reload). */
+  job: (id: number) =>
+    queryOptions({
+      queryKey: [...importsQueries.all(), 'job', id] as const,
+      queryFn: ({ signal }) => api.get<ImportJob>(`/imports/${id}`, { signal }),
+      staleTime: 1_000,
+      refetchInterval: (q) => (isBusy(q.state.data?.status) ? 1_000 : false),
+    }),
+  /** Targets change when a facilities manager edits sources or wards: fresh for a minute. */
+  sources: (siteId: number) => queryOptions({ queryKey: [...importsQueries.all(), 'sources', siteId] as const, queryFn: ({ signal }) => api.get<TargetSource[]>(`/sites/${siteId}/sources`, { signal }), staleTime: 60_000 }),
+  wards: (siteId: number) => queryOptions({ queryKey: [...importsQueries.all(), 'wards', siteId] as const, queryFn: ({ signal }) => api.get<TargetWard[]>(`/sites/${siteId}/wards`, { signal }), staleTime: 60_000 }),
+};
+
+export interface UploadInput {
+  file: File;
+  kind: ImportKind;
+  sourceId?: number;
+  wardId?: number;
+  unit?: string;
+  dateOrder: 'ymd' | 'dmy' | 'mdy';
+  confirmDuplicate?: boolean;
+}
+
+export function useUpload(siteId: number) {
+  const qc = useQueryClient();
+  return useMutation({
+    mutationFn: (u: UploadInput) => {
+      const form = new FormData();
+      form.append('kind', u.kind);
+      if (u.sourceId) form.append('sourceId', String(u.sourceId));
+      if (u.wardId) form.append('wardId', String(u.wardId));
+      if (u.unit) form.append('unit', u.unit);
+      form.append('dateOrder', u.dateOrder);
+      if (u.confirmDuplicate) form.append('confirmDuplicate', 'true');
+      form.append('file', u.file, u.file.name);
+      return api.upload<ImportJob>(`/sites/${siteId}/imports`, form);
+    },
+    meta: { formHandlesErrors: true },
+    onSuccess: (job) => {
+      qc.setQueryData(importsQueries.job(job.id).queryKey, job);
+      return qc.invalidateQueries({ queryKey: [...importsQueries.all(), 'site', siteId] });
+    },
+  });
+}
+
+function useJobMutation<V>(fn: (v: V) => Promise<ImportJob>) {
+  const qc = useQueryClient();
+  return useMutation({
+    mutationFn: fn,
+    meta: { formHandlesErrors: true },
+    onSuccess: (job) => {
+      qc.setQueryData(importsQueries.job(job.id).queryKey, job);
+      return qc.invalidateQueries({ queryKey: [...importsQueries.all(), 'site', job.siteId] });
+    },
+  });
+}
+
+export const useRemap = (id: number) => useJobMutation((body: ImportRemap) => api.put<ImportJob>(`/imports/${id}/mapping`, body));
+export const useCommit = (id: number) => useJobMutation((confirmDuplicate: boolean) => api.post<ImportJob>(`/imports/${id}/commit`, { confirmDuplicate }));
+export const useCancel = (id: number) => useJobMutation(() => api.post<ImportJob>(`/imports/${id}/cancel`, {}));
+
+export const templateUrl = (siteId: number, kind: ImportKind) => apiUrl(`/sites/${siteId}/import-template`, { kind });
+export const exportUrl = (siteId: number, table: ExportTable) => apiUrl(`/sites/${siteId}/export`, { table });
+export const errorsUrl = (id: number) => apiUrl(`/imports/${id}/errors.csv`);
