@@ -5,8 +5,7 @@ import { DEMO_EMAIL, DEMO_PASSWORD, type DemoUser } from './screens';
 
 /**
  * Keyboard-only journeys: no mouse, only Tab, typing and Enter. Every element that takes the focus on
- * the way shows where the focus is (WCAG 2.4.7). Filing a ward's usage report has no screen yet; when it
- * has one, its journey belongs here too.
+ * the way shows where the focus is (WCAG 2.4.7).
  */
 const baseUrl = inject('baseUrl');
 let browser: Browser;
@@ -114,6 +113,37 @@ describe('keyboard only', () => {
 
     const after = await (await context.request.get(`${baseUrl}/api/requests/${requestId}`)).json();
     expect(after.approvals.length).toBeGreaterThanOrEqual(1);
+    expect(errors).toEqual([]);
+    await context.close();
+  });
+
+  it('a ward lead files the day’s usage report from the menu, changing a count with the keyboard', async () => {
+    const context = await browser.newContext({ viewport: DESKTOP });
+    const page = await context.newPage();
+    const errors = watchErrors(page);
+    await signInByKeyboard(page, 'ward');
+    await page.getByRole('heading', { name: 'Today', exact: true }).waitFor({ timeout: 20_000 });
+    await tabTo(page, (f) => f.href === '/report', 'Report in the menu', 120);
+    await page.keyboard.press('Enter');
+    await page.getByRole('heading', { name: 'Daily report' }).waitFor({ timeout: 20_000 });
+    await page.waitForLoadState('networkidle');
+    const ward = await page.getByLabel('Ward', { exact: true }).evaluate((el) => (el as HTMLSelectElement).selectedOptions[0].textContent ?? '');
+    const before = Number(await page.getByLabel('Now', { exact: true }).first().inputValue());
+    await tabTo(page, (f) => f.tag === 'button' && f.label === 'Now: one more', 'the first “one more” button', 120);
+    await page.keyboard.press('Enter');
+    await tabTo(page, (f) => f.tag === 'button' && /^File the report/.test(f.label), 'the File button', 200);
+    await screenshot(page, 'keyboard-report-file-focused-desktop');
+    await page.keyboard.press('Enter');
+    await page.getByRole('status').filter({ hasText: 'Report filed' }).waitFor({ timeout: 20_000 });
+    await screenshot(page, 'keyboard-report-filed-desktop');
+
+    // The report holds the changed count, and the ward is filed for today.
+    const me = await (await context.request.get(`${baseUrl}/api/auth/me`)).json();
+    const status = await (await context.request.get(`${baseUrl}/api/sites/${me.sites[0].id}/usage-status`)).json();
+    const row = status.wards.find((w: { name: string }) => ward.startsWith(w.name));
+    expect(row?.reportId, JSON.stringify(status.wards)).toBeTruthy();
+    const report = await (await context.request.get(`${baseUrl}/api/usage-reports/${row.reportId}`)).json();
+    expect(report.devices[0].patientsNow).toBe(before + 1);
     expect(errors).toEqual([]);
     await context.close();
   });
