@@ -416,6 +416,10 @@ describe('reconciliation', () => {
     expect(s.refills).toHaveLength(2);
     expect(s.suggestedFactor).toBe(1.1);
     expect(s.daily.length).toBeGreaterThanOrEqual(18);
+    // Constant use: the measured day-to-day CV is at its floor, and the forecast's band uses it.
+    expect(s.demandCv).toMatchObject({ measured: true, cv: 0.02 });
+    const forecast = await fm.get(`/api/sources/${t.id}?draws=0`);
+    expect(forecast.body.method.text.join(' ')).toMatch(/coefficient of variation 0\.02, measured/);
 
     const accept = await fm.post(`/api/sources/${t.id}/correction`, { factor: s.suggestedFactor, basis: 'scaled' });
     expect(accept.status).toBe(200);
