@@ -1,6 +1,7 @@
 import { idParamSchema } from '@common/schemas/common.schema';
 import { forecastQuerySchema } from '@common/schemas/supply.schema';
 import { toCsv } from '@common/api/csv';
+import { meanDailyDemandL } from '@common/forecast/demand-model';
 import { REFERENCE_CONDITIONS, type ReferenceCode } from '@common/gas/reference-conditions';
 import { cylinderTypeName } from '@common/catalogue/cylinder-type';
 import type { RouteDef } from '../../http/route';
@@ -168,14 +169,14 @@ async function wardDetail(actor: Actor, id: number) {
   const gases = [...new Set([...model.therapy.filter((t) => t.wardId === id).map((t) => t.gasCode), ...model.feeds.filter((f) => f.wardId === id).map((f) => f.gasCode)])];
   const perGas = gases.map((gas) => {
     const lines = wardDemandLines(model, id, gas);
-    const modelledLPerDay = lines.reduce((sum, l) => sum + l.flow_L_min * 60 * (l.hours?.length || 24) * ((l.weekdays?.length || 7) / 7), 0);
+    const modelledLPerDay = meanDailyDemandL(lines);
     const primary = model.feeds.find((f) => f.wardId === id && f.gasCode === gas && f.role === 'primary');
     const src = primary ? model.sources.find((s) => s.id === primary.sourceId) : undefined;
     // Measured use of the ward is its share of its source's measured use (by modelled share), when the source feeds several wards.
     let measured: number | null = null;
     if (src) {
       const srcMeasured = measuredLPerDay(model, src, reference);
-      const srcModelled = modelledLines(model, src).reduce((sum, l) => sum + l.flow_L_min * 60 * (l.hours?.length || 24) * ((l.weekdays?.length || 7) / 7), 0);
+      const srcModelled = meanDailyDemandL(modelledLines(model, src));
       if (srcMeasured !== null && srcModelled > 0) measured = (srcMeasured * modelledLPerDay) / srcModelled;
     }
     return { gasCode: gas, modelledLPerDay, measuredLPerDay: measured, suggestedFactor: measured !== null && modelledLPerDay > 0 ? measured / modelledLPerDay : null, primarySource: src ? { id: src.id, name: src.name } : null, lines: lines.map((l) => ({ label: l.label, flowLMin: l.flow_L_min, hours: l.hours ?? null, weekdays: l.weekdays ?? null })) };

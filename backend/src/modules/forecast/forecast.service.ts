@@ -1,7 +1,7 @@
 import { DateTime } from 'luxon';
 import { forecastInputSchema, type ForecastInput } from '@common/forecast/forecast-input.schema';
 import { forecastSource, FORECAST_CAUTION, type SourceForecast } from '@common/forecast/forecast-source';
-import { buildDemandLinesFromTherapy, DEVICE_DEFAULTS, type OxygenDevice, type TherapyLine } from '@common/forecast/demand-model';
+import { buildDemandLinesFromTherapy, DEVICE_DEFAULTS, meanDailyDemandL, type OxygenDevice, type TherapyLine } from '@common/forecast/demand-model';
 import type { DemandLine, DemandScenario } from '@common/forecast/demand-lines';
 import { freeGasLitresPerKg, type ReferenceCode } from '@common/gas/reference-conditions';
 import { isLiquefiedGas, type GasCode } from '@common/gas/gases';
@@ -102,16 +102,6 @@ export function modelledLines(model: SiteModel, s: SupplySource): DemandLine[] {
   return wardsFedBy(model, s).flatMap((w) => wardDemandLines(model, w.id, s.gasCode));
 }
 
-function meanLPerDay(lines: DemandLine[]): number {
-  let perWeek = 0;
-  for (const l of lines) {
-    const days = l.weekdays?.length ? new Set(l.weekdays).size : 7;
-    const hours = l.hours?.length ? new Set(l.hours).size : 24;
-    perWeek += l.flow_L_min * 60 * hours * days;
-  }
-  return perWeek / 7;
-}
-
 const consumptionCache = new WeakMap<object, Consumption | null>();
 
 /**
@@ -188,7 +178,7 @@ export function buildForecastInput(model: SiteModel, s: SupplySource, opts: Fore
   const reference = model.site.referenceCode as ReferenceCode;
   const zone = model.site.timeZone;
   const baseLines = modelledLines(model, s);
-  const modelled = meanLPerDay(baseLines);
+  const modelled = meanDailyDemandL(baseLines);
   const measured = measuredLPerDay(model, s, reference);
   let lines = baseLines;
   let basis: SourceOutlook['basis'] = { used: 'model', message: 'Demand from the therapy lines of the wards this source feeds.', modelledLPerDay: modelled, measuredLPerDay: measured };

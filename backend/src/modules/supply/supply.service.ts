@@ -111,7 +111,7 @@ async function checkSourceRefs(m: EntityManager, actor: Actor, siteId: number, i
     throw badRequest('Unknown supplier', [{ path: 'supplierId', message: 'choose a supplier of your organisation' }]);
   }
   if (input.cylinderTypeId) {
-    const c = await m.getRepository(CylinderType).findOneBy({ id: input.cylinderTypeId, organisationId: input.cylinderTypeId ? actor.user.organisationId : -1 });
+    const c = await m.getRepository(CylinderType).findOneBy({ id: input.cylinderTypeId, organisationId: actor.user.organisationId });
     if (!c) throw badRequest('Unknown cylinder type', [{ path: 'cylinderTypeId', message: 'choose a cylinder type of your catalogue' }]);
     if (c.gasCode !== input.gasCode) throw badRequest('The cylinder type holds another gas', [{ path: 'cylinderTypeId', message: `this type is for ${c.gasCode}` }]);
   }
