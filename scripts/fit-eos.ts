@@ -2,7 +2,7 @@
  * Dev tool: fits the short Helmholtz-energy equations the gas engine uses at run time
  * (common/src/gas/coefficients.ts) to dense data generated from the published reference equations
  * of state (common/src/gas/reference-eos.ts), then reports the deviations on the dense data.
- * The shared reference table (z-grid.csv) is NOT used for fitting; it stays a held-out check in
+ * The reference table (tests/reference) (z-grid.csv) is NOT used for fitting; it stays a held-out check in
  * the unit tests.
  *
  * Functional form (Span & Wagner 2003, Int. J. Thermophys. 24, 1): α^r = Σ nᵢ δ^dᵢ τ^tᵢ exp(−δ^lᵢ)
@@ -16,7 +16,7 @@
  *
  * Run: npx tsx scripts/fit-eos.ts                  (fits and prints the report, ~30 s)
  *      npx tsx scripts/fit-eos.ts --write          (also rewrites common/src/gas/coefficients.ts)
- *      npx tsx scripts/fit-eos.ts --validate-only  (only the held-out check against the shared table)
+ *      npx tsx scripts/fit-eos.ts --validate-only  (only the held-out check against the held-out reference table)
  */
 import { writeFileSync } from 'node:fs';
 import { fileURLToPath } from 'node:url';
@@ -320,14 +320,14 @@ function oxygenNormalBoilingPoint(): { T: number; rhoLiquidKgM3: number } {
 }
 
 /**
- * Held-out check: the run-time engine (with the coefficients now on disk) against the shared
+ * Held-out check: the run-time engine (with the coefficients now on disk) against the held-out
  * reference table, as a small Markdown table. Imported late so that a just-written coefficients.ts
  * is the one evaluated.
  */
 async function validateAgainstSharedTable(): Promise<void> {
   const { readFileSync } = await import('node:fs');
   const { compressibility } = await import('../common/src/gas/eos');
-  const text = readFileSync(new URL('../../shared/reference/z-grid.csv', import.meta.url), 'utf8');
+  const text = readFileSync(new URL('../tests/reference/z-grid.csv', import.meta.url), 'utf8');
   const rows = text.trim().split(/\r?\n/).slice(1).map((l) => l.split(','));
   const worst = new Map<string, { z: number; rho: number; n: number; method: string }>();
   for (const [gas, t, p, z, rho] of rows) {
@@ -400,7 +400,7 @@ function writeCoefficients(models: FittedModel[]): void {
  * to dense (T, ρ) data computed from the reference equation of each gas (reference-eos.ts):
  * ${FIT_MIN_T}–${FIT_MAX_T} K, up to ${FIT_MAX_P_BAR} bar, single-phase gas and supercritical states (CO2: vapour below
  * the critical temperature; the immediate critical region left out).
- * The shared reference table of Z values was not used for fitting (it is the held-out check).
+ * The reference table (tests/reference) of Z values was not used for fitting (it is the held-out check).
  * Valid for 200–400 K and up to 350 bar abs in the gas and supercritical region.
  */
 

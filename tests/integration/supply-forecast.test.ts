@@ -41,7 +41,7 @@ describe('supply sources and readings', () => {
 
     const detail = await fm.get(`/api/sources/${src.body.id}?draws=50`);
     expect(detail.status).toBe(200);
-    // 200 L/min × 60 = 12,000 L/h; at 15 °C and 1.01325 bar oxygen is 1.35436 kg/m³ (reference EOS, shared
+    // 200 L/min × 60 = 12,000 L/h; at 15 °C and 1.01325 bar oxygen is 1.35436 kg/m³ (reference EOS, tests/reference
     // table), so 12 m³/h = 16.25 kg/h; evaporation 0.5 %/day × 10,000 kg = 2.08 kg/h is below demand, so
     // demand alone empties 6,000 kg in 6,000 / 16.25 = 369.2 h from the reading.
     const kgPerH = (12_000 / freeGasLitresPerKg('O2', '15C'));

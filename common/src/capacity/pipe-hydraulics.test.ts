@@ -50,7 +50,7 @@ describe('Darcy–Weisbach pressure drop', () => {
   it('matches a hand calculation: oxygen, 500 L/min, 22 × 0.9 copper, 50 m + 20 %', () => {
     /*
      * Hand calculation (inputs: free-gas reference 15 °C, 1.01325 bar; line 5 bar abs, 20 °C):
-     *   ρ_ref  = 1.35436 kg/m³   (O2, 288.15 K, 1.01325 bar: reference EOS Schmidt & Wagner 1985, shared table)
+     *   ρ_ref  = 1.35436 kg/m³   (O2, 288.15 K, 1.01325 bar: reference EOS Schmidt & Wagner 1985, tests/reference)
      *   ρ_line = 6.586960 kg/m³  (O2, 293.15 K, 5 bar: same table)
      *   μ      = 20.4e-6 Pa·s    (O2 near 20 °C, from memory)
      *   D      = 22 − 2 × 0.9 = 20.2 mm;  A = π/4 × 0.0202² = 3.204739e-4 m²

@@ -4,8 +4,8 @@ import { InvalidInputError } from '../api/errors';
 import { computeDarcyPressureDrop } from './pipe-hydraulics';
 import { computePipeRunCapacityLMin, computePipeRunPressureDrop, type PipeRunSpec } from './pipe-run';
 
-// Reference multiparameter EOS values (shared reference table z-grid.csv): gas,T_K,p_bar_abs,Z,rho_kg_m3,phase
-const zGrid = readFileSync(new URL('../../../../shared/reference/z-grid.csv', import.meta.url), 'utf8')
+// Reference multiparameter EOS values (reference table (tests/reference) z-grid.csv): gas,T_K,p_bar_abs,Z,rho_kg_m3,phase
+const zGrid = readFileSync(new URL('../../../tests/reference/z-grid.csv', import.meta.url), 'utf8')
   .trim()
   .split('\n')
   .slice(1)
@@ -31,7 +31,7 @@ const o2Run: PipeRunSpec = {
 describe('pipe run with real-gas density from the gas engine', () => {
   it('densities agree with the reference EOS within 0.3 % at line and reference states', () => {
     const r = computePipeRunPressureDrop(o2Run, 500);
-    // reference EOS for O2 (Schmidt & Wagner 1985), shared table: 1.354364 kg/m³ at 288.15 K, 1.01325 bar
+    // reference EOS for O2 (Schmidt & Wagner 1985), tests/reference: 1.354364 kg/m³ at 288.15 K, 1.01325 bar
     expect(r.referenceDensityKgM3 / referenceDensity('O2', 288.15, 1.01325)).toBeCloseTo(1, 2);
     // line density is taken at the mean pressure: scale the 5 bar table value by pressure (Z is flat here)
     const expectedLine = referenceDensity('O2', 293.15, 5) * (r.meanPressureBarAbs / 5);

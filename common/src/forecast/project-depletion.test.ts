@@ -5,8 +5,8 @@ import { freeGasLitresPerKg } from '../gas/reference-conditions';
 import { daysOfStock, projectDepletion, type DepletionModel } from './project-depletion';
 import { computeReorderPoint } from './reorder-point';
 
-// O2 density at 15 °C and 1.01325 bar from the shared reference README (Schmidt & Wagner 1985 EOS).
-const referenceReadme = readFileSync(new URL('../../../../shared/reference/README.md', import.meta.url), 'utf8');
+// O2 density at 15 °C and 1.01325 bar from the reference README (tests/reference) (Schmidt & Wagner 1985 EOS).
+const referenceReadme = readFileSync(new URL('../../../tests/reference/README.md', import.meta.url), 'utf8');
 const RHO_O2_15C = Number(/ρ\(O2\) = ([\d.]+) kg\/m³/.exec(referenceReadme)![1]);
 
 const flat = (hours: number, perHour: number) => new Float64Array(hours).fill(perHour);
@@ -18,7 +18,7 @@ function model(partial: Partial<DepletionModel> & { demandPerHour: Float64Array 
 describe('projectDepletion: constant demand', () => {
   it('empties a 1,000 kg O2 tank at 100 L/min in 1000 / (6000 / 738.36) = 123.06 h', () => {
     expect(RHO_O2_15C).toBe(1.35436);
-    // Free gas per kg = 1000 L/m³ ÷ 1.35436 kg/m³ = 738.356 L/kg (reference density, shared table).
+    // Free gas per kg = 1000 L/m³ ÷ 1.35436 kg/m³ = 738.356 L/kg (reference density, tests/reference).
     const lPerKgReference = 1000 / RHO_O2_15C;
     const lPerKg = freeGasLitresPerKg('O2', '15C');
     // The gas engine's real-gas value must agree with the reference density within 0.1 %.

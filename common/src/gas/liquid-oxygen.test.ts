@@ -20,7 +20,7 @@ describe('liquid oxygen', () => {
   });
 
   it('gives about 842 L of gas per litre of liquid at 15 °C, 860 L at 21.1 °C and 798 L at 0 °C', () => {
-    // domain facts §2 (computed; the shared reference densities agree): 798 L (0 °C), 842 L (15 °C), 860 L (21.1 °C)
+    // domain facts §2 (computed; the reference-table densities agree): 798 L (0 °C), 842 L (15 °C), 860 L (21.1 °C)
     expect(Math.abs(loxLitresToFreeGasL(1, '15C') / 842 - 1)).toBeLessThan(0.002);
     expect(Math.abs(loxLitresToFreeGasL(1, '21C') / 860 - 1)).toBeLessThan(0.002);
     expect(Math.abs(loxLitresToFreeGasL(1, '0C') / 798 - 1)).toBeLessThan(0.002);

@@ -2,8 +2,8 @@ import { GAS_INFO, PURE_FLUIDS, R_J_MOL_K, type GasCode, type PureGasCode } from
 
 /**
  * Peng–Robinson (1976) cubic equation of state, kept as a comparison and fallback for the
- * Helmholtz-energy engine in eos.ts (it is 2.5–6 % off Z at cylinder pressures, see the shared
- * reference README). Mixtures use the van der Waals one-fluid mixing rules with k_ij = 0.
+ * Helmholtz-energy engine in eos.ts (it is 2.5–6 % off Z at cylinder pressures, see the
+ * tests/reference/README.md). Mixtures use the van der Waals one-fluid mixing rules with k_ij = 0.
  *
  * Source: D.-Y. Peng & D. B. Robinson, "A New Two-Constant Equation of State",
  * Ind. Eng. Chem. Fundam. 15 (1976) 59–64.

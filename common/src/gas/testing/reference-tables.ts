@@ -1,7 +1,7 @@
 /**
- * Test support only (reads files): the shared reference tables, resolved as `<repo>/../shared/reference/`
- * from this file so that a clone anywhere with `shared/` beside it works.
- * Values: "reference equation of state for <gas> (<authors, year>), value from shared reference table".
+ * Test support only (reads files): the reference tables kept in the repository at `tests/reference/`
+ * (their sources in the README beside them), so that a clone on its own passes its tests.
+ * Values: "reference equation of state for <gas> (<authors, year>), value from reference table (tests/reference)".
  */
 import { readFileSync } from 'node:fs';
 
@@ -24,7 +24,7 @@ export interface SaturationRow {
 }
 
 function readTable(name: string): string[][] {
-  const url = new URL(`../../../../../shared/reference/${name}`, import.meta.url);
+  const url = new URL(`../../../../tests/reference/${name}`, import.meta.url);
   const lines = readFileSync(url, 'utf8').trim().split(/\r?\n/);
   return lines.slice(1).map((line) => line.split(','));
 }

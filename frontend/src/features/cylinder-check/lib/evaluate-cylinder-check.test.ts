@@ -15,7 +15,7 @@ function ok(outcome: ReturnType<typeof evaluateCylinderCheck>) {
 
 describe('evaluateCylinderCheck, compressed oxygen', () => {
   it('matches the reference equation of state for 10 L at 200 bar abs and 15 °C', () => {
-    // reference EOS for O2 (Schmidt & Wagner 1985), shared reference table: ρ(288.15 K, 200 bar) = 286.878288 kg/m³,
+    // reference EOS for O2 (Schmidt & Wagner 1985), reference table in tests/reference: ρ(288.15 K, 200 bar) = 286.878288 kg/m³,
     // ρ(288.15 K, 1.01325 bar) = 1.354364 kg/m³ → free gas = 10 L × (286.878288 − 1.354364) / 1.354364 = 2108.18 L
     const r = ok(evaluateCylinderCheck(values({ gauge: String(200 - 1.01325) }), metric));
     if (r.kind !== 'compressed') throw new Error('expected compressed');
@@ -27,7 +27,7 @@ describe('evaluateCylinderCheck, compressed oxygen', () => {
 
   it('gives the duration as usable free gas over the flow, close to the ideal figure at low pressure', () => {
     // pV = nRT by hand: 10 L × (10 − 2) bar / 1.01325 bar = 78.95 L above a 2 bar reserve; at 2 L/min ≈ 39.5 min.
-    // Z(O2, 15 °C) is 0.99–1.00 below 11 bar (shared reference table), so the real figure is within 1 %.
+    // Z(O2, 15 °C) is 0.99–1.00 below 11 bar (reference table in tests/reference), so the real figure is within 1 %.
     const r = ok(evaluateCylinderCheck(values({ gauge: '10', reserve: '2' }), metric));
     expect(r.minutes).toBeCloseTo(r.usableFreeGasL / 2, 6);
     expect(Math.abs(r.minutes - 39.48) / 39.48).toBeLessThan(0.01);
