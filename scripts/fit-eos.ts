@@ -2,7 +2,7 @@
  * Dev tool: fits the short Helmholtz-energy equations the gas engine uses at run time
  * (common/src/gas/coefficients.ts) to dense data generated from the published reference equations
  * of state (common/src/gas/reference-eos.ts), then reports the deviations on the dense data.
- * The reference table (tests/reference) (z-grid.csv) is NOT used for fitting; it stays a held-out check in
+ * The reference table in tests/reference (z-grid.csv) is NOT used for fitting; it stays a held-out check in
  * the unit tests.
  *
  * Functional form (Span & Wagner 2003, Int. J. Thermophys. 24, 1): α^r = Σ nᵢ δ^dᵢ τ^tᵢ exp(−δ^lᵢ)
@@ -400,7 +400,7 @@ function writeCoefficients(models: FittedModel[]): void {
  * to dense (T, ρ) data computed from the reference equation of each gas (reference-eos.ts):
  * ${FIT_MIN_T}–${FIT_MAX_T} K, up to ${FIT_MAX_P_BAR} bar, single-phase gas and supercritical states (CO2: vapour below
  * the critical temperature; the immediate critical region left out).
- * The reference table (tests/reference) of Z values was not used for fitting (it is the held-out check).
+ * The reference table in tests/reference of Z values was not used for fitting (it is the held-out check).
  * Valid for 200–400 K and up to 350 bar abs in the gas and supercritical region.
  */
 

@@ -26,7 +26,7 @@ if (e.PREPARE_ON_START !== 'none') {
 }
 const pending = await ds.showMigrations();
 if (pending) {
-  logger.error('The database has migrations that have not run: run scripts/migrate (scripts/start does it)');
+  logger.error('The database has migrations that have not run: run `npm run migrate` (scripts/start and scripts/test do it)');
   process.exit(1);
 }
 const { app, close } = await createApp();

@@ -221,8 +221,8 @@ describe('diversity rule sets: shipped defaults with sources, copied and edited 
 /** Darcy–Weisbach with the Blasius smooth-pipe friction factor f = 0.316·Re^−0.25 (Blasius 1913) and ideal-gas density: the hand method. */
 function blasiusDropKPa(flowFreeLMin: number, innerDiameterMm: number, effectiveLengthM: number): number {
   const R = 8.314462618; // J/(mol·K), CODATA
-  const M = 0.0319988; // kg/mol, O2 (shared reference README)
-  const rhoRef = 1.35436; // kg/m³, O2 at 15 °C and 1.01325 bar (shared reference tables)
+  const M = 0.0319988; // kg/mol, O2 (tests/reference/README.md)
+  const rhoRef = 1.35436; // kg/m³, O2 at 15 °C and 1.01325 bar (reference tables in tests/reference)
   const rhoLine = ((400 + 101.325) * 1000 * M) / (R * 293.15); // 400 kPa gauge, 20 °C, ideal gas
   const mu = 20.4e-6; // Pa·s, O2 near 20 °C (handbook value, from memory)
   const d = innerDiameterMm / 1000;

@@ -52,7 +52,7 @@ export const DRAWN_COPPER_ROUGHNESS_MM = 0.0015;
 export const PURE_GAS_VISCOSITY: Record<'O2' | 'N2' | 'AIR' | 'AR' | 'HE' | 'CO2' | 'N2O', { viscosityPaS: number; molarMassGMol: number }> = {
   // Viscosities: typical handbook values at 20 °C, from memory (within a few per cent of the
   // reference correlations; the pressure effect up to ~10 bar is under 1 %).
-  // Molar masses: reference fluid files (reference README (tests/reference)).
+  // Molar masses: reference fluid files (tests/reference/README.md).
   O2: { viscosityPaS: 20.4e-6, molarMassGMol: 31.999 },
   N2: { viscosityPaS: 17.6e-6, molarMassGMol: 28.013 },
   AIR: { viscosityPaS: 18.2e-6, molarMassGMol: 28.965 },

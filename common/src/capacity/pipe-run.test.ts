@@ -4,7 +4,7 @@ import { InvalidInputError } from '../api/errors';
 import { computeDarcyPressureDrop } from './pipe-hydraulics';
 import { computePipeRunCapacityLMin, computePipeRunPressureDrop, type PipeRunSpec } from './pipe-run';
 
-// Reference multiparameter EOS values (reference table (tests/reference) z-grid.csv): gas,T_K,p_bar_abs,Z,rho_kg_m3,phase
+// Reference multiparameter EOS values (reference table in tests/reference z-grid.csv): gas,T_K,p_bar_abs,Z,rho_kg_m3,phase
 const zGrid = readFileSync(new URL('../../../tests/reference/z-grid.csv', import.meta.url), 'utf8')
   .trim()
   .split('\n')

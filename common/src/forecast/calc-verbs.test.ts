@@ -44,7 +44,7 @@ const EXAMPLE = {
 const run = (input: unknown) => forecastVerb(input) as Out;
 const clone = <T>(v: T): T => structuredClone(v);
 
-// O2 density at 15 °C, 1.01325 bar: 1.35436 kg/m³ (reference README (tests/reference), Schmidt & Wagner 1985).
+// O2 density at 15 °C, 1.01325 bar: 1.35436 kg/m³ (tests/reference/README.md, Schmidt & Wagner 1985).
 const RHO_O2_15C = 1.35436;
 
 describe('calc forecast: the worked example', () => {

@@ -43,7 +43,7 @@ export const DEVICE_DEFAULTS: Record<OxygenDevice, DeviceDefault> = {
 export const WHO_PLANNING_FLOW_L_MIN = { severe: 10, critical: 30 } as const;
 
 /**
-/** O2 mole fraction of dry air: 20.96 % (the air composition of the reference table (tests/reference)s; clinically "21 %"). */
+/** O2 mole fraction of dry air: 20.96 % (the air composition of the reference tables in tests/reference; clinically "21 %"). */
 export const AIR_OXYGEN_FRACTION = 0.2096;
 
 /**

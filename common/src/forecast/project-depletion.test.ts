@@ -5,7 +5,7 @@ import { freeGasLitresPerKg } from '../gas/reference-conditions';
 import { daysOfStock, projectDepletion, type DepletionModel } from './project-depletion';
 import { computeReorderPoint } from './reorder-point';
 
-// O2 density at 15 °C and 1.01325 bar from the reference README (tests/reference) (Schmidt & Wagner 1985 EOS).
+// O2 density at 15 °C and 1.01325 bar from the tests/reference/README.md (Schmidt & Wagner 1985 EOS).
 const referenceReadme = readFileSync(new URL('../../../tests/reference/README.md', import.meta.url), 'utf8');
 const RHO_O2_15C = Number(/ρ\(O2\) = ([\d.]+) kg\/m³/.exec(referenceReadme)![1]);
 

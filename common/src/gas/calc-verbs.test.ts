@@ -21,7 +21,7 @@ describe('calc verbs in process', () => {
       { gas: 'HE', temperature_C: 15, pressure_bar_abs: 1.01325 },
     ]) as any[];
     expect(out).toHaveLength(4);
-    // reference equation of state for O2 (Schmidt & Wagner, 1985), value from reference table (tests/reference): Z = 0.931150 at 288.15 K, 200 bar
+    // reference equation of state for O2 (Schmidt & Wagner, 1985), value from reference table in tests/reference: Z = 0.931150 at 288.15 K, 200 bar
     expect(Math.abs(out[0].Z / 0.93115 - 1)).toBeLessThan(0.001);
     expect(Object.keys(out[0]).sort()).toEqual(['Z', 'density_kg_m3', 'ideal_density_kg_m3', 'method', 'phase']);
     expect(out[1].error.code).toBe('invalid_input');
@@ -78,7 +78,7 @@ describe('calc command line', () => {
   it('z through the real command: results and per-item errors, exit 0', () => {
     const r = runCalc('z', JSON.stringify([{ gas: 'AR', temperature_C: -40, pressure_bar_abs: 300 }, { gas: 'N2O', temperature_C: 0, pressure_bar_abs: 40 }]));
     expect(r.status).toBe(0);
-    // reference equation of state for Ar (Tegeler, Span & Wagner, 1999), value from reference table (tests/reference): 233.15 K, 300 bar
+    // reference equation of state for Ar (Tegeler, Span & Wagner, 1999), value from reference table in tests/reference: 233.15 K, 300 bar
     expect(r.body[0].Z).toBeGreaterThan(0.8);
     expect(r.body[1].error.code).toBe('invalid_input');
   }, 60_000);

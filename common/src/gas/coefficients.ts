@@ -11,7 +11,7 @@
  * to dense (T, ρ) data computed from the reference equation of each gas (reference-eos.ts):
  * 195–410 K, up to 420 bar, single-phase gas and supercritical states (CO2: vapour below
  * the critical temperature; the immediate critical region left out).
- * The reference table (tests/reference) of Z values was not used for fitting (it is the held-out check).
+ * The reference table in tests/reference of Z values was not used for fitting (it is the held-out check).
  * Valid for 200–400 K and up to 350 bar abs in the gas and supercritical region.
  */
 

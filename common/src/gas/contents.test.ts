@@ -20,7 +20,7 @@ function expectInvalid(fn: () => unknown, path: string): void {
 
 describe('compressed-gas contents', () => {
   it('mass in the cylinder equals ρ·V with ρ from the reference table', () => {
-    // reference equations of state (tests/reference/README.md), value from reference table (tests/reference): density at 288.15 K, 200 bar abs
+    // reference equations of state (tests/reference/README.md), value from reference table in tests/reference: density at 288.15 K, 200 bar abs
     for (const gas of ['O2', 'N2', 'AIR', 'AR', 'HE'] as const) {
       const row = readZGrid().find((r) => r.gas === gas && r.temperatureK === 288.15 && r.pressureBarAbs === 200)!;
       const c = compressedContents({ gas, waterCapacityL: 10, pressureBarAbs: 200, temperatureC: 15 });
@@ -30,7 +30,7 @@ describe('compressed-gas contents', () => {
   });
 
   it('a 10 L cylinder at 200 bar(g) and 15 °C: real free gas is ×1.07 the ideal for O2, ×0.96 for N2, ×0.91 for He', () => {
-    // domain facts §1 (EU distributor page; consistent with the reference table (tests/reference)): 50 L × 200 bar = 10 m³ ideal;
+    // domain facts §1 (EU distributor page; consistent with the reference table in tests/reference): 50 L × 200 bar = 10 m³ ideal;
     // real ≈ ×1.07 (O2), ×0.96 (N2), ×0.91 (He)
     const ratio = (gas: GasCode) => {
       const c = compressedContents({ gas, waterCapacityL: 10, gaugeBar: 200, temperatureC: 15 });
@@ -223,7 +223,7 @@ describe('liquefied-gas contents (CO2, N2O)', () => {
   const sat = readSaturation();
 
   it('sits at the vapour pressure while liquid is present, and counts gas per kg', () => {
-    // reference equation of state for CO2 (Span & Wagner, 1996), value from reference table (tests/reference): 50.871474 bar abs at 288.15 K
+    // reference equation of state for CO2 (Span & Wagner, 1996), value from reference table in tests/reference: 50.871474 bar abs at 288.15 K
     const c = liquefiedContents({ gas: 'CO2', grossKg: 22.5, tareKg: 15, waterCapacityL: 10, temperatureC: 15 });
     const row = sat.find((r) => r.gas === 'CO2' && r.temperatureK === 288.15)!;
     expect(c.massKg).toBe(7.5);

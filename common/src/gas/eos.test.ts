@@ -28,8 +28,8 @@ function expectInvalid(fn: () => unknown, path?: string): InvalidInputError {
   throw new Error('expected an InvalidInputError');
 }
 
-describe('compressibility against the reference table (tests/reference) (233–333 K, 1–300 bar)', () => {
-  // Each row: reference equation of state for <gas> (authors in the table README), value from reference table (tests/reference).
+describe('compressibility against the reference table in tests/reference (233–333 K, 1–300 bar)', () => {
+  // Each row: reference equation of state for <gas> (authors in the table README), value from reference table in tests/reference.
   for (const gas of Object.keys(TARGET) as PureGasCode[]) {
     it(`${gas}: Z and density within ${TARGET[gas] * 100} % of the reference equation at every single-phase grid state`, () => {
       const rows = grid.filter((r) => r.gas === gas && !nearCriticalPoint(gas, r.temperatureK, r.pressureBarAbs));
@@ -48,7 +48,7 @@ describe('compressibility against the reference table (tests/reference) (233–3
   }
 
   it('reproduces the README point values at 15 °C and 1.01325 bar', () => {
-    // reference README (tests/reference): Z(O2) = 0.999237, ρ(O2) = 1.35436 kg/m³, Z(AIR) = 0.999573, Z(N2) = 0.999709,
+    // tests/reference/README.md: Z(O2) = 0.999237, ρ(O2) = 1.35436 kg/m³, Z(AIR) = 0.999573, Z(N2) = 0.999709,
     // Z(HE) = 1.000503, Z(CO2) = 0.994351, Z(N2O) = 0.993911; ρ(O2) at 21.11 °C = 1.32615 kg/m³
     // (a fitted equation carries a few 1e-5 of Z at 1 atm: 0.003 % of a free-gas volume)
     const at15 = (gas: GasCode) => compressibility(gas, 288.15, 1.01325);
@@ -196,7 +196,7 @@ describe('compressibility: rejected input', () => {
 describe('mixtures (GERG-2008 multi-fluid model)', () => {
   it('the mixing code reproduces the air reference equation from N2, O2 and Ar within 0.2 %', () => {
     // Kunz & Wagner (2012) GERG-2008 claims ~0.1 % in gas density for air-like mixtures; check values:
-    // reference equation of state for air (Lemmon et al., 2000), value from reference table (tests/reference)
+    // reference equation of state for air (Lemmon et al., 2000), value from reference table in tests/reference
     const air = compileMixture('air', [
       { gas: 'N2', moleFraction: 0.7812 },
       { gas: 'O2', moleFraction: 0.2096 },
@@ -237,7 +237,7 @@ describe('Peng–Robinson (1976) comparison model', () => {
   it('reproduces the worked illustration for helium and is 2–7 % off the reference at −40 °C, 300 bar', () => {
     // domain facts §4: PR gives 1.060 for helium at 15 °C, 200 bar (computed in the research, illustration)
     expect(pengRobinsonZ('HE', 288.15, 200)).toBeCloseTo(1.06, 2);
-    // reference README (tests/reference): plain PR is 3–6 % off Z at 300 bar and −40 °C for O2, N2, air and Ar
+    // tests/reference/README.md: plain PR is 3–6 % off Z at 300 bar and −40 °C for O2, N2, air and Ar
     for (const gas of ['O2', 'N2', 'AIR', 'AR'] as const) {
       const row = grid.find((r) => r.gas === gas && r.temperatureK === 233.15 && r.pressureBarAbs === 300)!;
       const dev = Math.abs(pengRobinsonZ(gas, 233.15, 300) / row.Z - 1);

@@ -2,7 +2,7 @@
  * The medical gases Plenum knows, with the constants the engines need.
  *
  * Molar masses of the pure fluids are those of their reference equations of state (the same values
- * the reference table (tests/reference) was computed with); mixtures are defined by mole fraction and their molar
+ * the reference table in tests/reference was computed with); mixtures are defined by mole fraction and their molar
  * mass is the mole-fraction average. Critical constants: the reference equations of state (Schmidt &
  * Wagner 1985; Span et al. 2000; Lemmon et al. 2000; Tegeler et al. 1999; Ortiz-Vega et al. 2019;
  * Span & Wagner 1996; Lemmon & Span 2006). Acentric factors are used only by the Peng–Robinson

@@ -16,12 +16,12 @@ describe('reference conditions', () => {
   });
 
   it('gives the real free-gas litres per kg of the trade tables', () => {
-    // domain facts §1 (computed, agrees with the reference table (tests/reference)): N2O 534 L/kg (15 °C), 545 (21.1 °C); CO2 534 / 546
+    // domain facts §1 (computed, agrees with the reference table in tests/reference): N2O 534 L/kg (15 °C), 545 (21.1 °C); CO2 534 / 546
     expect(freeGasLitresPerKg('N2O', '15C')).toBeCloseTo(534, 0);
     expect(freeGasLitresPerKg('N2O', '21C')).toBeCloseTo(545, 0);
     expect(freeGasLitresPerKg('CO2', '15C')).toBeCloseTo(534, 0);
     expect(freeGasLitresPerKg('CO2', '21C')).toBeCloseTo(546, 0);
-    // reference README (tests/reference): ρ(O2) = 1.35436 kg/m³ at 15 °C and 1.32615 kg/m³ at 21.11 °C, 1.01325 bar
+    // tests/reference/README.md: ρ(O2) = 1.35436 kg/m³ at 15 °C and 1.32615 kg/m³ at 21.11 °C, 1.01325 bar
     expect(freeGasLitresPerKg('O2', '15C')).toBeCloseTo(1000 / 1.35436, 0);
     expect(freeGasLitresPerKg('O2', '21C')).toBeCloseTo(1000 / 1.32615, 0);
   });

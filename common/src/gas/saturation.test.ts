@@ -7,7 +7,7 @@ describe('saturation ancillary equations of CO2 and N2O', () => {
   const rows = readSaturation();
 
   it('vapour pressure within 0.5 % of the reference equations over 253–303 K', () => {
-    // reference equation of state for CO2 (Span & Wagner, 1996) and N2O (Lemmon & Span, 2006), value from reference table (tests/reference)
+    // reference equation of state for CO2 (Span & Wagner, 1996) and N2O (Lemmon & Span, 2006), value from reference table in tests/reference
     expect(rows.length).toBe(10);
     for (const r of rows) {
       expect(Math.abs(vapourPressureBarAbs(r.gas, r.temperatureK) / r.vapourPressureBarAbs - 1)).toBeLessThanOrEqual(0.005);
@@ -15,7 +15,7 @@ describe('saturation ancillary equations of CO2 and N2O', () => {
   });
 
   it('saturated liquid and vapour densities within 0.5 % of the reference equations', () => {
-    // reference equation of state for CO2 (Span & Wagner, 1996) and N2O (Lemmon & Span, 2006), value from reference table (tests/reference)
+    // reference equation of state for CO2 (Span & Wagner, 1996) and N2O (Lemmon & Span, 2006), value from reference table in tests/reference
     for (const r of rows) {
       expect(Math.abs(saturatedLiquidDensityKgM3(r.gas, r.temperatureK) / r.liquidDensityKgM3 - 1)).toBeLessThanOrEqual(0.005);
       expect(Math.abs(saturatedVapourDensityKgM3(r.gas, r.temperatureK) / r.vapourDensityKgM3 - 1)).toBeLessThanOrEqual(0.005);

@@ -10,7 +10,7 @@ import { requireFinite, fail } from './validate-input';
  *   (J. Chem. Eng. Data 51, 785; ancillaries by E. W. Lemmon, as distributed with the equation's
  *   fluid file), Tc = 309.52 K, pc = 7.245 MPa, ρc = 10.27 mol/dm³ = 452.01 kg/m³.
  * Both agree with the full equations of state (equal pressure and Gibbs energy of both phases) to
- * better than 0.01 % in pressure and 0.03 % in density over 253–303 K (reference table (tests/reference)).
+ * better than 0.01 % in pressure and 0.03 % in density over 253–303 K (reference table in tests/reference).
  */
 
 interface Ancillary {

@@ -1,7 +1,7 @@
 /**
  * Test support only (reads files): the reference tables kept in the repository at `tests/reference/`
  * (their sources in the README beside them), so that a clone on its own passes its tests.
- * Values: "reference equation of state for <gas> (<authors, year>), value from reference table (tests/reference)".
+ * Values: "reference equation of state for <gas> (<authors, year>), value from reference table in tests/reference".
  */
 import { readFileSync } from 'node:fs';
 
