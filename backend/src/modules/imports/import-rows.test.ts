@@ -1,4 +1,6 @@
 import { describe, expect, it } from 'vitest';
+import fc from 'fast-check';
+import { DateTime } from 'luxon';
 import { batchStatement, parseTimeCell } from './import-rows';
 
 const esc = (v: unknown) => (typeof v === 'number' ? String(v) : `'${String(v).replace(/'/g, "''")}'`);
@@ -51,5 +53,47 @@ describe('parseTimeCell', () => {
     expect(parseTimeCell('2026-01-05', 'UTC', 'ymd', true)).toMatch(/time of day/);
     expect(parseTimeCell('05/01/2026 08:00', 'UTC', 'ymd', true)).toMatch(/date order/);
     expect(parseTimeCell('yesterday', 'UTC', 'ymd', true)).toMatch(/not a date/);
+  });
+});
+
+describe('parseTimeCell against luxon (property test)', () => {
+  // luxon (a general-purpose date library with the IANA zone rules of the runtime) is the reference: the
+  // hand-written fast reader must give the same instant for every ISO-shaped cell it accepts.
+  const zones = ['UTC', 'Europe/London', 'America/New_York', 'Australia/Sydney', 'Asia/Kolkata', 'America/St_Johns'];
+  const p2 = (n: number) => String(n).padStart(2, '0');
+  const cell = fc.record({
+    y: fc.integer({ min: 1990, max: 2060 }),
+    mo: fc.integer({ min: 1, max: 12 }),
+    d: fc.integer({ min: 1, max: 28 }),
+    h: fc.integer({ min: 0, max: 23 }),
+    mi: fc.integer({ min: 0, max: 59 }),
+    s: fc.option(fc.integer({ min: 0, max: 59 })),
+    ms: fc.option(fc.integer({ min: 0, max: 999 })),
+    sep: fc.constantFrom('T', ' '),
+    offset: fc.option(fc.oneof(fc.constant('Z'), fc.tuple(fc.constantFrom('+', '-'), fc.integer({ min: 0, max: 14 }), fc.constantFrom(0, 30, 45)).map(([sg, h, m]) => `${sg}${p2(h)}:${p2(h === 14 ? 0 : m)}`))),
+    zone: fc.constantFrom(...zones),
+  });
+
+  it('gives the instant luxon gives, for local times, UTC and offsets, across clock changes', () => {
+    fc.assert(
+      fc.property(cell, (c) => {
+        let text = `${c.y}-${p2(c.mo)}-${p2(c.d)}${c.sep}${p2(c.h)}:${p2(c.mi)}`;
+        if (c.s !== null) text += `:${p2(c.s)}${c.ms !== null ? `.${String(c.ms).padStart(3, '0')}` : ''}`;
+        if (c.offset !== null) text += c.offset;
+        const got = parseTimeCell(text, c.zone, 'ymd', true);
+        const ref = DateTime.fromISO(text.replace(' ', 'T'), { zone: c.zone, setZone: false });
+        expect(ref.isValid).toBe(true);
+        if (typeof got === 'string') {
+          // Only a local time skipped by a spring clock change may be refused: luxon moves it to another hour.
+          expect(c.offset).toBeNull();
+          expect(got).toMatch(/does not exist/);
+          expect(ref.setZone(c.zone).hour).not.toBe(c.h);
+          return;
+        }
+        // In the repeated autumn hour the reader offers both instants; luxon picks one of them.
+        expect([got.ms, got.altMs]).toContain(ref.toMillis());
+      }),
+      { numRuns: 3000, seed: 20261203 },
+    );
   });
 });
