@@ -4,23 +4,19 @@ import { env } from '../config/env';
 import { SnakeNamingStrategy } from './naming-strategy';
 import { entities } from './entities';
 import { migrations } from './migrations';
+import { isLockConflict } from './db-errors';
 
 // The last overload of DataSource.transaction takes the isolation level first.
 type IsolationLevel = Parameters<DataSource['transaction']>[0];
 
-const RETRYABLE_LOCK_ERRORS = new Set(['ER_LOCK_DEADLOCK', 'ER_LOCK_WAIT_TIMEOUT']);
 const TRANSACTION_ATTEMPTS = 8;
-
-function lockErrorCode(e: unknown): string | undefined {
-  const x = e as { code?: string; driverError?: { code?: string } };
-  return x?.driverError?.code ?? x?.code;
-}
 
 /**
  * A DataSource whose transactions are run again when InnoDB picks them as a deadlock victim or a lock
  * wait times out. Two writes at one site deadlock in the ordinary course (each insert's foreign-key check
  * takes a shared lock on the site row, then both bump the site's data version); the whole unit is rolled
- * back, so running it again is what a person pressing the button again would do, only sooner.
+ * back, so running it again is what a person pressing the button again would do, only sooner. This is the
+ * only retry layer: callers use `transaction` directly and must keep side effects inside the manager.
  */
 export class RetryingDataSource extends DataSource {
   override transaction<T>(run: (m: EntityManager) => Promise<T>): Promise<T>;
@@ -30,7 +26,7 @@ export class RetryingDataSource extends DataSource {
       try {
         return typeof a === 'function' ? await super.transaction(a) : await super.transaction(a, b!);
       } catch (e) {
-        if (attempt >= TRANSACTION_ATTEMPTS || !RETRYABLE_LOCK_ERRORS.has(lockErrorCode(e) ?? '')) throw e;
+        if (attempt >= TRANSACTION_ATTEMPTS || !isLockConflict(e)) throw e;
         // Exponential back-off with full jitter, so the victims of one deadlock do not meet again at once.
         await new Promise((r) => setTimeout(r, Math.random() * Math.min(1_000, 10 * 2 ** attempt)));
       }

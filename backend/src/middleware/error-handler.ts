@@ -2,20 +2,11 @@ import type { Request, Response, NextFunction } from 'express';
 import { InvalidInputError, type ErrorBody } from '@common/api/errors';
 import { AppError } from '../errors/app-error';
 import { logger } from '../logger';
-
-const DB_DOWN_CODES = new Set(['ECONNREFUSED', 'PROTOCOL_CONNECTION_LOST', 'ETIMEDOUT', 'ER_CON_COUNT_ERROR', 'ECONNRESET', 'POOL_CLOSED', 'ER_SERVER_SHUTDOWN', 'EPIPE']);
-
-function isDatabaseDown(err: unknown): boolean {
-  const e = err as { code?: string; driverError?: { code?: string }; message?: string };
-  const code = e?.code ?? e?.driverError?.code;
-  return (code !== undefined && DB_DOWN_CODES.has(code)) || /connect ECONNREFUSED|Pool is closed|Connection lost/i.test(e?.message ?? '');
-}
+import { isDatabaseDown, isLockConflict } from '../db/db-errors';
 
 /** A deadlock or lock wait left after the transaction's retries, or the connection pool's queue full. */
 function isBusy(err: unknown): boolean {
-  const e = err as { code?: string; driverError?: { code?: string }; message?: string };
-  const code = e?.driverError?.code ?? e?.code;
-  return code === 'ER_LOCK_DEADLOCK' || code === 'ER_LOCK_WAIT_TIMEOUT' || /^Queue limit reached/.test(e?.message ?? '');
+  return isLockConflict(err) || /^Queue limit reached/.test((err as { message?: string })?.message ?? '');
 }
 
 /** The one error middleware: known errors keep their status and code; the rest become a logged 500. */

@@ -17,6 +17,7 @@ import { readCsvChunks } from './csv-file';
 import { batchStatement, createRowParser, INSERT_TARGET, isBlankRecord, type ParsedRow, type RowContext, type RowParser } from './import-rows';
 import { SlotTracker } from './key-set';
 import type { JobOptions, JobPreview } from './import.service';
+import { isDuplicateKey } from '../../db/db-errors';
 
 /**
  * The background side of uploads. A job is checked (every row parsed and validated, duplicates found,
@@ -404,8 +405,7 @@ export async function importJob(job: ImportJob, workerId: string, signal: { stop
       await finish(job.id, workerId, 'running', { status: 'failed', finishedAt: new Date(), insertedRows: 0, errorCount: e.errors.length || 1, errorsJson: JSON.stringify(e.errors), message: `${e.message}. The import stopped and was rolled back: nothing was written. Check the file and upload it again.` });
       return;
     }
-    const code = (e as { code?: string }).code;
-    if (code === 'ER_DUP_ENTRY') {
+    if (isDuplicateKey(e)) {
       await finish(job.id, workerId, 'running', { status: 'failed', finishedAt: new Date(), insertedRows: 0, message: 'A row repeats data stored already (it arrived after the check). Nothing was written.' });
       return;
     }

@@ -4,30 +4,17 @@ import { IDEMPOTENCY_HEADER, idempotencyKeySchema } from '@common/schemas/orders
 import { validate } from '../../http/validate';
 import { conflict } from '../../errors/app-error';
 
-const RETRYABLE = new Set(['ER_LOCK_DEADLOCK', 'ER_LOCK_WAIT_TIMEOUT']);
+import { isDuplicateKey } from '../../db/db-errors';
 
-function codeOf(e: unknown): string | undefined {
-  const x = e as { code?: string; driverError?: { code?: string } };
-  return x?.driverError?.code ?? x?.code;
-}
-
-export function isDuplicateKey(e: unknown): boolean {
-  return codeOf(e) === 'ER_DUP_ENTRY';
-}
+export { isDuplicateKey };
 
 /**
- * Runs `work` in one transaction and runs it again (up to 5 times) when InnoDB picks it as a deadlock
- * victim or a lock wait times out: the whole unit is rolled back, so a retry is safe.
+ * Runs `work` in one transaction. The DataSource itself runs a deadlock victim's transaction again
+ * (RetryingDataSource, the one retry layer); this wrapper used to add a second loop around it (up to
+ * 5 × 8 attempts) and is kept only as the orders module's name for it.
  */
-export async function transactionWithRetry<T>(ds: DataSource, work: (m: EntityManager) => Promise<T>): Promise<T> {
-  for (let attempt = 1; ; attempt++) {
-    try {
-      return await ds.transaction(work);
-    } catch (e) {
-      if (attempt >= 5 || !RETRYABLE.has(codeOf(e) ?? '')) throw e;
-      await new Promise((r) => setTimeout(r, 10 * attempt + Math.random() * 40));
-    }
-  }
+export function transactionWithRetry<T>(ds: DataSource, work: (m: EntityManager) => Promise<T>): Promise<T> {
+  return ds.transaction(work);
 }
 
 /**

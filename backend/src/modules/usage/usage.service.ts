@@ -16,6 +16,7 @@ import { AppError, badRequest, conflict, notFound } from '../../errors/app-error
 import { recordAudit, whoOf } from '../audit/audit.service';
 import { getSiteFor } from '../sites/sites.service';
 import { presentWard, wardFor } from '../supply/supply.service';
+import { isDuplicateKey } from '../../db/db-errors';
 
 // ---------- presenters ----------
 
@@ -202,7 +203,7 @@ export async function createReport(actor: Actor, wardId: number, input: UsageRep
     try {
       saved = await m.getRepository(UsageReport).save(m.getRepository(UsageReport).create({ siteId: ward.siteId, wardId, reportDate: input.date, note: input.note, submittedByUserId: actor.user.id, submittedAt: new Date(), updatedByUserId: actor.user.id }));
     } catch (e) {
-      if ((e as { code?: string }).code === 'ER_DUP_ENTRY') throw conflict(`${ward.name} has a report for ${input.date} already`, 'report_exists');
+      if (isDuplicateKey(e)) throw conflict(`${ward.name} has a report for ${input.date} already`, 'report_exists');
       throw e;
     }
     await writeLines(m, saved.id, input);
