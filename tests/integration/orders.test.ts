@@ -20,7 +20,6 @@ let mail: SMTPServer;
 let smtpPort: number;
 let fm: Client;
 let po: Client;
-let poId: number;
 
 const HOUR = 3_600_000;
 /** The start of the current hour: a store count taken then starts the forecast exactly on the hour grid. */
@@ -37,7 +36,6 @@ beforeAll(async () => {
   siteId = org.siteIds[0];
   fm = await signedIn(app, org.users.facilities_manager);
   const officer = await addUser(app.ds, org, ['purchasing_officer'], 5_000_000);
-  poId = officer.id;
   po = await signedIn(app, officer.email);
 });
 afterAll(async () => {

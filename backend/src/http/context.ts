@@ -19,6 +19,7 @@ export interface Actor {
 }
 
 declare global {
+  // Express and passport type req.user through this global namespace: merging into it is the only way.
   // eslint-disable-next-line @typescript-eslint/no-namespace
   namespace Express {
     // eslint-disable-next-line @typescript-eslint/no-empty-object-type

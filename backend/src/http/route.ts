@@ -15,6 +15,3 @@ export interface RouteDef {
   /** Returns the JSON body (status 200), or handles `res` itself and returns undefined. */
   handler: (req: Request, res: Response) => unknown;
 }
-
-export const ALL_ROLES_EXCEPT = (...excluded: Role[]): Role[] =>
-  (['facilities_manager', 'ward_lead', 'purchasing_officer', 'biomedical_engineer', 'administrator'] as Role[]).filter((r) => !excluded.includes(r));

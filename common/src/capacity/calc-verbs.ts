@@ -114,8 +114,7 @@ const pipeFields = {
   correlation: z.enum(['colebrook_white', 'swamee_jain']).optional(),
   viscosity_Pa_s: positiveNumber('viscosity_Pa_s').optional(),
 };
-const pipeSchema = z.object(pipeFields);
-type PipeFields = z.infer<typeof pipeSchema>;
+type PipeFields = z.infer<z.ZodObject<typeof pipeFields>>;
 
 function toPipeSpec(p: PipeFields, pathPrefix: string): Omit<PipeRunSpec, 'gas'> {
   let innerDiameterMm = p.inner_diameter_mm;

@@ -3,7 +3,6 @@ import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
 import { freeGasLitresPerKg } from '../gas/reference-conditions';
 import { daysOfStock, projectDepletion, type DepletionModel } from './project-depletion';
-import { computeReorderPoint } from './reorder-point';
 
 // O2 density at 15 °C and 1.01325 bar from the tests/reference/README.md (Schmidt & Wagner 1985 EOS).
 const referenceReadme = readFileSync(new URL('../../../tests/reference/README.md', import.meta.url), 'utf8');
@@ -140,7 +139,7 @@ describe('projectDepletion: reorder rule', () => {
     const loxPerHour = 120_600 / 24 / lGasPerLLox;
     const evapPerHour = (0.005 * 10_000) / 24;
     expect(loxPerHour).toBeGreaterThan(evapPerHour);
-    const reorderPointL = computeReorderPoint(Math.round(loxPerHour * 24), 2, 3);
+    const reorderPointL = Math.round(loxPerHour * 24) * (2 + 3); // the order-point rule: daily use × (lead + safety days)
     expect(Math.round(loxPerHour * 24)).toBe(143);
     expect(reorderPointL).toBe(715);
     const r = projectDepletion(

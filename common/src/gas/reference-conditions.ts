@@ -18,7 +18,7 @@ export { STANDARD_ATMOSPHERE_BAR };
 export const REFERENCE_CONDITIONS: Record<ReferenceCode, { temperatureK: number; pressureBarAbs: number; label: string }> = {
   '15C': { temperatureK: 288.15, pressureBarAbs: STANDARD_ATMOSPHERE_BAR, label: '15 °C, 1.01325 bar' },
   // 70 °F exactly: (70 − 32)·5/9 + 273.15
-  '21C': { temperatureK: 294.26111111111111, pressureBarAbs: STANDARD_ATMOSPHERE_BAR, label: '70 °F (21.1 °C), 14.696 psia' },
+  '21C': { temperatureK: 273.15 + ((70 - 32) * 5) / 9, pressureBarAbs: STANDARD_ATMOSPHERE_BAR, label: '70 °F (21.1 °C), 14.696 psia' },
   '0C': { temperatureK: 273.15, pressureBarAbs: STANDARD_ATMOSPHERE_BAR, label: '0 °C, 1.01325 bar' },
 };
 

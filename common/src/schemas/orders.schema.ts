@@ -101,4 +101,3 @@ export const outboxQuerySchema = z.object({
 export const IDEMPOTENCY_HEADER = 'idempotency-key';
 export const idempotencyKeySchema = z.string().regex(/^[\w-]{8,100}$/, 'use 8–100 letters, digits, - or _').optional();
 
-export const moneyCurrencySchema = currencySchema;

@@ -32,7 +32,13 @@ export function parseListParams(search: URLSearchParams, defaults: { pageSize?: 
 
 export function useListParams(defaults: Parameters<typeof parseListParams>[1] = {}, extras: readonly string[] = []) {
   const [search, setSearch] = useSearchParams();
-  const params = useMemo(() => parseListParams(search, defaults, extras), [search]); // eslint-disable-line react-hooks/exhaustive-deps
+  // Callers pass literals (a new object each render): depend on their content, not their identity.
+  const defaultsKey = JSON.stringify(defaults);
+  const extrasKey = extras.join('\n');
+  const params = useMemo(
+    () => parseListParams(search, JSON.parse(defaultsKey) as typeof defaults, extrasKey ? extrasKey.split('\n') : []),
+    [search, defaultsKey, extrasKey],
+  );
 
   const update = useCallback(
     (patch: Record<string, string | number | undefined>, resetPage = true) => {
@@ -52,7 +58,7 @@ export function useListParams(defaults: Parameters<typeof parseListParams>[1] = 
     [setSearch],
   );
 
-  const sorting: SortingState = params.sort ? [{ id: params.sort, desc: params.dir === 'desc' }] : [];
+  const sorting: SortingState = useMemo(() => (params.sort ? [{ id: params.sort, desc: params.dir === 'desc' }] : []), [params.sort, params.dir]);
   const setSorting = useCallback(
     (updater: SortingState | ((old: SortingState) => SortingState)) => {
       const next = typeof updater === 'function' ? updater(sorting) : updater;

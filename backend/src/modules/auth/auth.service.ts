@@ -3,7 +3,7 @@ import { In } from 'typeorm';
 import { LOGIN_LOCK_MINUTES, LOGIN_MAX_FAILURES, type Role } from '@common/api/roles';
 import type { Me } from '@common/schemas/auth.schema';
 import { db } from '../../db/db';
-import { User, UserRole, UserSite } from '../../db/entities/user.entity';
+import { User } from '../../db/entities/user.entity';
 import { Site } from '../../db/entities/site.entity';
 import { Organisation } from '../../db/entities/organisation.entity';
 import type { AuthUser } from '../../http/context';

@@ -9,11 +9,6 @@ export async function bumpSiteVersion(m: EntityManager, siteId: number): Promise
   await m.query('UPDATE site SET data_version = data_version + 1 WHERE id = ?', [siteId]);
 }
 
-/** Bumps the version of the site that owns a supply source. */
-export async function bumpSourceSiteVersion(m: EntityManager, sourceId: number): Promise<void> {
-  await m.query('UPDATE site SET data_version = data_version + 1 WHERE id = (SELECT site_id FROM supply_source WHERE id = ?)', [sourceId]);
-}
-
 export async function siteVersions(siteIds: number[], organisationId: number): Promise<Map<number, number>> {
   if (siteIds.length === 0) return new Map();
   const rows: { id: number; data_version: string | number }[] = await db().query(`SELECT id, data_version FROM site WHERE organisation_id = ? AND id IN (${siteIds.map(() => '?').join(',')})`, [organisationId, ...siteIds]);

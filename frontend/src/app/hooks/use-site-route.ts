@@ -12,17 +12,21 @@ export function useSiteRoute(siteId: number, pathFor: (id: number) => string): M
   const { site, sites, setSiteId } = useCurrentSite();
   const navigate = useNavigate();
   const urlSite = sites.find((s) => s.id === siteId) ?? null;
+  const urlSiteId = urlSite?.id;
+  const currentId = site?.id;
+  // Only a new address moves the picker, and only a new pick moves the address: each effect remembers
+  // the value it last acted on, so a change made by the other one does not bounce back.
+  const lastAddress = useRef<number | undefined>(undefined);
   useEffect(() => {
-    if (urlSite && site?.id !== urlSite.id) setSiteId(urlSite.id);
-    // only a new address should move the picker
-    // eslint-disable-next-line react-hooks/exhaustive-deps
-  }, [urlSite?.id]);
-  const previous = useRef(site?.id);
+    if (urlSiteId === undefined || lastAddress.current === urlSiteId) return;
+    lastAddress.current = urlSiteId;
+    if (currentId !== urlSiteId) setSiteId(urlSiteId);
+  }, [urlSiteId, currentId, setSiteId]);
+  const lastPick = useRef(currentId);
   useEffect(() => {
-    if (!site || previous.current === site.id) return;
-    previous.current = site.id;
-    if (site.id !== siteId) navigate(pathFor(site.id));
-    // eslint-disable-next-line react-hooks/exhaustive-deps
-  }, [site?.id]);
+    if (currentId === undefined || lastPick.current === currentId) return;
+    lastPick.current = currentId;
+    if (currentId !== siteId) navigate(pathFor(currentId));
+  }, [currentId, siteId, navigate, pathFor]);
   return urlSite;
 }

@@ -13,6 +13,7 @@ import { cn } from '@/lib/cn';
 import { Icon } from './icons';
 
 declare module '@tanstack/react-table' {
+  // Declaration merging must repeat the library's two type parameters, though this block uses neither.
   // eslint-disable-next-line @typescript-eslint/no-unused-vars
   interface ColumnMeta<TData, TValue> {
     /** Right-aligned numbers with tabular figures. */
@@ -23,6 +24,8 @@ declare module '@tanstack/react-table' {
 
 interface DataTableProps<T> {
   caption: string;
+  // The column helper gives every column its own value type; a list of them fits only ColumnDef<T, any>.
+  // eslint-disable-next-line @typescript-eslint/no-explicit-any
   columns: ColumnDef<T, any>[];
   data: T[];
   getRowId?: (row: T) => string;

@@ -82,8 +82,9 @@ export function UploadForm({ siteId, maxMb, onUploaded }: { siteId: number; maxM
             <legend className="mb-1 text-sm font-bold">What the file holds</legend>
             <div className="grid gap-2 sm:grid-cols-2">
               {IMPORT_KINDS.map((k) => (
-                <label key={k} className={`flex min-h-11 cursor-pointer gap-3 rounded-lg border p-3 ${k === kind ? 'border-primary bg-primary-soft' : 'border-line-strong bg-surface'}`}>
+                <label key={k} htmlFor={`import-kind-${k}`} className={`flex min-h-11 cursor-pointer gap-3 rounded-lg border p-3 ${k === kind ? 'border-primary bg-primary-soft' : 'border-line-strong bg-surface'}`}>
                   <input
+                    id={`import-kind-${k}`}
                     type="radio"
                     name="kind"
                     value={k}

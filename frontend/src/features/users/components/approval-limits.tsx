@@ -111,7 +111,7 @@ function ApprovalLimitForm({ officer, currencies, defaultCurrency, onDone }: { o
       )}
       <div className="grid gap-4 sm:grid-cols-[1fr_8rem]">
         <Field label="Limit per order" hint="The total of one order this officer may approve alone. 0 means they cannot approve." error={e.limitMinor?.message}>
-          {(c) => <Controller control={control} name="limitMinor" render={({ field }) => <MoneyInput {...c} key={currency} currency={currency} value={field.value} onChange={field.onChange} onBlur={field.onBlur} autoFocus />} />}
+          {(c) => <Controller control={control} name="limitMinor" render={({ field }) => <MoneyInput {...c} key={currency} currency={currency} value={field.value} onChange={field.onChange} onBlur={field.onBlur} />} />}
         </Field>
         <Field label="Currency" hint={options.length > 1 ? 'As the sites’ orders.' : undefined} error={e.currency?.message}>
           {(c) => (
