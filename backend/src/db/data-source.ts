@@ -5,6 +5,7 @@ import { SnakeNamingStrategy } from './naming-strategy';
 import { entities } from './entities';
 import { migrations } from './migrations';
 import { isLockConflict } from './db-errors';
+import { backoffMs } from '@common/api/backoff';
 
 // The last overload of DataSource.transaction takes the isolation level first.
 type IsolationLevel = Parameters<DataSource['transaction']>[0];
@@ -28,7 +29,7 @@ export class RetryingDataSource extends DataSource {
       } catch (e) {
         if (attempt >= TRANSACTION_ATTEMPTS || !isLockConflict(e)) throw e;
         // Exponential back-off with full jitter, so the victims of one deadlock do not meet again at once.
-        await new Promise((r) => setTimeout(r, Math.random() * Math.min(1_000, 10 * 2 ** attempt)));
+        await new Promise((r) => setTimeout(r, backoffMs(attempt, { baseMs: 20, maxMs: 1_000, jitter: 'full' })));
       }
     }
   }

@@ -1,6 +1,6 @@
 import type { Response } from 'express';
 import { In } from 'typeorm';
-import { csvCell } from '@common/api/csv';
+import { csvLine } from '@common/api/csv';
 import type { ExportTable } from '@common/schemas/usage.schema';
 import { cylinderTypeName } from '@common/catalogue/cylinder-type';
 import { db } from '../../db/db';
@@ -14,7 +14,7 @@ import { getSiteFor } from '../sites/sites.service';
 import { presentSource } from '../supply/supply.service';
 
 /**
- * CSV exports of a site's tables. Every cell goes through csvCell, which quotes per RFC 4180 and puts
+ * CSV exports of a site's tables. Every record goes through csvLine (csv-stringify), which quotes per RFC 4180 and puts
  * an apostrophe before text starting with = + - @ so a spreadsheet shows it instead of running it.
  * Readings can run to millions of rows: they stream from the database with back-pressure.
  */
@@ -23,7 +23,7 @@ async function write(res: Response, text: string): Promise<void> {
   if (!res.write(text)) await new Promise<void>((resolve) => res.once('drain', resolve));
 }
 
-const line = (cells: unknown[]) => `${cells.map(csvCell).join(',')}\r\n`;
+const line = csvLine;
 
 export async function exportTable(actor: Actor, siteId: number, table: ExportTable, res: Response): Promise<void> {
   const site = await getSiteFor(actor, siteId);

@@ -10,6 +10,7 @@ import { recordAudit, whoOf } from '../audit/audit.service';
 import { addEvent } from './orders.shared';
 import { isDuplicateKey } from './transactions';
 import { pdfForOrder } from './purchase-orders.service';
+import { backoffMs } from '@common/api/backoff';
 
 export interface OutgoingMail {
   organisationId: number;
@@ -49,12 +50,6 @@ export async function enqueueMail(m: EntityManager, mail: OutgoingMail): Promise
     if (isDuplicateKey(e)) return false;
     throw e;
   }
-}
-
-/** Exponential back-off with jitter, capped: base × 2^(attempt−1) × (0.75…1.25), at most the cap. */
-export function backoffMs(attempt: number, baseMs: number, maxMs: number, random = Math.random): number {
-  const raw = baseMs * 2 ** Math.min(30, Math.max(0, attempt - 1));
-  return Math.min(maxMs, Math.round(raw * (0.75 + random() * 0.5)));
 }
 
 /** An SMTP refusal of the message itself (5xx) is permanent; anything else (no answer, 4xx) is worth retrying. */
@@ -112,7 +107,7 @@ export async function sendNextMail(ds: DataSource = db()): Promise<boolean> {
       const failed = permanent && attempts >= e.OUTBOX_MAX_ATTEMPTS;
       await m.getRepository(MailOutbox).update(
         { id: msg.id },
-        { attempts, lastError: text.slice(0, 1000), status: failed ? 'failed' : 'pending', nextAttemptAt: new Date(Date.now() + backoffMs(attempts, e.OUTBOX_BACKOFF_BASE_MS, e.OUTBOX_BACKOFF_MAX_MS)) },
+        { attempts, lastError: text.slice(0, 1000), status: failed ? 'failed' : 'pending', nextAttemptAt: new Date(Date.now() + backoffMs(attempts, { baseMs: e.OUTBOX_BACKOFF_BASE_MS, maxMs: e.OUTBOX_BACKOFF_MAX_MS })) },
       );
       if (failed && msg.requestId) await addEvent(m, msg.requestId, null, 'email_failed', null, null, `The message "${msg.subject}" could not be delivered after ${attempts} attempts: ${text.slice(0, 300)}`);
       logger.error(`outbox ${msg.id}: attempt ${attempts} failed${failed ? ' (marked failed)' : ''}: ${text}`);
