@@ -1,18 +1,30 @@
-/** A small leveled logger on stdout/stderr (one line per event; never logs request bodies or passwords). */
-const levels = { silent: 0, error: 1, info: 2, debug: 3 } as const;
-let level: keyof typeof levels = 'info';
+/**
+ * The app's logger: pino, one JSON line per event on stdout (what log collectors read). It never logs
+ * request bodies, cookies or passwords; request lines (pino-http, see middleware/request-id.ts) carry
+ * only the method, the path without its query, the status, the time taken and the request id.
+ */
+import { pino } from 'pino';
+
+export type LogLevel = 'silent' | 'error' | 'info' | 'debug';
+
+export const baseLogger = pino({
+  level: 'info',
+  base: undefined,
+  timestamp: pino.stdTimeFunctions.isoTime,
+  formatters: { level: (label) => ({ level: label }) },
+});
 
 export const logger = {
-  setLevel(l: keyof typeof levels) {
-    level = l;
+  setLevel(l: LogLevel) {
+    baseLogger.level = l;
   },
   error(msg: string) {
-    if (levels[level] >= 1) console.error(`${new Date().toISOString()} ERROR ${msg}`);
+    baseLogger.error(msg);
   },
   info(msg: string) {
-    if (levels[level] >= 2) console.log(`${new Date().toISOString()} INFO ${msg}`);
+    baseLogger.info(msg);
   },
   debug(msg: string) {
-    if (levels[level] >= 3) console.log(`${new Date().toISOString()} DEBUG ${msg}`);
+    baseLogger.debug(msg);
   },
 };

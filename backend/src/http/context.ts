@@ -38,5 +38,5 @@ declare module 'express-session' {
 
 export function actorOf(req: Request): Actor {
   if (!req.user) throw unauthorised();
-  return { user: req.user, requestId: req.id };
+  return { user: req.user, requestId: String(req.id) };
 }

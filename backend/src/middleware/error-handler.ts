@@ -37,7 +37,7 @@ export function errorHandler(err: unknown, req: Request, res: Response, _next: N
     body = { error: { code: 'service_unavailable', message: 'The database is not reachable just now; nothing was changed. Try again in a moment.' } };
     logger.error(`[${req.id}] database unavailable: ${e?.message}`);
   } else {
-    logger.error(`[${req.id}] ${req.method} ${req.originalUrl}: ${(err as Error)?.stack ?? String(err)}`);
+    logger.error(`[${req.id}] ${req.method} ${req.path}: ${(err as Error)?.stack ?? String(err)}`);
   }
   if (status === 503) res.setHeader('Retry-After', '5');
   res.status(status).json(body);
