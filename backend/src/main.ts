@@ -11,6 +11,7 @@ import { startImportWorkerProcess } from './modules/imports/import-worker-proces
 import { startReminderJob } from './modules/usage/usage-reminder';
 import { closeBulkPool } from './db/bulk-pool';
 import { startOrderJobs, type OrderJobs } from './modules/orders/order-jobs';
+import { fileStore } from './storage/file-store';
 
 const e = env();
 logger.setLevel(e.LOG_LEVEL);
@@ -29,6 +30,8 @@ if (pending) {
   logger.error('The database has migrations that have not run: run `npm run migrate` (scripts/start and scripts/test do it)');
   process.exit(1);
 }
+// Uploads wait in the file store: a wrong bucket or endpoint stops the start here, not an upload later.
+await fileStore().ready();
 const { app, close } = await createApp();
 const server: Server = app.listen(e.PORT, e.HOST, (err?: Error) => {
   if (err) {

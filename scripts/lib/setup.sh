@@ -92,6 +92,33 @@ stop_mariadb() {
   kill -9 "$MARIADB_PID" 2>/dev/null || true
 }
 
+# start_fake_s3 DIR PORT: the local S3-compatible store (s3rver) in the background; sets FAKE_S3_PID and
+# exports the app's FILE_STORE/S3_* settings to use it.
+start_fake_s3() {
+  local dir="$1" port="$2"
+  mkdir -p "$dir"
+  export FILE_STORE=s3 S3_ENDPOINT="http://127.0.0.1:$port" S3_FORCE_PATH_STYLE=true S3_REGION=us-east-1
+  export S3_BUCKET="${S3_BUCKET:-plenum-uploads}" S3_ACCESS_KEY_ID=S3RVER S3_SECRET_ACCESS_KEY=S3RVER
+  # The SDK warns once per process that its 2027 releases need Node 22; nothing to act on here.
+  export AWS_SDK_JS_NODE_VERSION_SUPPORT_WARNING_DISABLED=true
+  S3_FAKE_PORT="$port" S3_FAKE_DIR="$dir" node --import tsx "$ROOT/backend/src/storage/fake-s3.main.ts" >"$dir.log" 2>&1 &
+  FAKE_S3_PID=$!
+  local i
+  for i in $(seq 1 100); do
+    if (echo >/dev/tcp/127.0.0.1/"$port") 2>/dev/null; then log "Local S3 store on 127.0.0.1:$port"; return 0; fi
+    kill -0 "$FAKE_S3_PID" 2>/dev/null || { log "The local S3 store exited: see $dir.log"; tail -5 "$dir.log"; return 1; }
+    sleep 0.1
+  done
+  log "The local S3 store did not answer in 10 s"; return 1
+}
+
+stop_fake_s3() {
+  [ -n "${FAKE_S3_PID:-}" ] || return 0
+  kill "$FAKE_S3_PID" 2>/dev/null || true
+  wait "$FAKE_S3_PID" 2>/dev/null || true
+  FAKE_S3_PID=""
+}
+
 # create_database NAME USER PASSWORD: the app's database and user (idempotent).
 create_database() {
   local db="$1" user="$2" pass="$3"

@@ -242,7 +242,7 @@ describe('uploads refuse what is not CSV text or is too large, storing nothing',
   }
   const stored = async () => {
     const [row] = await app.ds.query('SELECT (SELECT COUNT(*) FROM import_file WHERE site_id = ?) AS files, (SELECT COUNT(*) FROM import_job WHERE site_id = ?) AS jobs', [org.siteIds[0], org.siteIds[0]]);
-    return { files: Number(row.files), jobs: Number(row.jobs), onDisk: readdirSync(uploadDir).length };
+    return { files: Number(row.files), jobs: Number(row.jobs), onDisk: readdirSync(uploadDir, { recursive: true, withFileTypes: true }).filter((d) => d.isFile()).length };
   };
 
   // PNG signature and header bytes (PNG specification, section 5.2): binary with NUL bytes.

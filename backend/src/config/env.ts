@@ -44,6 +44,20 @@ const envSchema = z.object({
   UPLOAD_MAX_MB: z.coerce.number().positive().max(2048).default(100),
   /** Where uploaded files wait between upload and import (deleted after); default: the system temp folder. */
   UPLOAD_DIR: z.string().default(''),
+  /**
+   * Where uploads wait for their import: `disk` (UPLOAD_DIR, one process only) or `s3` (an S3-compatible
+   * object store every app process reaches; scripts/start, scripts/cluster and the tests run a local one).
+   */
+  FILE_STORE: z.enum(['disk', 's3']).default('disk'),
+  S3_ENDPOINT: z.string().url('S3_ENDPOINT must be a URL such as https://s3.eu-west-2.amazonaws.com').optional(),
+  S3_REGION: z.string().default('us-east-1'),
+  S3_BUCKET: z.string().regex(/^[a-z0-9][a-z0-9.-]{1,61}[a-z0-9]$/, 'S3_BUCKET must be a valid bucket name').default('plenum-uploads'),
+  S3_ACCESS_KEY_ID: z.string().optional(),
+  S3_SECRET_ACCESS_KEY: z.string().optional(),
+  S3_FORCE_PATH_STYLE: z
+    .enum(['true', 'false'])
+    .default('false')
+    .transform((v) => v === 'true'),
   /** Rows per bulk insert of an import. */
   IMPORT_BATCH_ROWS: z.coerce.number().int().min(100).max(100_000).default(5000),
   IMPORT_POLL_MS: z.coerce.number().int().min(50).default(1000),

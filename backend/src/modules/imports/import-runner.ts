@@ -1,6 +1,5 @@
 import { hostname } from 'node:os';
 import { randomBytes } from 'node:crypto';
-import { unlink } from 'node:fs/promises';
 import { In } from 'typeorm';
 import type { PoolConnection } from 'mariadb';
 import { IMPORT_COLUMNS, type ImportKind, type ImportRowError } from '@common/schemas/usage.schema';
@@ -18,6 +17,7 @@ import { batchStatement, createRowParser, INSERT_TARGET, isBlankRecord, type Par
 import { SlotTracker } from './key-set';
 import type { JobOptions, JobPreview } from './import.service';
 import { isDuplicateKey } from '../../db/db-errors';
+import { fileStore } from '../../storage/file-store';
 
 /**
  * The background side of uploads. A job is checked (every row parsed and validated, duplicates found,
@@ -58,6 +58,9 @@ const SOURCE_TYPES: Record<ImportKind, string[]> = {
 interface Loaded {
   job: ImportJob;
   file: ImportFile;
+  /** A local copy of the stored upload (the file store may be remote), released after the run. */
+  localPath: string;
+  release: () => Promise<void>;
   options: JobOptions;
   ctx: RowContext;
   parse: RowParser;
@@ -116,7 +119,14 @@ async function load(job: ImportJob, now = Date.now()): Promise<Loaded> {
   // Targets are wards (daily usage, a meter on a ward) or sources: ids of the two tables overlap, so one map per upload.
   const byWard = kind === 'historic_usage' || (kind === 'flow_meter_totals' && chosenWard !== null);
   const names = new Map<number, string>(byWard ? wards.map((w) => [w.id, w.name] as [number, string]) : sources.map((s) => [s.id, s.name] as [number, string]));
-  return { job, file, options, ctx, parse: createRowParser(ctx), names };
+  let copy;
+  try {
+    copy = await fileStore().localCopy(file.storagePath);
+  } catch (e) {
+    logger.error(`upload file ${file.id} cannot be read from the file store: ${(e as Error).message}`);
+    throw new RowFailure([], 'The uploaded file cannot be read from the file store: upload it again');
+  }
+  return { job, file, localPath: copy.path, release: copy.release, options, ctx, parse: createRowParser(ctx), names };
 }
 
 function timeLabel(kind: ImportKind): string {
@@ -191,6 +201,14 @@ export async function validateJob(job: ImportJob, workerId: string, signal: { st
     }
     throw e;
   }
+  try {
+    await validateLoaded(l, job, workerId, signal);
+  } finally {
+    await l.release();
+  }
+}
+
+async function validateLoaded(l: Loaded, job: ImportJob, workerId: string, signal: { stopping: boolean }): Promise<void> {
   const { ctx, parse } = l;
   const errors: ImportRowError[] = [];
   let errorCount = 0;
@@ -204,7 +222,7 @@ export async function validateJob(job: ImportJob, workerId: string, signal: { st
   let rows = 0;
   let last = Date.now();
   try {
-    for await (const { firstLine, records } of readCsvChunks(l.file.storagePath!, ctx.separator)) {
+    for await (const { firstLine, records } of readCsvChunks(l.localPath, ctx.separator)) {
       for (let k = 0; k < records.length; k++) {
         const record = records[k];
         if (isBlankRecord(record)) continue;
@@ -315,6 +333,14 @@ export async function importJob(job: ImportJob, workerId: string, signal: { stop
     }
     throw e;
   }
+  try {
+    await importLoaded(l, job, workerId, signal, batchRows);
+  } finally {
+    await l.release();
+  }
+}
+
+async function importLoaded(l: Loaded, job: ImportJob, workerId: string, signal: { stopping: boolean }, batchRows: number): Promise<void> {
   const { ctx, parse } = l;
   const conn: PoolConnection = await bulkPool().getConnection();
   let rows = 0;
@@ -343,7 +369,7 @@ export async function importJob(job: ImportJob, workerId: string, signal: { stop
     recheck = await lockTargets(conn, ctx, checked);
     let batch: unknown[][] = [];
     let last = Date.now();
-    for await (const { firstLine, records } of readCsvChunks(l.file.storagePath!, ctx.separator)) {
+    for await (const { firstLine, records } of readCsvChunks(l.localPath, ctx.separator)) {
       for (let k = 0; k < records.length; k++) {
         const record = records[k];
         if (isBlankRecord(record)) continue;
@@ -455,7 +481,7 @@ async function checkNoRepeats(conn: PoolConnection, kind: ImportKind, ranges: Ma
 
 async function removeFile(file: ImportFile): Promise<void> {
   if (!file.storagePath) return;
-  await unlink(file.storagePath).catch(() => undefined);
+  await fileStore().remove(file.storagePath);
   await db().getRepository(ImportFile).update({ id: file.id }, { storagePath: null });
 }
 

@@ -14,6 +14,7 @@ import { getSiteFor } from '../sites/sites.service';
 import { inspectCsvFile } from './csv-file';
 import { unitsAccepted } from './import-rows';
 import { wakeImportWorker } from './import-runner';
+import { fileStore, uploadKey } from '../../storage/file-store';
 
 /** What is stored in import_job.options_json. */
 export interface JobOptions {
@@ -194,6 +195,7 @@ function duplicateError(prev: { id: number; finished_at: Date | null; inserted_r
 /** Receives an uploaded file: checks its bytes, maps its columns and queues the check of every row. */
 export async function createImport(actor: Actor, siteId: number, file: { path: string; originalname: string } | undefined, options: ImportOptions) {
   if (!file) throw badRequest('Attach a CSV file (field “file”)', [{ path: 'file', message: 'required' }]);
+  let stored: string | null = null;
   try {
     const site = await getSiteFor(actor, siteId);
     await checkTargets(db().manager, siteId, options.kind, options.sourceId, options.wardId);
@@ -211,8 +213,12 @@ export async function createImport(actor: Actor, siteId: number, file: { path: s
       mapping: options.mapping ?? auto.mapping,
     };
     const problems = missingChoices(options.kind, jobOptions, info.header);
+    // Into the shared file store (streamed), so whichever app process runs the import can read it.
+    const key = uploadKey(actor.user.organisationId, siteId);
+    await fileStore().putFile(file.path, key);
+    stored = key;
     const job = await db().transaction(async (m) => {
-      const f = await m.getRepository(ImportFile).save(m.getRepository(ImportFile).create({ organisationId: actor.user.organisationId, siteId, sha256: info.sha256, originalName: file.originalname.slice(0, 255), sizeBytes: String(info.sizeBytes), lineCount: info.lineCount, storagePath: file.path, uploadedByUserId: actor.user.id }));
+      const f = await m.getRepository(ImportFile).save(m.getRepository(ImportFile).create({ organisationId: actor.user.organisationId, siteId, sha256: info.sha256, originalName: file.originalname.slice(0, 255), sizeBytes: String(info.sizeBytes), lineCount: info.lineCount, storagePath: key, uploadedByUserId: actor.user.id }));
       const j = await m.getRepository(ImportJob).save(
         m.getRepository(ImportJob).create({
           organisationId: actor.user.organisationId,
@@ -236,6 +242,7 @@ export async function createImport(actor: Actor, siteId: number, file: { path: s
     return present(db().manager, job);
   } catch (e) {
     await unlink(file.path).catch(() => undefined);
+    if (stored) await fileStore().remove(stored);
     throw e;
   }
 }
@@ -319,7 +326,7 @@ export async function discardFile(fileId: number): Promise<void> {
   const f = await db().getRepository(ImportFile).findOneBy({ id: fileId });
   if (!f?.storagePath) return;
   // Another job may use the same stored file only if it is the same upload: files are per upload.
-  await unlink(f.storagePath).catch(() => undefined);
+  await fileStore().remove(f.storagePath);
   await db().getRepository(ImportFile).update({ id: fileId }, { storagePath: null });
 }
 

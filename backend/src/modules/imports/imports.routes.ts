@@ -1,5 +1,4 @@
 import { mkdir, unlink } from 'node:fs/promises';
-import { tmpdir } from 'node:os';
 import path from 'node:path';
 import { randomBytes } from 'node:crypto';
 import type { NextFunction, Request, Response } from 'express';
@@ -14,18 +13,18 @@ import { env } from '../../config/env';
 import { AppError, badRequest } from '../../errors/app-error';
 import * as svc from './import.service';
 import { exportTable } from './exports';
+import { uploadDir } from '../../storage/file-store';
 import { getSiteFor } from '../sites/sites.service';
 
 const id = (params: unknown) => validate(idParamSchema, params, 'address').id;
 const FM: Role[] = ['facilities_manager'];
 
-export function uploadDir(): string {
-  return env().UPLOAD_DIR || path.join(tmpdir(), 'plenum-uploads');
-}
-
-/** multer to disk (never memory: files reach hundreds of MB) with the size limit and clear messages. */
+/**
+ * multer to a local staging folder (never memory: files reach hundreds of MB) with the size limit and
+ * clear messages; the service then checks the bytes and streams them into the shared file store.
+ */
 function uploadCsv(req: Request, res: Response, next: NextFunction): void {
-  const dir = uploadDir();
+  const dir = path.join(uploadDir(), 'incoming');
   const limitMb = env().UPLOAD_MAX_MB;
   const upload = multer({
     storage: multer.diskStorage({

@@ -1,0 +1,15 @@
+// s3rver ships no type declarations; this is the part of its API that fake-s3.main.ts uses.
+declare module 's3rver' {
+  interface S3rverOptions {
+    port?: number;
+    address?: string;
+    directory: string;
+    silent?: boolean;
+    configureBuckets?: { name: string; configs?: string[] }[];
+  }
+  export default class S3rver {
+    constructor(options: S3rverOptions);
+    run(): Promise<{ address: string; port: number }>;
+    close(): Promise<void>;
+  }
+}
