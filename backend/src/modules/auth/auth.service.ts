@@ -18,9 +18,16 @@ export class SignInError extends AppError {}
 
 const INVALID = () => new SignInError(401, 'invalid_credentials', 'E-mail or password is not right');
 
+function lockedError(until: Date, now: Date): SignInError {
+  const minutes = Math.max(1, Math.ceil((until.getTime() - now.getTime()) / 60000));
+  return new SignInError(423, 'account_locked', `Too many failed sign-ins: this account is locked for ${minutes} more minute${minutes === 1 ? '' : 's'}. An administrator can unlock it.`);
+}
+
 /**
  * Checks an e-mail and password. Counts consecutive failures and locks the account for
  * LOGIN_LOCK_MINUTES after LOGIN_MAX_FAILURES; a locked account is refused before the password is checked.
+ * The count is kept in the database under a row lock (SELECT … FOR UPDATE), so parallel guesses are counted
+ * one after another and the lock is decided from the stored value, never from a copy read earlier.
  */
 export async function verifyCredentials(email: string, password: string): Promise<AuthUser> {
   const repo = db().getRepository(User);
@@ -32,27 +39,35 @@ export async function verifyCredentials(email: string, password: string): Promis
     throw INVALID();
   }
   const now = new Date();
-  if (user.lockedUntil && user.lockedUntil > now) {
-    const minutes = Math.ceil((user.lockedUntil.getTime() - now.getTime()) / 60000);
-    throw new SignInError(423, 'account_locked', `Too many failed sign-ins: this account is locked for ${minutes} more minute${minutes === 1 ? '' : 's'}. An administrator can unlock it.`);
-  }
+  if (user.lockedUntil && user.lockedUntil > now) throw lockedError(user.lockedUntil, now);
   const ok = await bcrypt.compare(password, user.passwordHash);
-  if (!ok) {
-    const failures = user.failedLogins + 1;
-    const lock = failures >= LOGIN_MAX_FAILURES ? new Date(now.getTime() + LOGIN_LOCK_MINUTES * 60000) : null;
-    await repo.update({ id: user.id }, { failedLogins: lock ? 0 : failures, lockedUntil: lock });
-    if (lock) {
-      await recordAudit(db().manager, { organisationId: user.organisationId, userId: user.id, userEmail: user.email, requestId: null }, {
-        action: 'lock',
-        entity: 'user',
-        entityId: String(user.id),
-        after: { lockedUntil: lock.toISOString(), reason: `${LOGIN_MAX_FAILURES} failed sign-ins` },
-      });
-      throw new SignInError(423, 'account_locked', `Too many failed sign-ins: this account is locked for ${LOGIN_LOCK_MINUTES} minutes. An administrator can unlock it.`);
+  const outcome = await db().transaction(async (m) => {
+    const at = new Date();
+    const [row] = (await m.query('SELECT failed_logins, locked_until FROM app_user WHERE id = ? FOR UPDATE', [user.id])) as { failed_logins: number; locked_until: Date | null }[];
+    if (!row) return { status: 'invalid' as const };
+    // Locked meanwhile by parallel guesses: every answer, the right password's too, waits for the lock.
+    if (row.locked_until && new Date(row.locked_until) > at) return { status: 'locked' as const, until: new Date(row.locked_until), at };
+    if (ok) {
+      if (Number(row.failed_logins) > 0 || row.locked_until) await m.query('UPDATE app_user SET failed_logins = 0, locked_until = NULL WHERE id = ?', [user.id]);
+      return { status: 'ok' as const };
     }
-    throw INVALID();
-  }
-  if (user.failedLogins > 0 || user.lockedUntil) await repo.update({ id: user.id }, { failedLogins: 0, lockedUntil: null });
+    const failures = Number(row.failed_logins) + 1;
+    if (failures < LOGIN_MAX_FAILURES) {
+      await m.query('UPDATE app_user SET failed_logins = ? WHERE id = ?', [failures, user.id]);
+      return { status: 'invalid' as const };
+    }
+    const until = new Date(at.getTime() + LOGIN_LOCK_MINUTES * 60000);
+    await m.query('UPDATE app_user SET failed_logins = 0, locked_until = ? WHERE id = ?', [until, user.id]);
+    await recordAudit(m, { organisationId: user.organisationId, userId: user.id, userEmail: user.email, requestId: null }, {
+      action: 'lock',
+      entity: 'user',
+      entityId: String(user.id),
+      after: { lockedUntil: until.toISOString(), reason: `${LOGIN_MAX_FAILURES} failed sign-ins` },
+    });
+    return { status: 'locked' as const, until, at };
+  });
+  if (outcome.status === 'locked') throw lockedError(outcome.until, outcome.at);
+  if (outcome.status !== 'ok') throw INVALID();
   const loaded = await loadAuthUser(user.id);
   if (!loaded) throw INVALID();
   return loaded;
