@@ -1,11 +1,13 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { LOGIN_MAX_FAILURES } from '@common/api/roles';
-import { Client, createTestOrg, PASSWORD, startTestApp, type TestApp } from '../support/test-app';
+import { Client, createTestOrg, PASSWORD, startTestApp, type TestApp, type TestOrg } from '../support/test-app';
 
 /**
- * Sign-in and session defences found in a security review: the failure counter under parallel guesses.
+ * Sign-in and session defences found in a security review: the failure counter under parallel guesses,
+ * and the lock answering the same for unknown accounts and ending by itself.
  */
 
+const sleep = (ms: number) => new Promise((r) => setTimeout(r, ms));
 const clearCounters = (app: TestApp) => app.ds.query(`DELETE FROM rate_limit_hit WHERE k LIKE 'login:%'`);
 
 // ---- the failure counter under parallel guesses -------------------------------------------------
@@ -31,4 +33,89 @@ describe('lockout counter under parallel wrong sign-ins', () => {
     expect(statuses.every((s) => s === 401 || s === 423), statuses.join(',')).toBe(true);
     expect((await new Client(app.baseUrl).login(email, PASSWORD)).status).toBe(423);
   });
+});
+
+// ---- the lock: same answer for unknown accounts, temporary with back-off ------------------------
+
+describe('account lock', () => {
+  let app: TestApp;
+  let org: TestOrg;
+  beforeAll(async () => {
+    app = await startTestApp();
+    org = await createTestOrg(app.ds);
+  });
+  afterAll(async () => {
+    await clearCounters(app);
+    await app.close();
+  });
+
+  it('an unknown e-mail is answered exactly like a known one, through the lock', async () => {
+    const known = org.users.ward_lead;
+    const unknown = `nobody-lock-${Date.now()}@test.example`;
+    for (let i = 1; i <= LOGIN_MAX_FAILURES + 1; i++) {
+      const k = await new Client(app.baseUrl).login(known, `wrong-${i}-password`);
+      const u = await new Client(app.baseUrl).login(unknown, `wrong-${i}-password`);
+      expect(u.status, `attempt ${i}`).toBe(k.status);
+      expect(u.body, `attempt ${i}`).toEqual(k.body);
+      expect(k.status, `attempt ${i}`).toBe(i < LOGIN_MAX_FAILURES ? 401 : 423);
+    }
+  });
+});
+
+describe('account lock back-off (short periods for the test)', () => {
+  // 0.02 min = 1.2 s first lock, doubling, at most 0.05 min = 3 s.
+  const BASE_MS = 1200;
+  const MAX_MS = 3000;
+  let app: TestApp;
+  let org: TestOrg;
+  beforeAll(async () => {
+    app = await startTestApp({ LOGIN_LOCK_BASE_MINUTES: '0.02', LOGIN_LOCK_MAX_MINUTES: '0.05' });
+    org = await createTestOrg(app.ds);
+  });
+  afterAll(async () => {
+    await clearCounters(app);
+    await app.close();
+  });
+
+  const lockedForMs = async (id: number, since: number) => {
+    const [row] = await app.ds.query('SELECT locked_until FROM app_user WHERE id = ?', [id]);
+    return row.locked_until ? new Date(row.locked_until).getTime() - since : 0;
+  };
+  const failUntilLocked = async (email: string) => {
+    const t = Date.now();
+    for (let i = 1; i < LOGIN_MAX_FAILURES; i++) expect((await new Client(app.baseUrl).login(email, `wrong-${i}-password`)).status).toBe(401);
+    const last = await new Client(app.baseUrl).login(email, 'wrong-last-password');
+    expect(last.status).toBe(423);
+    expect(last.body.error.code).toBe('account_locked');
+    return t;
+  };
+
+  it('locks an administrator for a while that doubles each time, capped, and ends by itself', async () => {
+    const email = org.users.administrator;
+    const id = org.userIds.administrator;
+    let t = await failUntilLocked(email);
+    let ms = await lockedForMs(id, t);
+    expect(ms).toBeGreaterThan(BASE_MS - 100);
+    expect(ms).toBeLessThan(BASE_MS + 1500);
+    expect((await new Client(app.baseUrl).login(email, PASSWORD)).status).toBe(423);
+
+    await sleep(ms + 100);
+    t = await failUntilLocked(email);
+    ms = await lockedForMs(id, t);
+    expect(ms).toBeGreaterThan(2 * BASE_MS - 100);
+    expect(ms).toBeLessThan(2 * BASE_MS + 1500);
+
+    // Let the second lock pass without waiting for it, then the third is capped at MAX (not 4 × BASE).
+    await app.ds.query('UPDATE app_user SET locked_until = TIMESTAMPADD(SECOND, -1, NOW(3)) WHERE id = ?', [id]);
+    t = await failUntilLocked(email);
+    ms = await lockedForMs(id, t);
+    expect(ms).toBeGreaterThan(MAX_MS - 100);
+    expect(ms).toBeLessThan(MAX_MS + 1500);
+
+    // Nobody unlocks it: the lock runs out and the right password works again.
+    await sleep(ms + 100);
+    const c = new Client(app.baseUrl);
+    expect((await c.login(email, PASSWORD)).status).toBe(200);
+    expect((await c.get('/api/auth/me')).status).toBe(200);
+  }, 30_000);
 });

@@ -26,6 +26,10 @@ export class User {
   @Column({ type: 'datetime', precision: 3, nullable: true })
   lockedUntil!: Date | null;
 
+  /** Temporary locks since the last successful sign-in (each lasts twice the one before, capped). */
+  @Column({ type: 'int', default: 0 })
+  lockCount!: number;
+
   @Column({ type: 'datetime', precision: 3, nullable: true })
   passwordChangedAt!: Date | null;
 

@@ -1,6 +1,6 @@
 import bcrypt from 'bcryptjs';
 import { In } from 'typeorm';
-import { LOGIN_LOCK_MINUTES, LOGIN_MAX_FAILURES, type Role } from '@common/api/roles';
+import { LOGIN_MAX_FAILURES, type Role } from '@common/api/roles';
 import type { Me } from '@common/schemas/auth.schema';
 import { db } from '../../db/db';
 import { User, UserRole, UserSite } from '../../db/entities/user.entity';
@@ -9,6 +9,7 @@ import { Organisation } from '../../db/entities/organisation.entity';
 import type { AuthUser } from '../../http/context';
 import { AppError, badRequest, unauthorised } from '../../errors/app-error';
 import { recordAudit } from '../audit/audit.service';
+import { env } from '../../config/env';
 
 export const BCRYPT_COST = 11;
 let dummyHash: string | undefined;
@@ -20,55 +21,103 @@ const INVALID = () => new SignInError(401, 'invalid_credentials', 'E-mail or pas
 
 function lockedError(until: Date, now: Date): SignInError {
   const minutes = Math.max(1, Math.ceil((until.getTime() - now.getTime()) / 60000));
-  return new SignInError(423, 'account_locked', `Too many failed sign-ins: this account is locked for ${minutes} more minute${minutes === 1 ? '' : 's'}. An administrator can unlock it.`);
+  return new SignInError(423, 'account_locked', `Too many failed sign-ins: this account is locked for ${minutes} more minute${minutes === 1 ? '' : 's'}. Try again after that, or ask an administrator to unlock it.`);
+}
+
+/** Length of the n-th lock (n = 1, 2, …) since the last successful sign-in: the base, doubling, capped. */
+export function lockMinutes(n: number, base = env().LOGIN_LOCK_BASE_MINUTES, max = env().LOGIN_LOCK_MAX_MINUTES): number {
+  return Math.min(max, base * 2 ** Math.min(Math.max(n, 1) - 1, 30));
+}
+
+/** The counter of one sign-in name, as stored (app_user for accounts, sign_in_unknown for other e-mails). */
+interface Counter {
+  failed_logins: number;
+  lock_count: number;
+  locked_until: Date | null;
 }
 
 /**
- * Checks an e-mail and password. Counts consecutive failures and locks the account for
- * LOGIN_LOCK_MINUTES after LOGIN_MAX_FAILURES; a locked account is refused before the password is checked.
- * The count is kept in the database under a row lock (SELECT … FOR UPDATE), so parallel guesses are counted
- * one after another and the lock is decided from the stored value, never from a copy read earlier.
+ * Counts one failed sign-in against a counter row that the caller holds FOR UPDATE, so parallel guesses
+ * are counted one after another and the lock is decided from the stored value.
+ */
+function afterFailure(c: Counter, now: Date): { next: Counter; lockedUntil: Date | null; alreadyLocked: boolean } {
+  if (c.locked_until && new Date(c.locked_until) > now) return { next: c, lockedUntil: new Date(c.locked_until), alreadyLocked: true };
+  const failures = Number(c.failed_logins) + 1;
+  if (failures < LOGIN_MAX_FAILURES) return { next: { ...c, failed_logins: failures }, lockedUntil: null, alreadyLocked: false };
+  const locks = Number(c.lock_count) + 1;
+  const until = new Date(now.getTime() + Math.round(lockMinutes(locks) * 60000));
+  return { next: { failed_logins: 0, lock_count: locks, locked_until: until }, lockedUntil: until, alreadyLocked: false };
+}
+
+/**
+ * Checks an e-mail and password. Consecutive failures are counted in the database, atomically (row lock),
+ * and LOGIN_MAX_FAILURES of them lock the name for a while: LOGIN_LOCK_BASE_MINUTES, doubling with each
+ * further lock up to LOGIN_LOCK_MAX_MINUTES, ending by itself (an administrator can end it sooner). An
+ * e-mail without an active account is counted and locked the same way in sign_in_unknown, and spends the
+ * same bcrypt time, so neither the answers nor their timing say which accounts exist.
  */
 export async function verifyCredentials(email: string, password: string): Promise<AuthUser> {
-  const repo = db().getRepository(User);
-  const user = await repo.findOne({ where: { email: email.trim().toLowerCase() } });
-  if (!user || !user.active) {
+  const key = email.trim().toLowerCase();
+  const user = await db().getRepository(User).findOne({ where: { email: key } });
+  const account = user && user.active ? user : null;
+  const now = new Date();
+  const before: Counter | undefined = account
+    ? { failed_logins: account.failedLogins, lock_count: account.lockCount, locked_until: account.lockedUntil }
+    : ((await db().query('SELECT failed_logins, lock_count, locked_until FROM sign_in_unknown WHERE email_key = ?', [key])) as Counter[])[0];
+  // A locked name is refused before the password is checked.
+  if (before?.locked_until && new Date(before.locked_until) > now) throw lockedError(new Date(before.locked_until), now);
+
+  let ok: boolean;
+  if (account) ok = await bcrypt.compare(password, account.passwordHash);
+  else {
     // Spend the same time as a real check, so timing does not reveal which e-mails exist.
     dummyHash ??= await bcrypt.hash('no-such-user-password', BCRYPT_COST);
     await bcrypt.compare(password, dummyHash);
-    throw INVALID();
+    ok = false;
   }
-  const now = new Date();
-  if (user.lockedUntil && user.lockedUntil > now) throw lockedError(user.lockedUntil, now);
-  const ok = await bcrypt.compare(password, user.passwordHash);
+
+  if (!account) {
+    // Forget e-mails without an account a day after their last failure (best effort, outside the count).
+    await db()
+      .query('DELETE FROM sign_in_unknown WHERE updated_at < TIMESTAMPADD(DAY, -1, NOW(3)) AND (locked_until IS NULL OR locked_until < NOW(3)) LIMIT 100')
+      .catch(() => undefined);
+  }
   const outcome = await db().transaction(async (m) => {
     const at = new Date();
-    const [row] = (await m.query('SELECT failed_logins, locked_until FROM app_user WHERE id = ? FOR UPDATE', [user.id])) as { failed_logins: number; locked_until: Date | null }[];
+    let row: Counter | undefined;
+    if (account) {
+      row = ((await m.query('SELECT failed_logins, lock_count, locked_until FROM app_user WHERE id = ? FOR UPDATE', [account.id])) as Counter[])[0];
+    } else {
+      await m.query('INSERT INTO sign_in_unknown (email_key, failed_logins, lock_count, locked_until, updated_at) VALUES (?, 0, 0, NULL, NOW(3)) ON DUPLICATE KEY UPDATE email_key = email_key', [key]);
+      row = ((await m.query('SELECT failed_logins, lock_count, locked_until FROM sign_in_unknown WHERE email_key = ? FOR UPDATE', [key])) as Counter[])[0];
+    }
     if (!row) return { status: 'invalid' as const };
-    // Locked meanwhile by parallel guesses: every answer, the right password's too, waits for the lock.
-    if (row.locked_until && new Date(row.locked_until) > at) return { status: 'locked' as const, until: new Date(row.locked_until), at };
-    if (ok) {
-      if (Number(row.failed_logins) > 0 || row.locked_until) await m.query('UPDATE app_user SET failed_logins = 0, locked_until = NULL WHERE id = ?', [user.id]);
+    if (ok && account) {
+      // Locked meanwhile by parallel guesses: the right password waits like any other.
+      if (row.locked_until && new Date(row.locked_until) > at) return { status: 'locked' as const, until: new Date(row.locked_until), at };
+      if (Number(row.failed_logins) > 0 || Number(row.lock_count) > 0 || row.locked_until) await m.query('UPDATE app_user SET failed_logins = 0, lock_count = 0, locked_until = NULL WHERE id = ?', [account.id]);
       return { status: 'ok' as const };
     }
-    const failures = Number(row.failed_logins) + 1;
-    if (failures < LOGIN_MAX_FAILURES) {
-      await m.query('UPDATE app_user SET failed_logins = ? WHERE id = ?', [failures, user.id]);
-      return { status: 'invalid' as const };
+    const f = afterFailure(row, at);
+    if (f.alreadyLocked) return { status: 'locked' as const, until: f.lockedUntil!, at };
+    if (account) {
+      await m.query('UPDATE app_user SET failed_logins = ?, lock_count = ?, locked_until = ? WHERE id = ?', [f.next.failed_logins, f.next.lock_count, f.next.locked_until, account.id]);
+      if (f.lockedUntil) {
+        await recordAudit(m, { organisationId: account.organisationId, userId: account.id, userEmail: account.email, requestId: null }, {
+          action: 'lock',
+          entity: 'user',
+          entityId: String(account.id),
+          after: { lockedUntil: f.lockedUntil.toISOString(), reason: `${LOGIN_MAX_FAILURES} failed sign-ins`, lockNumber: f.next.lock_count },
+        });
+      }
+    } else {
+      await m.query('UPDATE sign_in_unknown SET failed_logins = ?, lock_count = ?, locked_until = ?, updated_at = NOW(3) WHERE email_key = ?', [f.next.failed_logins, f.next.lock_count, f.next.locked_until, key]);
     }
-    const until = new Date(at.getTime() + LOGIN_LOCK_MINUTES * 60000);
-    await m.query('UPDATE app_user SET failed_logins = 0, locked_until = ? WHERE id = ?', [until, user.id]);
-    await recordAudit(m, { organisationId: user.organisationId, userId: user.id, userEmail: user.email, requestId: null }, {
-      action: 'lock',
-      entity: 'user',
-      entityId: String(user.id),
-      after: { lockedUntil: until.toISOString(), reason: `${LOGIN_MAX_FAILURES} failed sign-ins` },
-    });
-    return { status: 'locked' as const, until, at };
+    return f.lockedUntil ? { status: 'locked' as const, until: f.lockedUntil, at } : { status: 'invalid' as const };
   });
   if (outcome.status === 'locked') throw lockedError(outcome.until, outcome.at);
-  if (outcome.status !== 'ok') throw INVALID();
-  const loaded = await loadAuthUser(user.id);
+  if (outcome.status !== 'ok' || !account) throw INVALID();
+  const loaded = await loadAuthUser(account.id);
   if (!loaded) throw INVALID();
   return loaded;
 }

@@ -95,6 +95,7 @@ export async function updateUser(actor: Actor, id: number, input: UserUpdateInpu
       patch.passwordChangedAt = new Date();
       patch.failedLogins = 0;
       patch.lockedUntil = null;
+      patch.lockCount = 0;
     }
     if (Object.keys(patch).length) await m.getRepository(User).update({ id }, patch);
     if (input.roles) {
@@ -115,7 +116,7 @@ export async function updateUser(actor: Actor, id: number, input: UserUpdateInpu
 export async function unlockUser(actor: Actor, id: number): Promise<UserRow> {
   return db().transaction(async (m) => {
     await getInOrg(m, actor, id);
-    await m.getRepository(User).update({ id }, { failedLogins: 0, lockedUntil: null });
+    await m.getRepository(User).update({ id }, { failedLogins: 0, lockedUntil: null, lockCount: 0 });
     const [row] = await present(m, [await getInOrg(m, actor, id)]);
     await recordAudit(m, whoOf(actor), { action: 'unlock', entity: 'user', entityId: String(id), after: row });
     return row;
