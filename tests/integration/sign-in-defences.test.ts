@@ -1,10 +1,11 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { LOGIN_MAX_FAILURES } from '@common/api/roles';
-import { Client, createTestOrg, PASSWORD, startTestApp, type TestApp, type TestOrg } from '../support/test-app';
+import { Client, createTestOrg, PASSWORD, signedIn, startTestApp, type TestApp, type TestOrg } from '../support/test-app';
 
 /**
  * Sign-in and session defences found in a security review: the failure counter under parallel guesses,
- * and the lock answering the same for unknown accounts and ending by itself.
+ * other sessions after a password change or reset, and the lock answering the same for unknown accounts
+ * and ending by itself.
  */
 
 const sleep = (ms: number) => new Promise((r) => setTimeout(r, ms));
@@ -32,6 +33,61 @@ describe('lockout counter under parallel wrong sign-ins', () => {
     expect(statuses.filter((s) => s === 423).length, statuses.join(',')).toBeGreaterThanOrEqual(10 - (LOGIN_MAX_FAILURES - 1));
     expect(statuses.every((s) => s === 401 || s === 423), statuses.join(',')).toBe(true);
     expect((await new Client(app.baseUrl).login(email, PASSWORD)).status).toBe(423);
+  });
+});
+
+// ---- other sessions after a password change or an administrator's reset ----------------------
+
+describe('a new password ends every other session of the user', () => {
+  let app: TestApp;
+  let org: TestOrg;
+  beforeAll(async () => {
+    app = await startTestApp();
+    org = await createTestOrg(app.ds);
+  });
+  afterAll(async () => {
+    await app.close();
+  });
+
+  it('after a change of one’s own password, session B is signed out and session A stays signed in', async () => {
+    const a = await signedIn(app, org.users.ward_lead);
+    const b = await signedIn(app, org.users.ward_lead);
+    expect((await b.get('/api/auth/me')).status).toBe(200);
+    expect((await a.post('/api/auth/password', { currentPassword: PASSWORD, newPassword: 'the-new-long-password' })).status).toBe(200);
+    expect((await b.get('/api/auth/me')).status).toBe(401);
+    expect((await a.get('/api/auth/me')).status).toBe(200);
+    // A's CSRF token still works: a wrong current password is refused as such (400), not as CSRF (403).
+    expect((await a.post('/api/auth/password', { currentPassword: 'not-the-password', newPassword: 'another-long-password' })).status).toBe(400);
+    // Signing in again with the new password gives a working session.
+    const again = new Client(app.baseUrl);
+    expect((await again.login(org.users.ward_lead, 'the-new-long-password')).status).toBe(200);
+    expect((await again.get('/api/auth/me')).status).toBe(200);
+  });
+
+  it('after an administrator resets the password, every session of that user is signed out', async () => {
+    const user = await signedIn(app, org.users.biomedical_engineer);
+    const admin = await signedIn(app, org.users.administrator);
+    expect((await admin.patch(`/api/users/${org.userIds.biomedical_engineer}`, { password: 'reset-by-the-admin-1' })).status).toBe(200);
+    expect((await user.get('/api/auth/me')).status).toBe(401);
+    expect((await admin.get('/api/auth/me')).status).toBe(200);
+    expect((await new Client(app.baseUrl).login(org.users.biomedical_engineer, 'reset-by-the-admin-1')).status).toBe(200);
+  });
+
+  it('an administrator resetting their own password stays signed in; their other session does not', async () => {
+    const here = await signedIn(app, org.users.administrator);
+    const elsewhere = await signedIn(app, org.users.administrator);
+    expect((await here.patch(`/api/users/${org.userIds.administrator}`, { password: 'admin-own-new-password' })).status).toBe(200);
+    expect((await elsewhere.get('/api/auth/me')).status).toBe(401);
+    expect((await here.get('/api/auth/me')).status).toBe(200);
+    expect((await here.patch(`/api/users/${org.userIds.administrator}`, { name: 'Administrator renamed' })).status).toBe(200);
+  });
+
+  it('a change of name or roles signs nobody out', async () => {
+    const local = await createTestOrg(app.ds);
+    const user = await signedIn(app, local.users.purchasing_officer);
+    const admin = await signedIn(app, local.users.administrator);
+    expect((await admin.patch(`/api/users/${local.userIds.purchasing_officer}`, { name: 'Purchasing renamed', roles: ['purchasing_officer', 'ward_lead'] })).status).toBe(200);
+    expect((await user.get('/api/auth/me')).status).toBe(200);
   });
 });
 
@@ -81,9 +137,10 @@ describe('account lock back-off (short periods for the test)', () => {
     const [row] = await app.ds.query('SELECT locked_until FROM app_user WHERE id = ?', [id]);
     return row.locked_until ? new Date(row.locked_until).getTime() - since : 0;
   };
+  /** Fails until the lock; returns the time just before the failure that locked. */
   const failUntilLocked = async (email: string) => {
-    const t = Date.now();
     for (let i = 1; i < LOGIN_MAX_FAILURES; i++) expect((await new Client(app.baseUrl).login(email, `wrong-${i}-password`)).status).toBe(401);
+    const t = Date.now();
     const last = await new Client(app.baseUrl).login(email, 'wrong-last-password');
     expect(last.status).toBe(423);
     expect(last.body.error.code).toBe('account_locked');

@@ -33,6 +33,10 @@ export class User {
   @Column({ type: 'datetime', precision: 3, nullable: true })
   passwordChangedAt!: Date | null;
 
+  /** Stored in each signed-in session; a new password bumps it, which ends the user's other sessions. */
+  @Column({ type: 'int', default: 0 })
+  sessionGeneration!: number;
+
   @CreateDateColumn({ type: 'datetime', precision: 3, default: () => 'CURRENT_TIMESTAMP(3)' })
   createdAt!: Date;
 }

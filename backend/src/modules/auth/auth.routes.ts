@@ -9,6 +9,7 @@ import { csrfTokenFor } from '../../middleware/csrf';
 import { MariaDbRateLimitStore } from '../../middleware/rate-limit-store';
 import { env } from '../../config/env';
 import { changePassword, describeMe } from './auth.service';
+import { keepSessionSignedIn } from './passport';
 import { recordAudit } from '../audit/audit.service';
 import { db } from '../../db/db';
 import { AppError } from '../../errors/app-error';
@@ -95,7 +96,9 @@ export function authRoutes(): RouteDef[] {
       handler: async (req) => {
         const body = validate(changePasswordSchema, req.body, 'password change');
         const actor = actorOf(req);
+        // Ends the user's other sessions; this one carries on.
         await changePassword(actor.user, body.currentPassword, body.newPassword, actor.requestId);
+        await keepSessionSignedIn(req, actor.user.id);
         return { ok: true };
       },
     },

@@ -17,6 +17,9 @@ let dummyHash: string | undefined;
 /** Why a sign-in failed; the message never says whether the e-mail exists. */
 export class SignInError extends AppError {}
 
+/** The signed-in user and the session generation the session was signed in with. */
+export type SessionUser = AuthUser & { sessionGeneration: number };
+
 const INVALID = () => new SignInError(401, 'invalid_credentials', 'E-mail or password is not right');
 
 function lockedError(until: Date, now: Date): SignInError {
@@ -56,7 +59,7 @@ function afterFailure(c: Counter, now: Date): { next: Counter; lockedUntil: Date
  * e-mail without an active account is counted and locked the same way in sign_in_unknown, and spends the
  * same bcrypt time, so neither the answers nor their timing say which accounts exist.
  */
-export async function verifyCredentials(email: string, password: string): Promise<AuthUser> {
+export async function verifyCredentials(email: string, password: string): Promise<SessionUser> {
   const key = email.trim().toLowerCase();
   const user = await db().getRepository(User).findOne({ where: { email: key } });
   const account = user && user.active ? user : null;
@@ -122,11 +125,15 @@ export async function verifyCredentials(email: string, password: string): Promis
   return loaded;
 }
 
-/** Loads the user with roles and granted sites (administrators see every site of their organisation). */
-export async function loadAuthUser(id: number): Promise<AuthUser | null> {
+/**
+ * Loads the user with roles and granted sites (administrators see every site of their organisation).
+ * With `generation` (from a session): null unless the user's session generation is still that one, so a
+ * session signed in before the last password change or reset no longer signs anybody in.
+ */
+export async function loadAuthUser(id: number, generation?: number): Promise<SessionUser | null> {
   // One round trip: the user with roles and granted sites (administrators: every site of the organisation).
-  const rows: { id: number; organisation_id: number; email: string; name: string; active: number; roles: string | null; granted: string | null; all_sites: string | null }[] = await db().query(
-    `SELECT u.id, u.organisation_id, u.email, u.name, u.active,
+  const rows: { id: number; organisation_id: number; email: string; name: string; active: number; session_generation: number; roles: string | null; granted: string | null; all_sites: string | null }[] = await db().query(
+    `SELECT u.id, u.organisation_id, u.email, u.name, u.active, u.session_generation,
        (SELECT GROUP_CONCAT(r.role) FROM user_role r WHERE r.user_id = u.id) AS roles,
        (SELECT GROUP_CONCAT(us.site_id) FROM user_site us WHERE us.user_id = u.id) AS granted,
        (SELECT GROUP_CONCAT(s.id) FROM site s WHERE s.organisation_id = u.organisation_id) AS all_sites
@@ -135,10 +142,11 @@ export async function loadAuthUser(id: number): Promise<AuthUser | null> {
   );
   const u = rows[0];
   if (!u || !Number(u.active)) return null;
+  if (generation !== undefined && Number(u.session_generation) !== generation) return null;
   const roles = (u.roles ? u.roles.split(',') : []).sort() as Role[];
   const list = (roles.includes('administrator') ? u.all_sites : u.granted) ?? '';
   const siteIds = list ? list.split(',').map(Number).sort((a, b) => a - b) : [];
-  return { id: Number(u.id), organisationId: Number(u.organisation_id), email: u.email, name: u.name, roles, siteIds };
+  return { id: Number(u.id), organisationId: Number(u.organisation_id), email: u.email, name: u.name, roles, siteIds, sessionGeneration: Number(u.session_generation) };
 }
 
 /** What GET /api/auth/me returns. */
@@ -168,8 +176,11 @@ export async function hashPassword(password: string): Promise<string> {
   return bcrypt.hash(password, BCRYPT_COST);
 }
 
-/** Changes the caller's password after checking the current one. */
-export async function changePassword(user: AuthUser, currentPassword: string, newPassword: string, requestId: string): Promise<void> {
+/**
+ * Changes the caller's password after checking the current one, and ends the user's other sessions (bumps
+ * the session generation). Returns the new generation, for the caller's own session to carry on with.
+ */
+export async function changePassword(user: AuthUser, currentPassword: string, newPassword: string, requestId: string): Promise<number> {
   const repo = db().getRepository(User);
   const row = await repo.findOneBy({ id: user.id });
   if (!row) throw unauthorised();
@@ -177,8 +188,10 @@ export async function changePassword(user: AuthUser, currentPassword: string, ne
     throw badRequest('The current password is not right', [{ path: 'currentPassword', message: 'not right' }]);
   }
   const hash = await hashPassword(newPassword);
-  await db().transaction(async (m) => {
-    await m.getRepository(User).update({ id: user.id }, { passwordHash: hash, passwordChangedAt: new Date() });
+  return db().transaction(async (m) => {
+    await m.getRepository(User).update({ id: user.id }, { passwordHash: hash, passwordChangedAt: new Date(), sessionGeneration: () => 'session_generation + 1' });
     await recordAudit(m, { organisationId: user.organisationId, userId: user.id, userEmail: user.email, requestId }, { action: 'update', entity: 'password', entityId: String(user.id), after: { changed: true } });
+    const [gen] = (await m.query('SELECT session_generation FROM app_user WHERE id = ?', [user.id])) as { session_generation: number }[];
+    return Number(gen.session_generation);
   });
 }

@@ -98,6 +98,8 @@ export async function updateUser(actor: Actor, id: number, input: UserUpdateInpu
       patch.lockCount = 0;
     }
     if (Object.keys(patch).length) await m.getRepository(User).update({ id }, patch);
+    // A new password ends every session of the user (the generation is checked on each request, in every process).
+    if (hash) await m.query('UPDATE app_user SET session_generation = session_generation + 1 WHERE id = ?', [id]);
     if (input.roles) {
       await m.getRepository(UserRole).delete({ userId: id });
       await m.getRepository(UserRole).insert([...new Set(input.roles)].map((role) => ({ userId: id, role })));
