@@ -1,11 +1,12 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { LOGIN_MAX_FAILURES } from '@common/api/roles';
+import { parseEnv } from '@backend/config/env';
 import { Client, createTestOrg, PASSWORD, signedIn, startTestApp, type TestApp, type TestOrg } from '../support/test-app';
 
 /**
  * Sign-in and session defences found in a security review: the failure counter under parallel guesses,
- * other sessions after a password change or reset, and the lock answering the same for unknown accounts
- * and ending by itself.
+ * other sessions after a password change or reset, which client address the rate limit believes, and the
+ * lock answering the same for unknown accounts and ending by itself.
  */
 
 const sleep = (ms: number) => new Promise((r) => setTimeout(r, ms));
@@ -88,6 +89,38 @@ describe('a new password ends every other session of the user', () => {
     const admin = await signedIn(app, local.users.administrator);
     expect((await admin.patch(`/api/users/${local.userIds.purchasing_officer}`, { name: 'Purchasing renamed', roles: ['purchasing_officer', 'ward_lead'] })).status).toBe(200);
     expect((await user.get('/api/auth/me')).status).toBe(200);
+  });
+});
+
+// ---- which address the rate limit believes ---------------------------------------------------
+
+describe('rate limit with the default proxy setting', () => {
+  const LIMIT = 3;
+  let app: TestApp;
+  beforeAll(async () => {
+    // No TRUST_PROXY: the default trusts no proxy.
+    app = await startTestApp({ LOGIN_RATE_LIMIT_PER_15_MIN: String(LIMIT) });
+    await clearCounters(app);
+  });
+  afterAll(async () => {
+    await clearCounters(app);
+    await app.close();
+  });
+
+  it('trusts no proxy unless one is configured, and refuses to trust everyone', () => {
+    expect(parseEnv({}).TRUST_PROXY).toBe('false');
+    expect(parseEnv({ TRUST_PROXY: '127.0.0.1' }).TRUST_PROXY).toBe('127.0.0.1');
+    expect(() => parseEnv({ TRUST_PROXY: 'true' })).toThrow(/TRUST_PROXY/);
+    // A Secure cookie is only set on HTTPS, which the app sees only through a trusted TLS proxy.
+    expect(() => parseEnv({ COOKIE_SECURE: 'true' })).toThrow(/TRUST_PROXY/);
+    expect(parseEnv({ COOKIE_SECURE: 'true', TRUST_PROXY: '127.0.0.1' }).COOKIE_SECURE).toBe(true);
+  });
+
+  it('an X-Forwarded-For header from an untrusted peer does not buy a fresh allowance', async () => {
+    for (let i = 1; i <= LIMIT; i++) expect((await new Client(app.baseUrl).login(`nobody-fwd-${i}@test.example`, `guess-${i}`)).status).toBe(401);
+    const forged = await new Client(app.baseUrl).request('POST', '/api/auth/login', { email: 'nobody-fwd-x@test.example', password: 'guess-x' }, { headers: { 'x-forwarded-for': '203.0.113.7' } });
+    expect(forged.status).toBe(429);
+    expect(forged.body.error.code).toBe('rate_limited');
   });
 });
 
