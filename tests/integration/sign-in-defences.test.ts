@@ -5,8 +5,8 @@ import { Client, createTestOrg, PASSWORD, signedIn, startTestApp, type TestApp, 
 
 /**
  * Sign-in and session defences found in a security review: the failure counter under parallel guesses,
- * other sessions after a password change or reset, which client address the rate limit believes, and the
- * lock answering the same for unknown accounts and ending by itself.
+ * other sessions after a password change or reset, which client address the rate limit believes, the
+ * per-account limit, and the lock answering the same for unknown accounts and ending by itself.
  */
 
 const sleep = (ms: number) => new Promise((r) => setTimeout(r, ms));
@@ -17,7 +17,7 @@ const clearCounters = (app: TestApp) => app.ds.query(`DELETE FROM rate_limit_hit
 describe('lockout counter under parallel wrong sign-ins', () => {
   let app: TestApp;
   beforeAll(async () => {
-    app = await startTestApp();
+    app = await startTestApp({ LOGIN_RATE_LIMIT_PER_ACCOUNT_PER_15_MIN: '1000' });
   });
   afterAll(async () => {
     await clearCounters(app);
@@ -92,7 +92,7 @@ describe('a new password ends every other session of the user', () => {
   });
 });
 
-// ---- which address the rate limit believes ---------------------------------------------------
+// ---- which address the rate limit believes, and the per-account limit --------------------------
 
 describe('rate limit with the default proxy setting', () => {
   const LIMIT = 3;
@@ -124,13 +124,53 @@ describe('rate limit with the default proxy setting', () => {
   });
 });
 
+describe('per-account sign-in limit (behind a configured proxy)', () => {
+  const PER_ACCOUNT = 3;
+  let app: TestApp;
+  let org: TestOrg;
+  beforeAll(async () => {
+    app = await startTestApp({ TRUST_PROXY: '127.0.0.1', LOGIN_RATE_LIMIT_PER_ACCOUNT_PER_15_MIN: String(PER_ACCOUNT) });
+    org = await createTestOrg(app.ds);
+    await clearCounters(app);
+  });
+  afterAll(async () => {
+    await clearCounters(app);
+    await app.close();
+  });
+
+  const from = (i: number) => ({ headers: { 'x-forwarded-for': `198.51.100.${i}` } });
+  const attempt = (email: string, password: string, i: number) => new Client(app.baseUrl).request('POST', '/api/auth/login', { email, password }, from(i));
+
+  it(`answers 429 after ${PER_ACCOUNT} failed attempts at one account, whatever address they come from`, async () => {
+    const email = org.users.facilities_manager;
+    for (let i = 1; i <= PER_ACCOUNT; i++) expect((await attempt(email, `wrong-guess-${i}`, i)).status).toBe(401);
+    // Differently written, the same account.
+    const limited = await attempt(`  ${email.toUpperCase()} `, PASSWORD, 99);
+    expect(limited.status).toBe(429);
+    expect(limited.body.error.code).toBe('rate_limited');
+    expect(limited.body.csrfToken).toBeUndefined();
+    // Another account from the same addresses is not affected.
+    expect((await attempt(org.users.ward_lead, PASSWORD, 1)).status).toBe(200);
+  });
+
+  it('counts an unknown account the same way (the answer does not say which accounts exist)', async () => {
+    const email = 'nobody-per-account@test.example';
+    for (let i = 1; i <= PER_ACCOUNT; i++) expect((await attempt(email, `wrong-guess-${i}`, 10 + i)).status).toBe(401);
+    expect((await attempt(email, 'wrong-guess-x', 50)).status).toBe(429);
+  });
+
+  it('successful sign-ins do not use up the allowance', async () => {
+    for (let i = 1; i <= PER_ACCOUNT + 2; i++) expect((await attempt(org.users.purchasing_officer, PASSWORD, i)).status).toBe(200);
+  });
+});
+
 // ---- the lock: same answer for unknown accounts, temporary with back-off ------------------------
 
 describe('account lock', () => {
   let app: TestApp;
   let org: TestOrg;
   beforeAll(async () => {
-    app = await startTestApp();
+    app = await startTestApp({ LOGIN_RATE_LIMIT_PER_ACCOUNT_PER_15_MIN: '1000' });
     org = await createTestOrg(app.ds);
   });
   afterAll(async () => {
@@ -158,7 +198,7 @@ describe('account lock back-off (short periods for the test)', () => {
   let app: TestApp;
   let org: TestOrg;
   beforeAll(async () => {
-    app = await startTestApp({ LOGIN_LOCK_BASE_MINUTES: '0.02', LOGIN_LOCK_MAX_MINUTES: '0.05' });
+    app = await startTestApp({ LOGIN_RATE_LIMIT_PER_ACCOUNT_PER_15_MIN: '1000', LOGIN_LOCK_BASE_MINUTES: '0.02', LOGIN_LOCK_MAX_MINUTES: '0.05' });
     org = await createTestOrg(app.ds);
   });
   afterAll(async () => {

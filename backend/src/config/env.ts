@@ -44,6 +44,8 @@ const envSchema = z.object({
     .default('true')
     .transform((v) => v === 'true'),
   LOGIN_RATE_LIMIT_PER_15_MIN: z.coerce.number().int().min(1).default(50),
+  /** Failed sign-ins per account (normalised e-mail, whether or not it exists) per 15 minutes, from any address. */
+  LOGIN_RATE_LIMIT_PER_ACCOUNT_PER_15_MIN: z.coerce.number().int().min(1).default(10),
   /** First temporary lock after the consecutive failed sign-ins, minutes; each further lock doubles it. */
   LOGIN_LOCK_BASE_MINUTES: z.coerce.number().positive().max(24 * 60).default(1),
   /** Longest temporary lock, minutes (a lock always ends by itself; an administrator can end it sooner). */
