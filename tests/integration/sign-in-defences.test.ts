@@ -159,6 +159,18 @@ describe('per-account sign-in limit (behind a configured proxy)', () => {
     expect((await attempt(email, 'wrong-guess-x', 50)).status).toBe(429);
   });
 
+  it('e-mails named like object properties, and bodies hiding the e-mail, get the ordinary answers', async () => {
+    for (const name of ['__proto__', 'constructor', 'prototype', 'toString', 'hasOwnProperty', 'valueOf']) {
+      const res = await attempt(name, 'some-guess', 200);
+      expect(res.status, name).toBe(401);
+      expect(res.body.error.code, name).toBe('invalid_credentials');
+    }
+    const hidden = await new Client(app.baseUrl).request('POST', '/api/auth/login', '{"__proto__":{"email":"x@test.example"},"password":"p"}', { csrf: false, ...from(201) });
+    expect(hidden.status).toBe(400);
+    const notText = await new Client(app.baseUrl).request('POST', '/api/auth/login', { email: { toString: 'x' }, password: 'p' }, { csrf: false, ...from(202) });
+    expect(notText.status).toBe(400);
+  });
+
   it('successful sign-ins do not use up the allowance', async () => {
     for (let i = 1; i <= PER_ACCOUNT + 2; i++) expect((await attempt(org.users.purchasing_officer, PASSWORD, i)).status).toBe(200);
   });
