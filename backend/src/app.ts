@@ -28,7 +28,7 @@ export async function createApp(): Promise<AppHandle> {
   const e = env();
   const app = express();
   app.disable('x-powered-by');
-  app.set('trust proxy', e.TRUST_PROXY === 'false' ? false : e.TRUST_PROXY);
+  app.set('trust proxy', e.TRUST_PROXY === 'false' || e.TRUST_PROXY === '' ? false : e.TRUST_PROXY);
   app.set('query parser', 'simple');
 
   app.use(requestId);

@@ -22,8 +22,8 @@ const BODIES_PER_ROUTE = Number(process.env.FUZZ_BODIES ?? 15);
 const SEED = Number(process.env.FUZZ_SEED ?? 4242);
 /** Refusals a client can act on; anything else (a 500, a 403 from a role that may call the route) fails. */
 const CLEAR_REFUSALS = [400, 404, 409, 413, 415, 422, 423];
-/** Tables that change on any request and are not data: sessions and the sign-in rate counter. */
-const VOLATILE_TABLES = new Set(['sessions', 'rate_limit_hit']);
+/** Tables that change on any request and are not data: sessions, the sign-in rate counter and the failed sign-ins of unknown e-mails. */
+const VOLATILE_TABLES = new Set(['sessions', 'rate_limit_hit', 'sign_in_unknown']);
 
 let app: TestApp;
 let org: TestOrg;

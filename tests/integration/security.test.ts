@@ -27,7 +27,8 @@ describe('sign-in brute force', () => {
   const clearCounters = () => app.ds.query(`DELETE FROM rate_limit_hit WHERE k LIKE 'login:%'`);
 
   beforeAll(async () => {
-    app = await startTestApp({ LOGIN_RATE_LIMIT_PER_15_MIN: String(LIMIT) });
+    // The load balancer at 127.0.0.1 is configured as the trusted proxy (the default trusts none).
+    app = await startTestApp({ LOGIN_RATE_LIMIT_PER_15_MIN: String(LIMIT), TRUST_PROXY: '127.0.0.1' });
     org = await createTestOrg(app.ds);
     await clearCounters();
   });
@@ -51,7 +52,7 @@ describe('sign-in brute force', () => {
     const right = await c.login(org.users.facilities_manager, PASSWORD);
     expect(right.status).toBe(429);
     expect(right.body.csrfToken).toBeUndefined();
-    // Another address (behind the trusted loopback proxy) has its own allowance.
+    // Another address (behind the configured proxy) has its own allowance.
     const other = await new Client(app.baseUrl).request('POST', '/api/auth/login', { email: org.users.facilities_manager, password: PASSWORD }, { headers: { 'x-forwarded-for': '203.0.113.7' } });
     expect(other.status).toBe(200);
   });
@@ -157,7 +158,8 @@ describe('security headers', () => {
   let app: TestApp;
   let org: TestOrg;
   beforeAll(async () => {
-    app = await startTestApp({ COOKIE_SECURE: 'true' });
+    // HTTPS ends at the proxy, configured as trusted: the app sees TLS only through its X-Forwarded-Proto.
+    app = await startTestApp({ COOKIE_SECURE: 'true', TRUST_PROXY: '127.0.0.1' });
     org = await createTestOrg(app.ds);
   });
   afterAll(async () => {

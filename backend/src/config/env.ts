@@ -20,7 +20,16 @@ const envSchema = z.object({
     .enum(['true', 'false'])
     .default('false')
     .transform((v) => v === 'true'),
-  TRUST_PROXY: z.string().default('loopback'),
+  /**
+   * Express `trust proxy`: the address(es) of the load balancer whose X-Forwarded-For and X-Forwarded-Proto
+   * are believed (e.g. 127.0.0.1, comma-separated for several). Default: no proxy is trusted, so a client
+   * cannot pick the address the sign-in rate limit counts. 'true' (trust anyone) is refused.
+   */
+  TRUST_PROXY: z
+    .string()
+    .trim()
+    .default('false')
+    .refine((v) => v.toLowerCase() !== 'true', "list the proxy's address(es) instead of 'true' (which would trust any client's X-Forwarded-For)"),
   SMTP_HOST: z.string().default('127.0.0.1'),
   SMTP_PORT: z.coerce.number().int().min(1).max(65535).default(2525),
   SMTP_USER: z.string().optional(),
@@ -35,6 +44,12 @@ const envSchema = z.object({
     .default('true')
     .transform((v) => v === 'true'),
   LOGIN_RATE_LIMIT_PER_15_MIN: z.coerce.number().int().min(1).default(50),
+  /** Failed sign-ins per account (normalised e-mail, whether or not it exists) per 15 minutes, from any address. */
+  LOGIN_RATE_LIMIT_PER_ACCOUNT_PER_15_MIN: z.coerce.number().int().min(1).default(10),
+  /** First temporary lock after the consecutive failed sign-ins, minutes; each further lock doubles it. */
+  LOGIN_LOCK_BASE_MINUTES: z.coerce.number().positive().max(24 * 60).default(1),
+  /** Longest temporary lock, minutes (a lock always ends by itself; an administrator can end it sooner). */
+  LOGIN_LOCK_MAX_MINUTES: z.coerce.number().positive().max(24 * 60).default(30),
   SERVE_FRONTEND: z
     .enum(['true', 'false'])
     .default('true')
@@ -100,6 +115,9 @@ export function parseEnv(source: Record<string, string | undefined> = process.en
   const env = result.data;
   if (env.NODE_ENV === 'production' && env.SESSION_SECRET === 'plenum-development-session-secret') {
     throw new Error('Configuration is invalid:\n  SESSION_SECRET: set a secret of your own in production');
+  }
+  if (env.COOKIE_SECURE && (env.TRUST_PROXY === '' || env.TRUST_PROXY === 'false')) {
+    throw new Error("Configuration is invalid:\n  TRUST_PROXY: COOKIE_SECURE needs the TLS proxy's address in TRUST_PROXY (the app sees HTTPS only through it)");
   }
   return env;
 }

@@ -13,6 +13,5 @@ export const ROLE_LABELS: Record<Role, string> = {
 /** Header that carries the CSRF token on every state-changing request. */
 export const CSRF_HEADER = 'x-csrf-token';
 
-/** Sign-in policy: consecutive failures before a temporary lock, and its length. */
+/** Sign-in policy: consecutive failures before a temporary lock (its length is configured on the server). */
 export const LOGIN_MAX_FAILURES = 5;
-export const LOGIN_LOCK_MINUTES = 15;

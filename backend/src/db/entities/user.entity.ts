@@ -26,8 +26,16 @@ export class User {
   @Column({ type: 'datetime', precision: 3, nullable: true })
   lockedUntil!: Date | null;
 
+  /** Temporary locks since the last successful sign-in (each lasts twice the one before, capped). */
+  @Column({ type: 'int', default: 0 })
+  lockCount!: number;
+
   @Column({ type: 'datetime', precision: 3, nullable: true })
   passwordChangedAt!: Date | null;
+
+  /** Stored in each signed-in session; a new password bumps it, which ends the user's other sessions. */
+  @Column({ type: 'int', default: 0 })
+  sessionGeneration!: number;
 
   @CreateDateColumn({ type: 'datetime', precision: 3, default: () => 'CURRENT_TIMESTAMP(3)' })
   createdAt!: Date;

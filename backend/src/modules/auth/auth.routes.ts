@@ -9,6 +9,7 @@ import { csrfTokenFor } from '../../middleware/csrf';
 import { MariaDbRateLimitStore } from '../../middleware/rate-limit-store';
 import { env } from '../../config/env';
 import { changePassword, describeMe } from './auth.service';
+import { keepSessionSignedIn } from './passport';
 import { recordAudit } from '../audit/audit.service';
 import { db } from '../../db/db';
 import { AppError } from '../../errors/app-error';
@@ -22,6 +23,35 @@ function loginLimiter() {
     store: new MariaDbRateLimitStore('login'),
     handler: (_req, res) => {
       res.status(429).json({ error: { code: 'rate_limited', message: 'Too many sign-in attempts from this address: wait 15 minutes and try again' } });
+    },
+  });
+}
+
+/** The account a sign-in is for, written as verifyCredentials looks it up; '' when the body has none. */
+function accountKey(req: Request): string {
+  const body: unknown = req.body;
+  if (!body || typeof body !== 'object' || Array.isArray(body) || !Object.hasOwn(body, 'email')) return '';
+  const email = (body as { email: unknown }).email;
+  return typeof email === 'string' ? email.trim().toLowerCase().slice(0, 190) : '';
+}
+
+/**
+ * Failed sign-ins per account from any address (a guesser with many addresses), in the same shared store.
+ * Unknown e-mails are counted alike. Successful sign-ins are not counted; a body without an e-mail is left
+ * to validation.
+ */
+function accountLoginLimiter() {
+  return rateLimit({
+    windowMs: 15 * 60 * 1000,
+    limit: env().LOGIN_RATE_LIMIT_PER_ACCOUNT_PER_15_MIN,
+    standardHeaders: 'draft-8',
+    legacyHeaders: false,
+    skipSuccessfulRequests: true,
+    keyGenerator: (req) => `account:${accountKey(req)}`,
+    skip: (req) => accountKey(req) === '',
+    store: new MariaDbRateLimitStore('login'),
+    handler: (_req, res) => {
+      res.status(429).json({ error: { code: 'rate_limited', message: 'Too many sign-in attempts for this account: wait 15 minutes and try again' } });
     },
   });
 }
@@ -52,7 +82,7 @@ export function authRoutes(): RouteDef[] {
       path: '/api/auth/login',
       access: 'public',
       csrf: false,
-      before: [loginLimiter()],
+      before: [loginLimiter(), accountLoginLimiter()],
       handler: async (req, res) => {
         const body = validate(loginSchema, req.body, 'sign-in');
         req.body = body;
@@ -95,7 +125,9 @@ export function authRoutes(): RouteDef[] {
       handler: async (req) => {
         const body = validate(changePasswordSchema, req.body, 'password change');
         const actor = actorOf(req);
+        // Ends the user's other sessions; this one carries on.
         await changePassword(actor.user, body.currentPassword, body.newPassword, actor.requestId);
+        await keepSessionSignedIn(req, actor.user.id);
         return { ok: true };
       },
     },

@@ -4,6 +4,7 @@ import type { RouteDef } from '../../http/route';
 import { actorOf } from '../../http/context';
 import { validate } from '../../http/validate';
 import { createUser, listUsers, unlockUser, updateUser } from './users.service';
+import { keepSessionSignedIn } from '../auth/passport';
 
 export function userRoutes(): RouteDef[] {
   return [
@@ -13,7 +14,15 @@ export function userRoutes(): RouteDef[] {
       method: 'patch',
       path: '/api/users/:id',
       access: ['administrator'],
-      handler: (req) => updateUser(actorOf(req), validate(idParamSchema, req.params, 'address').id, validate(userUpdateSchema, req.body, 'user')),
+      handler: async (req) => {
+        const actor = actorOf(req);
+        const id = validate(idParamSchema, req.params, 'address').id;
+        const input = validate(userUpdateSchema, req.body, 'user');
+        const row = await updateUser(actor, id, input);
+        // A new password ends the user's sessions; an administrator resetting their own keeps this one.
+        if (input.password && id === actor.user.id) await keepSessionSignedIn(req, id);
+        return row;
+      },
     },
     {
       method: 'post',

@@ -95,8 +95,11 @@ export async function updateUser(actor: Actor, id: number, input: UserUpdateInpu
       patch.passwordChangedAt = new Date();
       patch.failedLogins = 0;
       patch.lockedUntil = null;
+      patch.lockCount = 0;
     }
     if (Object.keys(patch).length) await m.getRepository(User).update({ id }, patch);
+    // A new password ends every session of the user (the generation is checked on each request, in every process).
+    if (hash) await m.query('UPDATE app_user SET session_generation = session_generation + 1 WHERE id = ?', [id]);
     if (input.roles) {
       await m.getRepository(UserRole).delete({ userId: id });
       await m.getRepository(UserRole).insert([...new Set(input.roles)].map((role) => ({ userId: id, role })));
@@ -115,7 +118,7 @@ export async function updateUser(actor: Actor, id: number, input: UserUpdateInpu
 export async function unlockUser(actor: Actor, id: number): Promise<UserRow> {
   return db().transaction(async (m) => {
     await getInOrg(m, actor, id);
-    await m.getRepository(User).update({ id }, { failedLogins: 0, lockedUntil: null });
+    await m.getRepository(User).update({ id }, { failedLogins: 0, lockedUntil: null, lockCount: 0 });
     const [row] = await present(m, [await getInOrg(m, actor, id)]);
     await recordAudit(m, whoOf(actor), { action: 'unlock', entity: 'user', entityId: String(id), after: row });
     return row;
