@@ -7,6 +7,7 @@ import { startMailService, stopMailService } from '@backend/mail/mail-service';
 import { MailAttachment, MailMessage } from '@backend/db/entities/mail.entity';
 import { MailOutbox, PurchaseOrder, ReorderRequest } from '@backend/db/entities/orders.entity';
 import { ScheduledDelivery, SourceReading } from '@backend/db/entities/supply.entity';
+import { SupplierPrice } from '@backend/db/entities/catalogue.entity';
 import { raiseRequestsForCrossings } from '@backend/modules/orders/requests.service';
 import { drainOutbox } from '@backend/modules/orders/outbox.service';
 import { runAlertPass } from '@backend/modules/orders/alerts.service';
@@ -227,6 +228,42 @@ describe('approval, purchase order and e-mail', () => {
     expect(done.status, JSON.stringify(done.body)).toBe(200);
     expect(done.body.status).toBe('approved');
     expect(done.body.approvals).toHaveLength(2);
+  });
+
+  it('counts whoever last changed the quantity or the price as the raiser: another officer must approve', async () => {
+    const st = await cylinderStore(app.ds, org, siteId, { full: 25, countedAt: thisHour() });
+    const made = await fm.post('/api/requests', { sourceId: st.source.id, submit: true });
+    expect(made.status).toBe(200);
+    // The officer raises the quantity (14 → 50 in the review's case) and would then approve it alone.
+    const bigger = await po.put(`/api/requests/${made.body.id}/quantity`, { quantity: 50, reason: 'Stock up before the holidays' });
+    expect(bigger.status).toBe(200);
+    expect(bigger.body.totalMinor).toBe(50 * 2600); // 50 cylinders × £26.00 from the price list
+    expect(bigger.body.amendedBy).toEqual({ id: poId, name: expect.any(String) });
+    expect(bigger.body.actions.approve).toMatchObject({ allowed: false, reason: expect.stringMatching(/you changed the quantity or price/i) });
+    const alone = await po.post(`/api/requests/${made.body.id}/approve`, {});
+    expect(alone.status).toBe(409);
+    expect(alone.body.error.code).toBe('own_change_approval');
+    expect(alone.body.error.message).toMatch(/you changed the quantity or price of this request last/i);
+    expect(await app.ds.getRepository(PurchaseOrder).countBy({ requestId: made.body.id })).toBe(0);
+    // A second officer approves what the first changed.
+    const other = await signedIn(app, (await addUser(app.ds, org, ['purchasing_officer'], 5_000_000)).email);
+    const ok = await other.post(`/api/requests/${made.body.id}/approve`, {});
+    expect(ok.status, JSON.stringify(ok.body)).toBe(200);
+    expect(ok.body.status).toBe('approved');
+
+    // A price taken anew at submission counts too: the person who submits at the new price is not the approver.
+    const both = await addUser(app.ds, org, ['facilities_manager', 'purchasing_officer'], 5_000_000);
+    const self = await signedIn(app, both.email);
+    const st2 = await cylinderStore(app.ds, org, siteId, { full: 25, countedAt: thisHour() });
+    const draft = await fm.post('/api/requests', { sourceId: st2.source.id });
+    expect(draft.body.status).toBe('draft');
+    await app.ds.getRepository(SupplierPrice).update({ supplierId: st2.supplier.id }, { priceMinor: 4600 });
+    const sub = await self.post(`/api/requests/${draft.body.id}/submit`, {});
+    expect(sub.status).toBe(200);
+    expect(sub.body.unitPriceMinor).toBe(4600);
+    const mine = await self.post(`/api/requests/${draft.body.id}/approve`, {});
+    expect(mine.status).toBe(409);
+    expect(mine.body.error.code).toBe('own_change_approval');
   });
 
   it('refuses an approval of a request changed since the screen was opened', async () => {

@@ -76,6 +76,10 @@ export class ReorderRequest {
   @Column({ type: 'int', nullable: true })
   requestedByUserId!: number | null;
 
+  /** Who last changed the quantity or the price (counted as a raiser by the four-eyes rule). */
+  @Column({ type: 'int', nullable: true })
+  amendedByUserId!: number | null;
+
   /** Bumped on every change: clients send it back so a stale screen cannot approve a changed request. */
   @Column({ type: 'int', default: 1 })
   version!: number;
