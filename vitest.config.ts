@@ -17,7 +17,7 @@ export default defineConfig({
         resolve: { alias },
         test: {
           name: 'unit',
-          include: ['common/src/**/*.test.ts', 'backend/src/**/*.test.ts', 'frontend/src/**/*.test.{ts,tsx}'],
+          include: ['common/src/**/*.test.ts', 'backend/src/**/*.test.ts', 'frontend/src/**/*.test.{ts,tsx}', 'scripts/**/*.test.ts'],
           environment: 'node',
         },
       },
