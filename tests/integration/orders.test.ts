@@ -126,6 +126,42 @@ describe('reorder requests raised from the forecast', () => {
   });
 });
 
+describe('quantities and money stay in range', () => {
+  it('refuses an unbounded quantity with 400 and a message, and leaves the request as it was', async () => {
+    const st = await cylinderStore(app.ds, org, siteId, { full: 25, countedAt: thisHour() });
+    const made = await fm.post('/api/requests', { sourceId: st.source.id, submit: true });
+    expect(made.status).toBe(200);
+    const huge = await po.put(`/api/requests/${made.body.id}/quantity`, { quantity: 1_000_000, reason: 'typo' });
+    expect(huge.status, JSON.stringify(huge.body)).toBe(400);
+    expect(huge.body.error.details).toContainEqual({ path: 'quantity', message: expect.stringMatching(/at most 200,000/) });
+    const cyl = await po.put(`/api/requests/${made.body.id}/quantity`, { quantity: 10_001, reason: 'typo' });
+    expect(cyl.status, JSON.stringify(cyl.body)).toBe(400);
+    expect(cyl.body.error.details).toContainEqual({ path: 'quantity', message: expect.stringMatching(/at most 10,000 cylinders/) });
+    const same = await fm.get(`/api/requests/${made.body.id}`);
+    expect(same.body.quantity).toBe(made.body.quantity);
+    expect(same.body.version).toBe(made.body.version);
+  });
+
+  it('stores and reads back as a number a total above the 32-bit range, up to the purchase order', async () => {
+    // £1,000,000.00 a cylinder (the price list's maximum) × 100 cylinders = 10,000,000,000 minor units,
+    // above 2,147,483,647 (2^31 − 1, the largest signed 32-bit integer).
+    const st = await cylinderStore(app.ds, org, siteId, { full: 25, countedAt: thisHour(), priceMinor: 100_000_000 });
+    const made = await fm.post('/api/requests', { sourceId: st.source.id, quantity: 100, reason: 'Stocking a new wing', submit: true });
+    expect(made.status, JSON.stringify(made.body)).toBe(200);
+    expect(made.body.totalMinor).toBe(10_000_000_000);
+    const big = await signedIn(app, (await addUser(app.ds, org, ['purchasing_officer'], 20_000_000_000)).email);
+    const ok = await big.post(`/api/requests/${made.body.id}/approve`, {});
+    expect(ok.status, JSON.stringify(ok.body)).toBe(200);
+    expect(ok.body.status).toBe('approved');
+    expect(ok.body.myApprovalLimit.limitMinor).toBe(20_000_000_000);
+    expect(ok.body.approvals[0].limitMinor).toBe(20_000_000_000);
+    const order = await app.ds.getRepository(PurchaseOrder).findOneByOrFail({ requestId: made.body.id });
+    expect(order.totalMinor).toBe(10_000_000_000);
+    const req = await app.ds.getRepository(ReorderRequest).findOneByOrFail({ id: made.body.id });
+    expect(req.totalMinor).toBe(10_000_000_000);
+  });
+});
+
 describe('approval, purchase order and e-mail', () => {
   it('approves, numbers the order, sends it with a PDF that parses, and copies the requester', async () => {
     const st = await cylinderStore(app.ds, org, siteId, { full: 8, countedAt: thisHour() });

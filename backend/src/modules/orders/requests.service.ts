@@ -1,5 +1,5 @@
 import { In, type EntityManager } from 'typeorm';
-import { REQUEST_STATUS_TEXT, type ChangeQuantityInput, type CreateRequestInput, type DecisionInput, type RejectInput, type RequestListQuery, type RequestStatus } from '@common/schemas/orders.schema';
+import { MAX_ORDER_CYLINDERS, REQUEST_STATUS_TEXT, type ChangeQuantityInput, type CreateRequestInput, type DecisionInput, type RejectInput, type RequestListQuery, type RequestStatus } from '@common/schemas/orders.schema';
 import { db } from '../../db/db';
 import { CylinderType, Supplier } from '../../db/entities/catalogue.entity';
 import { Site } from '../../db/entities/site.entity';
@@ -219,6 +219,7 @@ export async function createRequest(actor: Actor, input: CreateRequestInput, key
 
 function checkQuantity(unit: string, quantity: number) {
   if (unit === 'cylinders' && !Number.isInteger(quantity)) throw badRequest('Cylinders are ordered whole', [{ path: 'quantity', message: 'enter whole cylinders' }]);
+  if (unit === 'cylinders' && quantity > MAX_ORDER_CYLINDERS) throw badRequest(`At most ${MAX_ORDER_CYLINDERS.toLocaleString('en-GB')} cylinders are ordered at once`, [{ path: 'quantity', message: `at most ${MAX_ORDER_CYLINDERS.toLocaleString('en-GB')} cylinders: check the quantity` }]);
 }
 
 // ---------- reading ----------
