@@ -7,6 +7,7 @@ import { startMailService, stopMailService } from '@backend/mail/mail-service';
 import { MailAttachment, MailMessage } from '@backend/db/entities/mail.entity';
 import { MailOutbox, PurchaseOrder, ReorderRequest } from '@backend/db/entities/orders.entity';
 import { ScheduledDelivery, SourceReading } from '@backend/db/entities/supply.entity';
+import { SupplierPrice } from '@backend/db/entities/catalogue.entity';
 import { raiseRequestsForCrossings } from '@backend/modules/orders/requests.service';
 import { drainOutbox } from '@backend/modules/orders/outbox.service';
 import { runAlertPass } from '@backend/modules/orders/alerts.service';
@@ -20,6 +21,7 @@ let mail: SMTPServer;
 let smtpPort: number;
 let fm: Client;
 let po: Client;
+let poId: number;
 
 const HOUR = 3_600_000;
 /** The start of the current hour: a store count taken then starts the forecast exactly on the hour grid. */
@@ -36,6 +38,7 @@ beforeAll(async () => {
   siteId = org.siteIds[0];
   fm = await signedIn(app, org.users.facilities_manager);
   const officer = await addUser(app.ds, org, ['purchasing_officer'], 5_000_000);
+  poId = officer.id;
   po = await signedIn(app, officer.email);
 });
 afterAll(async () => {
@@ -120,6 +123,42 @@ describe('reorder requests raised from the forecast', () => {
     expect(step.comment).toBe('Storage space only for six');
     const half = await po.put(`/api/requests/${made.body.id}/quantity`, { quantity: 2.5, reason: 'half a cylinder' });
     expect(half.status).toBe(400);
+  });
+});
+
+describe('quantities and money stay in range', () => {
+  it('refuses an unbounded quantity with 400 and a message, and leaves the request as it was', async () => {
+    const st = await cylinderStore(app.ds, org, siteId, { full: 25, countedAt: thisHour() });
+    const made = await fm.post('/api/requests', { sourceId: st.source.id, submit: true });
+    expect(made.status).toBe(200);
+    const huge = await po.put(`/api/requests/${made.body.id}/quantity`, { quantity: 1_000_000, reason: 'typo' });
+    expect(huge.status, JSON.stringify(huge.body)).toBe(400);
+    expect(huge.body.error.details).toContainEqual({ path: 'quantity', message: expect.stringMatching(/at most 200,000/) });
+    const cyl = await po.put(`/api/requests/${made.body.id}/quantity`, { quantity: 10_001, reason: 'typo' });
+    expect(cyl.status, JSON.stringify(cyl.body)).toBe(400);
+    expect(cyl.body.error.details).toContainEqual({ path: 'quantity', message: expect.stringMatching(/at most 10,000 cylinders/) });
+    const same = await fm.get(`/api/requests/${made.body.id}`);
+    expect(same.body.quantity).toBe(made.body.quantity);
+    expect(same.body.version).toBe(made.body.version);
+  });
+
+  it('stores and reads back as a number a total above the 32-bit range, up to the purchase order', async () => {
+    // £1,000,000.00 a cylinder (the price list's maximum) × 100 cylinders = 10,000,000,000 minor units,
+    // above 2,147,483,647 (2^31 − 1, the largest signed 32-bit integer).
+    const st = await cylinderStore(app.ds, org, siteId, { full: 25, countedAt: thisHour(), priceMinor: 100_000_000 });
+    const made = await fm.post('/api/requests', { sourceId: st.source.id, quantity: 100, reason: 'Stocking a new wing', submit: true });
+    expect(made.status, JSON.stringify(made.body)).toBe(200);
+    expect(made.body.totalMinor).toBe(10_000_000_000);
+    const big = await signedIn(app, (await addUser(app.ds, org, ['purchasing_officer'], 20_000_000_000)).email);
+    const ok = await big.post(`/api/requests/${made.body.id}/approve`, {});
+    expect(ok.status, JSON.stringify(ok.body)).toBe(200);
+    expect(ok.body.status).toBe('approved');
+    expect(ok.body.myApprovalLimit.limitMinor).toBe(20_000_000_000);
+    expect(ok.body.approvals[0].limitMinor).toBe(20_000_000_000);
+    const order = await app.ds.getRepository(PurchaseOrder).findOneByOrFail({ requestId: made.body.id });
+    expect(order.totalMinor).toBe(10_000_000_000);
+    const req = await app.ds.getRepository(ReorderRequest).findOneByOrFail({ id: made.body.id });
+    expect(req.totalMinor).toBe(10_000_000_000);
   });
 });
 
@@ -225,6 +264,42 @@ describe('approval, purchase order and e-mail', () => {
     expect(done.status, JSON.stringify(done.body)).toBe(200);
     expect(done.body.status).toBe('approved');
     expect(done.body.approvals).toHaveLength(2);
+  });
+
+  it('counts whoever last changed the quantity or the price as the raiser: another officer must approve', async () => {
+    const st = await cylinderStore(app.ds, org, siteId, { full: 25, countedAt: thisHour() });
+    const made = await fm.post('/api/requests', { sourceId: st.source.id, submit: true });
+    expect(made.status).toBe(200);
+    // The officer raises the quantity (14 → 50 in the review's case) and would then approve it alone.
+    const bigger = await po.put(`/api/requests/${made.body.id}/quantity`, { quantity: 50, reason: 'Stock up before the holidays' });
+    expect(bigger.status).toBe(200);
+    expect(bigger.body.totalMinor).toBe(50 * 2600); // 50 cylinders × £26.00 from the price list
+    expect(bigger.body.amendedBy).toEqual({ id: poId, name: expect.any(String) });
+    expect(bigger.body.actions.approve).toMatchObject({ allowed: false, reason: expect.stringMatching(/you changed the quantity or price/i) });
+    const alone = await po.post(`/api/requests/${made.body.id}/approve`, {});
+    expect(alone.status).toBe(409);
+    expect(alone.body.error.code).toBe('own_change_approval');
+    expect(alone.body.error.message).toMatch(/you changed the quantity or price of this request last/i);
+    expect(await app.ds.getRepository(PurchaseOrder).countBy({ requestId: made.body.id })).toBe(0);
+    // A second officer approves what the first changed.
+    const other = await signedIn(app, (await addUser(app.ds, org, ['purchasing_officer'], 5_000_000)).email);
+    const ok = await other.post(`/api/requests/${made.body.id}/approve`, {});
+    expect(ok.status, JSON.stringify(ok.body)).toBe(200);
+    expect(ok.body.status).toBe('approved');
+
+    // A price taken anew at submission counts too: the person who submits at the new price is not the approver.
+    const both = await addUser(app.ds, org, ['facilities_manager', 'purchasing_officer'], 5_000_000);
+    const self = await signedIn(app, both.email);
+    const st2 = await cylinderStore(app.ds, org, siteId, { full: 25, countedAt: thisHour() });
+    const draft = await fm.post('/api/requests', { sourceId: st2.source.id });
+    expect(draft.body.status).toBe('draft');
+    await app.ds.getRepository(SupplierPrice).update({ supplierId: st2.supplier.id }, { priceMinor: 4600 });
+    const sub = await self.post(`/api/requests/${draft.body.id}/submit`, {});
+    expect(sub.status).toBe(200);
+    expect(sub.body.unitPriceMinor).toBe(4600);
+    const mine = await self.post(`/api/requests/${draft.body.id}/approve`, {});
+    expect(mine.status).toBe(409);
+    expect(mine.body.error.code).toBe('own_change_approval');
   });
 
   it('refuses an approval of a request changed since the screen was opened', async () => {

@@ -271,6 +271,50 @@ describe('uploads refuse what is not CSV text or is too large, storing nothing',
     });
   }
 
+  /** Posts a hand-written multipart body (so it can be cut short or break the form's rules). */
+  async function rawUpload(body: string, boundary = 'plenum-test-boundary') {
+    const res = await fetch(`${app.baseUrl}/api/sites/${org.siteIds[0]}/imports`, {
+      method: 'POST',
+      body,
+      headers: { 'content-type': `multipart/form-data; boundary=${boundary}`, cookie: `plenum.sid=${fm.cookies.get('plenum.sid')}`, 'x-csrf-token': fm.csrf! },
+    });
+    return { status: res.status, body: (await res.json()) as any };
+  }
+  const part = (name: string, value: string, filename?: string) =>
+    `--plenum-test-boundary\r\nContent-Disposition: form-data; name="${name}"${filename ? `; filename="${filename}"\r\nContent-Type: text/csv` : ''}\r\n\r\n${value}\r\n`;
+  const csv = 'time,level_percent\n2027-01-04T00:00,50\n';
+  const end = '--plenum-test-boundary--\r\n';
+
+  // Multipart framing (RFC 7578): parts separated by "--boundary", the body closed by "--boundary--".
+  const malformed: [string, () => string, number, RegExp][] = [
+    ['a body cut off in the middle of the file', () => part('kind', 'tank_readings') + part('file', csv, 'levels.csv').slice(0, -20), 400, /upload was cut off|incomplete/i],
+    ['a body without its closing boundary', () => part('kind', 'tank_readings') + part('file', csv, 'levels.csv'), 400, /upload was cut off|incomplete/i],
+    ['two files', () => part('kind', 'tank_readings') + part('file', csv, 'a.csv') + part('file', csv, 'b.csv') + end, 400, /one CSV file/],
+    ['a file in another field', () => part('kind', 'tank_readings') + part('data', csv, 'levels.csv') + end, 400, /one CSV file, in the form field/],
+    ['a form field over 64 KB', () => part('kind', 'tank_readings') + part('note', 'x'.repeat(70 * 1024)) + part('file', csv, 'levels.csv') + end, 400, /field .*too long/i],
+    ['too many form fields', () => Array.from({ length: 25 }, (_, i) => part(`f${i}`, 'x')).join('') + part('file', csv, 'levels.csv') + end, 400, /too many fields/i],
+    ['a part without a name', () => part('kind', 'tank_readings') + '--plenum-test-boundary\r\nContent-Disposition: form-data; filename="levels.csv"\r\n\r\n' + csv + '\r\n' + end, 400, /upload could not be read|one CSV file/i],
+  ];
+  for (const [what, body, status, message] of malformed) {
+    it(`refuses ${what} with ${status} and stores nothing`, async () => {
+      const before = await stored();
+      const res = await rawUpload(body());
+      expect(res.status, JSON.stringify(res.body)).toBe(status);
+      expect(res.body.error.message).toMatch(message);
+      expect(await stored()).toEqual(before);
+    });
+  }
+
+  it('refuses a multipart body whose boundary is missing from the header with 400', async () => {
+    const res = await fetch(`${app.baseUrl}/api/sites/${org.siteIds[0]}/imports`, {
+      method: 'POST',
+      body: part('file', csv, 'levels.csv') + end,
+      headers: { 'content-type': 'multipart/form-data', cookie: `plenum.sid=${fm.cookies.get('plenum.sid')}`, 'x-csrf-token': fm.csrf! },
+    });
+    expect(res.status).toBe(400);
+    expect(((await res.json()) as any).error.message).toMatch(/upload could not be read/i);
+  });
+
   it('accepts a small CSV (so the refusals above are about the files)', async () => {
     const res = await upload('levels.csv', new TextEncoder().encode('time,level_percent\n2027-01-04T00:00,50\n2027-01-04T01:00,49.5\n'));
     expect(res.status, JSON.stringify(res.body)).toBe(200);

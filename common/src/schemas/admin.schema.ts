@@ -69,7 +69,7 @@ export const supplierPriceSchema = z
     cylinderTypeId: z.number().int().positive().nullable().optional(),
     gasCode: z.enum(GAS_CODES_CATALOGUE).nullable().optional(),
     unit: z.enum(['cylinder', 'kg']),
-    priceMinor: z.number().int('whole minor units (pence, cents)').min(0).max(100_000_000),
+    priceMinor: z.number({ error: 'enter the price' }).int('whole minor units (pence, cents)').min(0, 'must be ≥ 0').max(100_000_000, 'at most 100,000,000 minor units (1,000,000.00) a unit'),
   })
   .superRefine((v, ctx) => {
     if (v.unit === 'cylinder' && !v.cylinderTypeId) ctx.addIssue({ code: 'custom', path: ['cylinderTypeId'], message: 'choose the cylinder type' });
@@ -81,7 +81,7 @@ export const supplierSchema = z.object({
   orderEmail: emailSchema,
   phone: z.string().trim().max(40).default(''),
   leadTimeHours: z.coerce.number().int().min(0).max(24 * 60),
-  rentalMinorPerCylinderDay: z.coerce.number().int().min(0).max(1_000_000).default(0),
+  rentalMinorPerCylinderDay: z.coerce.number().int('whole minor units (pence, cents)').min(0, 'must be ≥ 0').max(1_000_000, 'at most 1,000,000 minor units (10,000.00) a cylinder-day').default(0),
   minBulkDropKg: z.coerce.number().min(0).max(100_000).default(0),
   currency: currencySchema,
   active: z.boolean().default(true),

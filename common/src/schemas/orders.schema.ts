@@ -20,8 +20,15 @@ export const REQUEST_STATUS_TEXT: Record<RequestStatus, string> = {
 };
 
 const text = (max: number) => z.string().trim().max(max, `at most ${max} characters`);
+/** The largest bulk order or delivery, kg (several full road tankers; the scheduled-delivery limit too). */
+export const MAX_ORDER_KG = 200_000;
+/** The largest cylinder order or delivery. */
+export const MAX_ORDER_CYLINDERS = 10_000;
+/** The largest approval limit, minor units (£1,000,000,000.00); totals and limits are BIGINT in the database. */
+export const MAX_APPROVAL_LIMIT_MINOR = 100_000_000_000;
+const maxQuantityText = `at most ${MAX_ORDER_KG.toLocaleString('en-GB')} kg or ${MAX_ORDER_CYLINDERS.toLocaleString('en-GB')} cylinders: check the quantity`;
 /** A quantity: whole cylinders, or kg for a bulk tank (checked against the request's unit by the server). */
-const quantity = z.number({ error: 'quantity must be a number' }).positive('must be above 0').max(1_000_000, 'above 1,000,000: check the quantity');
+const quantity = z.number({ error: 'quantity must be a number' }).positive('must be above 0').max(MAX_ORDER_KG, maxQuantityText);
 
 export const requestListQuerySchema = z.object({
   status: z.enum([...REQUEST_STATUSES, 'open', 'closed', 'all']).default('all'),
@@ -65,14 +72,14 @@ export const deliverySchema = z.object({
   deliveryNote: text(60).min(1, 'enter the delivery-note number'),
   deliveredAt: z.iso.datetime({ offset: true, error: 'use an ISO date and time' }),
   /** Cylinders (whole) or kg, as on the order. */
-  quantity: z.number({ error: 'quantity must be a number' }).min(0, 'must be ≥ 0').max(1_000_000),
-  emptiesCollected: z.number().int('whole cylinders').min(0).max(10_000).default(0),
+  quantity: z.number({ error: 'quantity must be a number' }).min(0, 'must be ≥ 0').max(MAX_ORDER_KG, maxQuantityText),
+  emptiesCollected: z.number().int('whole cylinders').min(0, 'must be ≥ 0').max(MAX_ORDER_CYLINDERS, `at most ${MAX_ORDER_CYLINDERS.toLocaleString('en-GB')} cylinders`).default(0),
   note: text(500).default(''),
 });
 export type DeliveryRecordInput = z.infer<typeof deliverySchema>;
 
 export const approvalLimitSchema = z.object({
-  limitMinor: z.number({ error: 'enter a limit' }).int('in minor units (whole pence or cents)').min(0).max(2_000_000_000),
+  limitMinor: z.number({ error: 'enter a limit' }).int('in minor units (whole pence or cents)').min(0, 'must be ≥ 0').max(MAX_APPROVAL_LIMIT_MINOR, `at most ${MAX_APPROVAL_LIMIT_MINOR.toLocaleString('en-GB')} minor units (1,000,000,000.00)`),
   currency: currencySchema,
 });
 export type ApprovalLimitInput = z.infer<typeof approvalLimitSchema>;

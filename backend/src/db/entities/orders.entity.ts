@@ -1,4 +1,5 @@
 import { Column, CreateDateColumn, Entity, PrimaryColumn, PrimaryGeneratedColumn, UpdateDateColumn } from 'typeorm';
+import { bigintMoney } from '../bigint-money';
 
 /**
  * A reorder request for one source: raised by Plenum when the forecast crosses the reorder level, or by a
@@ -52,7 +53,7 @@ export class ReorderRequest {
   @Column({ type: 'int', nullable: true })
   unitPriceMinor!: number | null;
 
-  @Column({ type: 'int', nullable: true })
+  @Column({ type: 'bigint', nullable: true, transformer: bigintMoney })
   totalMinor!: number | null;
 
   @Column({ type: 'char', length: 3 })
@@ -75,6 +76,10 @@ export class ReorderRequest {
 
   @Column({ type: 'int', nullable: true })
   requestedByUserId!: number | null;
+
+  /** Who last changed the quantity or the price (counted as a raiser by the four-eyes rule). */
+  @Column({ type: 'int', nullable: true })
+  amendedByUserId!: number | null;
 
   /** Bumped on every change: clients send it back so a stale screen cannot approve a changed request. */
   @Column({ type: 'int', default: 1 })
@@ -133,10 +138,10 @@ export class RequestApproval {
   userId!: number;
 
   /** The approver's limit when they approved, minor units. */
-  @Column({ type: 'int' })
+  @Column({ type: 'bigint', transformer: bigintMoney })
   limitMinor!: number;
 
-  @Column({ type: 'int' })
+  @Column({ type: 'bigint', transformer: bigintMoney })
   totalMinor!: number;
 
   @Column({ type: 'varchar', length: 1000, default: '' })
@@ -198,7 +203,7 @@ export class PurchaseOrder {
   @Column({ type: 'int' })
   unitPriceMinor!: number;
 
-  @Column({ type: 'int' })
+  @Column({ type: 'bigint', transformer: bigintMoney })
   totalMinor!: number;
 
   @Column({ type: 'char', length: 3 })
@@ -370,7 +375,7 @@ export class UserApprovalLimit {
   @Column({ type: 'int' })
   organisationId!: number;
 
-  @Column({ type: 'int' })
+  @Column({ type: 'bigint', transformer: bigintMoney })
   limitMinor!: number;
 
   @Column({ type: 'char', length: 3 })

@@ -17,7 +17,14 @@ export interface FileInspection {
 }
 
 const SAMPLE_ROWS = 8;
-const HEAD_BYTES = 64 * 1024;
+/** The longest line read, in characters; a longer one is refused rather than read without bound. */
+export const MAX_LINE_CHARS = 64 * 1024;
+/** Enough of the start for a header and a first data line of the limit each, with their line ends. */
+const HEAD_BYTES = 2 * (MAX_LINE_CHARS + 2);
+
+function lineTooLong(line: number) {
+  return badRequest(`The file cannot be read: line ${line} is too long (limit ${MAX_LINE_CHARS.toLocaleString('en-GB')} characters). Check that it is a CSV export with one record per line`, [{ path: 'file', message: `line ${line} too long (limit ${MAX_LINE_CHARS})` }]);
+}
 
 /**
  * Reads an uploaded file once: SHA-256 of its bytes, strict UTF-8 check (a UTF-8 BOM is allowed and
@@ -69,6 +76,9 @@ export async function inspectCsvFile(path: string): Promise<FileInspection> {
   if (head.trim() === '') throw badRequest('The file is empty: it has no header and no rows', [{ path: 'file', message: 'empty file' }]);
   if (head.includes('\u0000')) throw badRequest('The file holds binary data, not CSV text: export it from the spreadsheet as CSV UTF-8', [{ path: 'file', message: 'not a CSV text file' }]);
 
+  // Every line of the head (the last one may be cut off, but is then at least this long) within the limit.
+  const headLines = head.split('\n');
+  for (let i = 0; i < headLines.length; i++) if (headLines[i].replace(/\r$/, '').length > MAX_LINE_CHARS) throw lineTooLong(i + 1);
   const firstLine = head.split(/\r?\n/, 1)[0];
   const separator = sniffSeparator(firstLine);
   // Parse only complete lines of the head (the last one may be cut off).
@@ -122,7 +132,7 @@ export function sniffSeparator(line: string): ',' | ';' {
  * (rare in these exports).
  */
 export async function* readCsvChunks(path: string, separator: ',' | ';'): AsyncGenerator<{ firstLine: number; records: string[][] }> {
-  const parser = createReadStream(path, { highWaterMark: 1 << 20 }).pipe(parseStream({ delimiter: separator, bom: true, relax_column_count: true, relax_quotes: true, skip_empty_lines: false, from_line: 2 }));
+  const parser = createReadStream(path, { highWaterMark: 1 << 20 }).pipe(parseStream({ delimiter: separator, bom: true, relax_column_count: true, relax_quotes: true, skip_empty_lines: false, from_line: 2, max_record_size: MAX_LINE_CHARS }));
   let line = 2;
   let failure: Error | null = null;
   let ended = false;
@@ -154,6 +164,8 @@ export async function* readCsvChunks(path: string, separator: ',' | ';'): AsyncG
       wake = null;
     }
   } catch (e) {
+    const csv = e as { code?: string; lines?: number };
+    if (csv.code === 'CSV_MAX_RECORD_SIZE') throw lineTooLong(csv.lines ?? line);
     throw badRequest(`The file cannot be read as CSV near line ${line}: ${(e as Error).message}`, [{ path: 'file', message: `not CSV at line ${line}` }]);
   } finally {
     parser.destroy();

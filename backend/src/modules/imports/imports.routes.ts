@@ -19,6 +19,9 @@ import { getSiteFor } from '../sites/sites.service';
 const id = (params: unknown) => validate(idParamSchema, params, 'address').id;
 const FM: Role[] = ['facilities_manager'];
 
+const FIELD_COUNT = 20;
+const FIELD_MAX_KB = 64;
+
 /**
  * multer to a local staging folder (never memory: files reach hundreds of MB) with the size limit and
  * clear messages; the service then checks the bytes and streams them into the shared file store.
@@ -33,14 +36,26 @@ function uploadCsv(req: Request, res: Response, next: NextFunction): void {
       },
       filename: (_req, _file, cb) => cb(null, `upload-${Date.now()}-${randomBytes(6).toString('hex')}.csv`),
     }),
-    limits: { fileSize: svc.uploadLimitBytes(), files: 1, fields: 20, fieldSize: 64 * 1024 },
+    limits: { fileSize: svc.uploadLimitBytes(), files: 1, fields: FIELD_COUNT, fieldSize: FIELD_MAX_KB * 1024 },
   }).single('file');
   upload(req, res, (err: unknown) => {
     if (!err) return next();
     if (err instanceof multer.MulterError) {
       if (err.code === 'LIMIT_FILE_SIZE') return next(new AppError(413, 'too_large', `The file is larger than the ${limitMb} MB upload limit: nothing was stored. Split it (for example one file per month) and upload the parts.`, [{ path: 'file', message: `over ${limitMb} MB` }]));
       if (err.code === 'LIMIT_UNEXPECTED_FILE' || err.code === 'LIMIT_FILE_COUNT') return next(badRequest('Send one CSV file, in the form field “file”', [{ path: 'file', message: 'one file' }]));
-      return next(badRequest(`The upload could not be read: ${err.message}`, [{ path: 'file', message: err.code }]));
+      if (err.code === 'LIMIT_FIELD_VALUE') return next(badRequest(`The form field “${err.field ?? ''}” is too long (limit ${FIELD_MAX_KB} KB): nothing was stored. Send the file in the field “file” and only the short upload options beside it`, [{ path: err.field ?? 'file', message: `over ${FIELD_MAX_KB} KB` }]));
+      if (err.code === 'LIMIT_FIELD_COUNT' || err.code === 'LIMIT_PART_COUNT') return next(badRequest(`The upload has too many fields (limit ${FIELD_COUNT}): nothing was stored. Send the file and the upload options only`, [{ path: 'file', message: 'too many fields' }]));
+      return next(badRequest(`The upload could not be read: ${err.message}. Nothing was stored`, [{ path: 'file', message: err.code }]));
+    }
+    // The multipart parser's own errors (a body cut short, a missing or broken boundary, a client gone
+    // mid-upload) are plain errors without a system call; a failing disk is the server's fault (500).
+    if (err instanceof Error && !(err as NodeJS.ErrnoException).syscall) {
+      const cut = /unexpected end|request (aborted|closed)/i.test(err.message);
+      return next(
+        cut
+          ? badRequest('The upload was cut off before its end, so it is incomplete: nothing was stored. Upload the file again', [{ path: 'file', message: 'incomplete upload' }])
+          : badRequest(`The upload could not be read as a multipart form (${err.message}): nothing was stored. Upload the file from the form again`, [{ path: 'file', message: 'not a multipart form' }]),
+      );
     }
     next(err);
   });

@@ -1,4 +1,4 @@
-import type { DeliveryRecordInput } from '@common/schemas/orders.schema';
+import { MAX_ORDER_CYLINDERS, type DeliveryRecordInput } from '@common/schemas/orders.schema';
 import type { ReadingInput } from '@common/schemas/supply.schema';
 import { db } from '../../db/db';
 import { CylinderType } from '../../db/entities/catalogue.entity';
@@ -78,6 +78,7 @@ export async function recordDelivery(actor: Actor, orderId: number, input: Deliv
   const found = await db().getRepository(PurchaseOrder).findOneBy({ id: orderId, organisationId: actor.user.organisationId });
   if (!found || !actor.user.siteIds.includes(found.siteId)) throw notFound('Purchase order');
   if (found.unit === 'cylinders' && !Number.isInteger(input.quantity)) throw badRequest('Cylinders are delivered whole', [{ path: 'quantity', message: 'enter whole cylinders' }]);
+  if (found.unit === 'cylinders' && input.quantity > MAX_ORDER_CYLINDERS) throw badRequest(`At most ${MAX_ORDER_CYLINDERS.toLocaleString('en-GB')} cylinders are delivered at once`, [{ path: 'quantity', message: `at most ${MAX_ORDER_CYLINDERS.toLocaleString('en-GB')} cylinders: check the delivery note` }]);
   if (deliveredAt.getTime() < found.createdAt.getTime() - 86_400_000) throw badRequest('The delivery is dated before the order', [{ path: 'deliveredAt', message: 'before the order' }]);
   const plan = found.status === 'approved' || found.status === 'ordered' ? await planReading(actor, found, input) : null;
 

@@ -1,5 +1,5 @@
 import { In, type EntityManager } from 'typeorm';
-import { REQUEST_STATUS_TEXT, type ChangeQuantityInput, type CreateRequestInput, type DecisionInput, type RejectInput, type RequestListQuery, type RequestStatus } from '@common/schemas/orders.schema';
+import { MAX_ORDER_CYLINDERS, REQUEST_STATUS_TEXT, type ChangeQuantityInput, type CreateRequestInput, type DecisionInput, type RejectInput, type RequestListQuery, type RequestStatus } from '@common/schemas/orders.schema';
 import { db } from '../../db/db';
 import { CylinderType, Supplier } from '../../db/entities/catalogue.entity';
 import { Site } from '../../db/entities/site.entity';
@@ -219,6 +219,7 @@ export async function createRequest(actor: Actor, input: CreateRequestInput, key
 
 function checkQuantity(unit: string, quantity: number) {
   if (unit === 'cylinders' && !Number.isInteger(quantity)) throw badRequest('Cylinders are ordered whole', [{ path: 'quantity', message: 'enter whole cylinders' }]);
+  if (unit === 'cylinders' && quantity > MAX_ORDER_CYLINDERS) throw badRequest(`At most ${MAX_ORDER_CYLINDERS.toLocaleString('en-GB')} cylinders are ordered at once`, [{ path: 'quantity', message: `at most ${MAX_ORDER_CYLINDERS.toLocaleString('en-GB')} cylinders: check the quantity` }]);
 }
 
 // ---------- reading ----------
@@ -264,7 +265,7 @@ async function contextFor(rows: ReorderRequest[]): Promise<Ctx> {
   const sites = await q(Site, ids((r) => r.siteId));
   const sources = await q(SupplySource, ids((r) => r.sourceId));
   const suppliers = await q(Supplier, ids((r) => r.supplierId));
-  const users = await q(User, ids((r) => r.requestedByUserId));
+  const users = await q(User, [...new Set([...ids((r) => r.requestedByUserId), ...ids((r) => r.amendedByUserId)])]);
   const cyl = await q(CylinderType, ids((r) => r.cylinderTypeId));
   const orders = rows.length ? await ds.getRepository(PurchaseOrder).find({ where: { requestId: In(rows.map((r) => r.id)) } }) : [];
   const map = <T extends { id: number }>(list: T[]) => new Map(list.map((x) => [x.id, x]));
@@ -299,6 +300,8 @@ function presentRequestRow(r: ReorderRequest, ctx: Ctx) {
     problem: r.problem,
     note: r.note,
     requestedBy: r.requestedByUserId ? { id: r.requestedByUserId, name: ctx.users.get(r.requestedByUserId)?.name ?? '' } : null,
+    /** Who last changed the quantity or the price: like the raiser, they may not approve. */
+    amendedBy: r.amendedByUserId ? { id: r.amendedByUserId, name: ctx.users.get(r.amendedByUserId)?.name ?? '' } : null,
     version: r.version,
     createdAt: r.createdAt.toISOString(),
     updatedAt: r.updatedAt.toISOString(),
@@ -336,6 +339,7 @@ function actionsFor(actor: Actor, r: ReorderRequest, approvals: RequestApproval[
     if (!po) return no('Only purchasing officers approve requests.');
     if (r.status !== 'submitted') return no(`The request is ${REQUEST_STATUS_TEXT[r.status as RequestStatus].toLowerCase()}.`);
     if (r.requestedByUserId === actor.user.id) return no('You raised this request: another purchasing officer must approve it.');
+    if (r.amendedByUserId === actor.user.id) return no('You changed the quantity or price of this request last: another purchasing officer must approve it.');
     if (approvals.some((a) => a.userId === actor.user.id)) return no('You gave the first approval: a second purchasing officer must approve it.');
     if (!limit || limit.limitMinor <= 0) return no('You have no approval limit: ask an administrator to set one.');
     if (r.totalMinor !== null && approvals.length > 0 && r.totalMinor > limit.limitMinor) return no(`The total of ${formatMoney(r.totalMinor, r.currency)} is above your limit of ${formatMoney(limit.limitMinor, limit.currency)}: the second approval needs an officer whose limit covers it.`);
@@ -376,8 +380,10 @@ export async function submitRequest(actor: Actor, id: number, version: number | 
         await bump(m, r, { problem: pricing.problem, supplierId: pricing.supplier?.id ?? null });
         throw conflict(pricing.problem, 'request_problem');
       }
-      await bump(m, r, { status: 'submitted', problem: '', supplierId: pricing.supplier!.id, unitPriceMinor: pricing.unitPriceMinor, totalMinor: lineTotalMinor(r.quantity, pricing.unitPriceMinor!) });
-      await addEvent(m, id, actor, 'submitted', 'draft', 'submitted');
+      // A price that changed since the draft is the submitter's change (the four-eyes rule counts it).
+      const repriced = pricing.unitPriceMinor !== r.unitPriceMinor;
+      await bump(m, r, { status: 'submitted', problem: '', supplierId: pricing.supplier!.id, unitPriceMinor: pricing.unitPriceMinor, totalMinor: lineTotalMinor(r.quantity, pricing.unitPriceMinor!), ...(repriced ? { amendedByUserId: actor.user.id } : {}) });
+      await addEvent(m, id, actor, 'submitted', 'draft', 'submitted', '', repriced ? { priceChanged: { from: r.unitPriceMinor, to: pricing.unitPriceMinor, currency: r.currency } } : undefined);
       await recordAudit(m, whoOfDoer(actor, r.organisationId), { action: 'submit', entity: 'reorder_request', entityId: String(id), before: { status: 'draft' }, after: { status: 'submitted' } });
       return id;
     }),
@@ -395,7 +401,7 @@ export async function changeQuantity(actor: Actor, id: number, input: ChangeQuan
       const approvals = await m.getRepository(RequestApproval).find({ where: { requestId: id } });
       if (approvals.length) await m.getRepository(RequestApproval).delete({ requestId: id });
       const totalMinor = r.unitPriceMinor === null ? null : lineTotalMinor(input.quantity, r.unitPriceMinor);
-      await bump(m, r, { quantity: input.quantity, quantityReason: input.reason, totalMinor });
+      await bump(m, r, { quantity: input.quantity, quantityReason: input.reason, totalMinor, amendedByUserId: actor.user.id });
       await addEvent(m, id, actor, 'quantity_changed', r.status, r.status, input.reason, { from: r.quantity, to: input.quantity, unit: r.unit, ...(approvals.length ? { approvalsCleared: approvals.length } : {}) });
       await recordAudit(m, whoOfDoer(actor, r.organisationId), { action: 'update', entity: 'reorder_request', entityId: String(id), before: { quantity: r.quantity, totalMinor: r.totalMinor }, after: { quantity: input.quantity, totalMinor, reason: input.reason } });
       return id;
@@ -476,6 +482,7 @@ export async function approveRequest(actor: Actor, id: number, input: DecisionIn
       }
       checkVersion(r, input.version);
       if (r.requestedByUserId === actor.user.id) throw new AppError(409, 'self_approval', 'You raised this request, so you cannot approve it: another purchasing officer must.');
+      if (r.amendedByUserId === actor.user.id) throw new AppError(409, 'own_change_approval', 'You changed the quantity or price of this request last, so you cannot approve it: another purchasing officer must.');
       if (r.problem || r.totalMinor === null || r.unitPriceMinor === null || !r.supplierId) throw conflict(r.problem || 'This request has no price: it cannot be approved', 'request_problem');
       const limit = await m.getRepository(UserApprovalLimit).findOneBy({ userId: actor.user.id });
       if (!limit || limit.limitMinor <= 0) throw new AppError(409, 'no_approval_limit', 'You have no approval limit: ask an administrator to set one before approving.');

@@ -27,6 +27,8 @@ export interface RequestRow {
   problem: string;
   note: string;
   requestedBy: { id: number; name: string } | null;
+  /** Who last changed the quantity or price (may not approve, like the raiser). */
+  amendedBy: { id: number; name: string } | null;
   version: number;
   createdAt: string;
   order: { id: number; poNumber: string; status: string } | null;

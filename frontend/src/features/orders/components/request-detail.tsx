@@ -43,6 +43,7 @@ export function RequestDetailView({ id }: { id: number }) {
               <Fact label="Needed by">{formatDateTime(r.neededBy)}</Fact>
               {r.trigger?.daysOfStock !== undefined && <Fact label="Days of stock when raised">{formatDays(r.trigger.daysOfStock)}</Fact>}
               <Fact label="Raised">{r.origin === 'auto' ? 'by Plenum (forecast)' : `by ${r.requestedBy?.name ?? '–'}`}</Fact>
+              {r.amendedBy && <Fact label="Quantity or price last changed">{`by ${r.amendedBy.name}`}</Fact>}
               {r.order && (
                 <Fact label="Purchase order">
                   <Link className="text-primary underline" to={`/orders/purchase-orders/${r.order.id}`}>
@@ -81,6 +82,9 @@ export function RequestDetailView({ id }: { id: number }) {
                     <div className="text-sm">
                       {String(e.detail.from)} → {String(e.detail.to)} {String(e.detail.unit)}
                     </div>
+                  )}
+                  {e.action === 'submitted' && e.detail?.priceChanged !== undefined && (
+                    <div className="text-sm">{priceChangeText(e.detail.priceChanged as { from: number | null; to: number; currency: string })}</div>
                   )}
                 </li>
               ))}
@@ -194,4 +198,8 @@ function DecisionPanel({ r }: { r: RequestDetail }) {
       )}
     </div>
   );
+}
+
+function priceChangeText(p: { from: number | null; to: number; currency: string }): string {
+  return `Price from the list: ${p.from === null ? 'none' : formatMoney(p.from, p.currency)} → ${formatMoney(p.to, p.currency)}`;
 }
