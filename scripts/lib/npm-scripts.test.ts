@@ -1,7 +1,7 @@
 /**
- * Every `npm run` script must point at something that exists: a file of this repository (shell scripts
- * also parse with `bash -n`), or a program that an installed package provides. A script renamed or
- * removed without its package.json entry fails here instead of in a contributor's terminal.
+ * Every `npm run` script must point at something that exists: a file of this repository (extension-less
+ * shell scripts also parse with `bash -n`), or a program that an installed package provides. A script
+ * renamed or removed without its package.json entry fails here instead of in a contributor's terminal.
  */
 import { execFileSync, spawnSync } from 'node:child_process';
 import { existsSync, readFileSync } from 'node:fs';
@@ -32,7 +32,7 @@ describe('npm run scripts', () => {
     if (file) {
       const full = path.join(root, file);
       expect(existsSync(full), `${file} (from "${command}") does not exist`).toBe(true);
-      if (!file.endsWith('.ts')) {
+      if (!path.extname(file)) {
         const check = spawnSync('bash', ['-n', full], { encoding: 'utf8' });
         expect(check.status, check.stderr).toBe(0);
       }
