@@ -106,11 +106,12 @@ function computeWardDetail(model: SiteModel, ward: Ward) {
 
 export function forecastRoutes(): RouteDef[] {
   return [
-    { method: 'get', path: '/api/overview', access: 'authenticated', handler: (req) => overview(actorOf(req)) },
+    { method: 'get', path: '/api/overview', access: 'authenticated', revalidate: true, handler: (req) => overview(actorOf(req)) },
     {
       method: 'get',
       path: '/api/sources/:id',
       access: 'authenticated',
+      revalidate: true,
       handler: (req) => sourceDetail(actorOf(req), validate(idParamSchema, req.params, 'address').id, validate(forecastQuerySchema, req.query, 'query')),
     },
     {
@@ -127,6 +128,6 @@ export function forecastRoutes(): RouteDef[] {
         return undefined;
       },
     },
-    { method: 'get', path: '/api/wards/:id', access: 'authenticated', handler: (req) => wardDetail(actorOf(req), validate(idParamSchema, req.params, 'address').id) },
+    { method: 'get', path: '/api/wards/:id', access: 'authenticated', revalidate: true, handler: (req) => wardDetail(actorOf(req), validate(idParamSchema, req.params, 'address').id) },
   ];
 }
