@@ -62,6 +62,14 @@ describe('cached forecast answers are never stale', () => {
     const firstRow = String(csv.body).split('\r\n')[1].split(',');
     expect(firstRow[0]).toBe(new Date(new Date(takenAt).getTime() + 3_600_000).toISOString());
     expect(Number(firstRow[1])).toBeCloseTo(8000 - kgPerH(), 2);
+    // The chart's columns: the same hours as the CSV, contents rounded to 0.1 kg.
+    const csvRows = String(csv.body).trimEnd().split('\r\n').slice(1);
+    expect(next.body.series.startAt).toBe(firstRow[0]);
+    expect(next.body.series.stepHours).toBe(1);
+    expect(next.body.series.contents).toHaveLength(csvRows.length);
+    expect(Math.abs(next.body.series.contents[0] - Number(firstRow[1]))).toBeLessThanOrEqual(0.05);
+    const last = csvRows[csvRows.length - 1].split(',');
+    expect(Math.abs(next.body.series.contents.at(-1) - Number(last[1]))).toBeLessThanOrEqual(0.05);
   });
 
   it('a therapy-line change shows in the ward detail and its source on the very next request', async () => {

@@ -1,4 +1,5 @@
 import { toCsv } from '@common/api/csv';
+import { toChartSeries } from '@common/forecast/chart-series';
 import { REFERENCE_CONDITIONS, type ReferenceCode } from '@common/gas/reference-conditions';
 import { cylinderTypeName } from '@common/catalogue/cylinder-type';
 import type { Actor } from '../../http/context';
@@ -61,12 +62,8 @@ function compute(model: SiteModel, s: SupplySource, q: SourceDetailQuery, readin
   const f = o.forecast;
   const startMs = f?.index.startUtcMs ?? now.getTime();
   const hourly: Hourly | null = f ? { startMs, from: Math.max(0, o.elapsedHours - 1), contents: f.series, demandL: f.demandLPerHour } : null;
-  const series: { at: string; contents: number; demandL: number }[] = [];
-  if (hourly) {
-    for (let i = hourly.from; i < hourly.contents.length; i++) {
-      series.push({ at: new Date(startMs + (i + 1) * MS_H).toISOString(), contents: hourly.contents[i], demandL: hourly.demandL[i] });
-    }
-  }
+  // Columns, hourly, rounded for drawing (the CSV export keeps full precision and the demand column).
+  const series = hourly ? toChartSeries(hourly.contents, startMs, hourly.from, o.unit) : toChartSeries([], now.getTime(), 0, o.unit);
   const iso = (h: number | null) => (h !== null && Number.isFinite(h) ? new Date(startMs + h * MS_H).toISOString() : null);
   const band = f?.bands ? { draws: f.bands.draws, drawsOutlastingHorizon: f.bands.drawsOutlastingHorizon, p10: iso(f.bands.p10), p50: iso(f.bands.p50), p90: iso(f.bands.p90) } : null;
   const perCyl = f?.factors.fullCylinderFreeGasL;
