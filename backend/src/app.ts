@@ -3,6 +3,7 @@ import path from 'node:path';
 import { fileURLToPath } from 'node:url';
 import express, { type Express, type Request, type Response, type NextFunction } from 'express';
 import helmet from 'helmet';
+import compression from 'compression';
 import session from 'express-session';
 import MySQLStoreFactory from 'express-mysql-session';
 import { env } from './config/env';
@@ -52,6 +53,9 @@ export async function createApp(): Promise<AppHandle> {
       strictTransportSecurity: e.COOKIE_SECURE,
     }),
   );
+  // gzip/deflate for JSON, CSV (streamed exports too: compression keeps write/drain back-pressure) and the
+  // built front end, when the client asks for it (Accept-Encoding); answers under 1 kB go as they are.
+  app.use(compression());
   app.use(express.json({ limit: '1mb' }));
 
   const MySQLStore = MySQLStoreFactory(session as never);
@@ -117,6 +121,10 @@ function register(app: Express, route: RouteDef): void {
   if (route.before) chain.push(...route.before);
   app[route.method](route.path, ...chain, async (req: Request, res: Response) => {
     const result = await route.handler(req, res);
-    if (result !== undefined && !res.headersSent) res.json(result);
+    if (result !== undefined && !res.headersSent) {
+      // The browser may keep it, but must ask again each time: Express's ETag answers 304 when unchanged.
+      if (route.revalidate) res.setHeader('Cache-Control', 'private, no-cache');
+      res.json(result);
+    }
   });
 }

@@ -182,7 +182,7 @@ describe('security headers', () => {
     expect(h.get('access-control-allow-origin'), what).toBeNull();
   }
 
-  it('on success, refusal, error and unknown routes, and the API is never cached', async () => {
+  it('on success, refusal, error and unknown routes, and the API is never kept by a shared cache', async () => {
     const anon = new Client(app.baseUrl);
     const origin = { headers: { origin: 'https://evil.example' } };
     const health = await anon.request('GET', '/api/health', undefined, origin);
@@ -202,7 +202,10 @@ describe('security headers', () => {
     const data = await c.get('/api/overview');
     expect(data.status).toBe(200);
     expectHardened(data.headers, 'overview');
-    expect(data.headers.get('cache-control')).toBe('no-store');
+    // The overview is cached on the server by data version: the browser may keep it but must revalidate it
+    // (ETag), and no shared cache may keep it. Every other answer stays no-store.
+    expect(data.headers.get('cache-control')).toBe('private, no-cache');
+    expect((await c.get('/api/auth/me')).headers.get('cache-control')).toBe('no-store');
   });
 
   it('with COOKIE_SECURE the session cookie is Secure, HttpOnly and SameSite behind a TLS proxy', async () => {

@@ -12,6 +12,12 @@ export interface RouteDef {
   csrf?: boolean;
   /** Extra middleware (rate limiters, uploads), run after auth and CSRF. */
   before?: ((req: Request, res: Response, next: (err?: unknown) => void) => void)[];
+  /**
+   * A GET whose answer is cached on the server (by data version): sent as `private, no-cache` instead of
+   * `no-store`, so the browser keeps it and revalidates with its ETag (a 304 when unchanged). The ETag is a
+   * hash of the body, so a 304 never hands one user's answer to another.
+   */
+  revalidate?: boolean;
   /** Returns the JSON body (status 200), or handles `res` itself and returns undefined. */
   handler: (req: Request, res: Response) => unknown;
 }

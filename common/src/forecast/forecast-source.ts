@@ -33,6 +33,11 @@ export interface SourceForecast {
   bands: HoursToEmptyBands | null;
   /** Manifold events (changeovers, bank replacements), elapsed hours; empty for other sources. */
   manifoldEvents: ManifoldEvent[];
+  /**
+   * Contents at which the reorder rule places an order, in `unit` (the chart's reorder line); null without
+   * a reorder rule. For a manifold: the level in full-cylinder equivalents × usable gas per cylinder.
+   */
+  reorderLevel: number | null;
   /** Conversion factors used, for the method panel. */
   factors: { freeGasLitresPerKg?: number; fullCylinderFreeGasL?: number; residualPerCylinderL?: number };
 }
@@ -146,6 +151,7 @@ export function forecastSource(input: ForecastInput): SourceForecast {
     firstRisk: result.firstRisk,
     bands,
     manifoldEvents: [],
+    reorderLevel: model.reorder ? model.reorder.level : null,
     factors,
   };
 }
@@ -247,6 +253,7 @@ function forecastManifold(
     firstRisk,
     bands,
     manifoldEvents: result.events,
+    reorderLevel: reorder ? reorder.levelCylinders * usablePerCyl : null,
     factors: { fullCylinderFreeGasL: perCyl, residualPerCylinderL: residual },
   };
 }

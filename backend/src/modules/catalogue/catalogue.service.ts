@@ -6,6 +6,7 @@ import { CylinderType, Gas, Supplier, SupplierPrice } from '../../db/entities/ca
 import type { Actor } from '../../http/context';
 import { badRequest, conflict, notFound } from '../../errors/app-error';
 import { recordAudit, whoOf } from '../audit/audit.service';
+import { bumpOrganisationSiteVersions } from '../forecast/site-version';
 
 export async function listGases() {
   const gases = await db().getRepository(Gas).find({ order: { sortOrder: 'ASC' } });
@@ -64,6 +65,8 @@ export async function updateCylinderType(actor: Actor, id: number, input: Cylind
     const before = presentCylinderType(await cylinderTypeInOrg(m, actor, id));
     await assertUniqueType(m, actor, input, id);
     await m.getRepository(CylinderType).update({ id }, { ...input, tareKg: input.tareKg ?? null, maxFillingRatioKgPerL: input.maxFillingRatioKgPerL ?? null });
+    // A cylinder type's size and fill pressure are forecast inputs of every source using it.
+    await bumpOrganisationSiteVersions(m, actor.user.organisationId);
     const after = presentCylinderType(await cylinderTypeInOrg(m, actor, id));
     await recordAudit(m, whoOf(actor), { action: 'update', entity: 'cylinder_type', entityId: String(id), before, after });
     return after;
@@ -137,6 +140,8 @@ export async function updateSupplier(actor: Actor, id: number, input: SupplierIn
     const { prices, ...fields } = input;
     await m.getRepository(Supplier).update({ id }, fields);
     await writePrices(m, actor, id, prices);
+    // A supplier's lead time (and name) reach the forecasts and screens of every site.
+    await bumpOrganisationSiteVersions(m, actor.user.organisationId);
     const [after] = await presentSuppliers(m, [await supplierInOrg(m, actor, id)]);
     await recordAudit(m, whoOf(actor), { action: 'update', entity: 'supplier', entityId: String(id), before, after });
     return after;

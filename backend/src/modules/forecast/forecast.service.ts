@@ -265,6 +265,29 @@ export function buildForecastInput(model: SiteModel, s: SupplySource, opts: Fore
   return { input: parsed.data, note: null, basis };
 }
 
+/**
+ * The engine is a pure function of its request, so its results are kept by the request itself (as JSON):
+ * a version bump that does not change this source's request (a write elsewhere on the site) reuses the
+ * forecast and its Monte Carlo band, and a changed request can never hit an old result.
+ */
+const engineResults = new Map<string, SourceForecast>();
+const ENGINE_RESULTS_MAX = 300;
+
+function forecastOnce(input: ForecastInput): SourceForecast {
+  const key = JSON.stringify(input);
+  const hit = engineResults.get(key);
+  if (hit) {
+    // Most recently used last, so the oldest unused result goes first.
+    engineResults.delete(key);
+    engineResults.set(key, hit);
+    return hit;
+  }
+  const f = forecastSource(input);
+  if (engineResults.size >= ENGINE_RESULTS_MAX) engineResults.delete(engineResults.keys().next().value!);
+  engineResults.set(key, f);
+  return f;
+}
+
 /** Forecast and outlook of one source at `now` (status, days of stock, dates in UTC ISO). */
 export function outlookFor(model: SiteModel, s: SupplySource, opts: ForecastOptions = {}): SourceOutlook {
   const now = opts.now ?? new Date();
@@ -296,7 +319,7 @@ export function outlookFor(model: SiteModel, s: SupplySource, opts: ForecastOpti
   if (!input) return { ...empty, statusText: reading ? 'No forecast' : STATUS_TEXT.unknown };
   let f: SourceForecast;
   try {
-    f = forecastSource(input);
+    f = forecastOnce(input);
   } catch (e) {
     if (e instanceof InvalidInputError) return { ...empty, note: `Cannot forecast: ${e.message}` };
     throw e;

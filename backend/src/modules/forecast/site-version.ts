@@ -9,6 +9,14 @@ export async function bumpSiteVersion(m: EntityManager, siteId: number): Promise
   await m.query('UPDATE site SET data_version = data_version + 1 WHERE id = ?', [siteId]);
 }
 
+/**
+ * Bumps the version of every site of an organisation: for writes to the shared catalogue that forecasts
+ * read (a supplier's lead time, a cylinder type's size and fill pressure).
+ */
+export async function bumpOrganisationSiteVersions(m: EntityManager, organisationId: number): Promise<void> {
+  await m.query('UPDATE site SET data_version = data_version + 1 WHERE organisation_id = ?', [organisationId]);
+}
+
 export async function siteVersions(siteIds: number[], organisationId: number): Promise<Map<number, number>> {
   if (siteIds.length === 0) return new Map();
   const rows: { id: number; data_version: string | number }[] = await db().query(`SELECT id, data_version FROM site WHERE organisation_id = ? AND id IN (${siteIds.map(() => '?').join(',')})`, [organisationId, ...siteIds]);
@@ -35,6 +43,10 @@ export class VersionedCache<T> {
       return undefined;
     }
     return e.value;
+  }
+
+  delete(key: string): void {
+    this.entries.delete(key);
   }
 
   set(key: string, value: T): void {

@@ -1,6 +1,7 @@
 import { keepPreviousData, queryOptions, useMutation, useQueryClient } from '@tanstack/react-query';
 import type { DeliveryInput, ReadingInput, SourceInput, SourceType } from '@common/schemas/supply.schema';
 import { api } from '@/lib/api-client';
+import type { ForecastChartSeries } from '@common/forecast/chart-series';
 
 export type { SourceType };
 export type SupplyStatus = 'ok' | 'watch' | 'reorder' | 'critical' | 'unknown';
@@ -107,8 +108,8 @@ export interface SourceDetail {
   source: Source & { cylinderTypeName: string | null; supplierName: string | null };
   site: { id: number; name: string; timeZone: string; referenceCode: string; currency: string };
   outlook: Outlook;
-  /** Hourly, from the hour before now to the end of the horizon; `at` is a UTC instant. */
-  series: { at: string; contents: number; demandL: number }[];
+  /** Hourly columns from the hour before now to the end of the horizon (the CSV export has every hour's demand too). */
+  series: ForecastChartSeries;
   /** Percentiles of the empty time over the demand draws; null where a draw outlasts the horizon. */
   band: { draws: number; drawsOutlastingHorizon: number; p10: string | null; p50: string | null; p90: string | null } | null;
   reorderLevel: number | null;

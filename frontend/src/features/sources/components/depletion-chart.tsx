@@ -5,6 +5,7 @@ import { ChartFrame, LegendItem } from '@/components/ui/chart-frame';
 import type { SourceDetail } from '../api/sources-api';
 import { niceAxis, thinSeries } from '../lib/chart-data';
 import { dayTicks, formatTick } from '../lib/site-time';
+import { chartPoints, chartSeriesEnd } from '@common/forecast/chart-series';
 
 const COLOURS = {
   contents: 'var(--color-series-real)',
@@ -39,7 +40,7 @@ export function DepletionChart({ detail, height = 300 }: { detail: SourceDetail;
   const { series, band, reorderLevel, orders, deliveries, site, outlook } = detail;
   const tz = site.timeZone;
   const unit = outlook.unit;
-  const data = useMemo(() => thinSeries(series.map((p) => ({ t: Date.parse(p.at), contents: p.contents }))), [series]);
+  const data = useMemo(() => thinSeries(chartPoints(series)), [series]);
   if (data.length < 2) return null;
   const start = data[0].t;
   const end = data[data.length - 1].t;
@@ -60,13 +61,13 @@ export function DepletionChart({ detail, height = 300 }: { detail: SourceDetail;
     `now ${formatNumber(data[0].contents)} ${unit}, lowest ${formatNumber(low.contents)} ${unit} on ${formatDateTime(new Date(low.t).toISOString(), tz)}.`,
     reorderLevel !== null ? `Reorder level ${formatNumber(reorderLevel)} ${unit}.` : 'No reorder level.',
     `${orders.length} order${orders.length === 1 ? '' : 's'} placed by the reorder rule, ${deliveries.length} scheduled deliver${deliveries.length === 1 ? 'y' : 'ies'}.`,
-    describeBand(band, tz, series[series.length - 1]?.at),
+    describeBand(band, tz, chartSeriesEnd(series) ?? undefined),
   ].join(' ');
 
   return (
     <ChartFrame
       title={`Contents, ${unit === 'kg' ? 'kg of liquid' : 'litres of free gas'}`}
-      caption={describeBand(band, tz, series[series.length - 1]?.at)}
+      caption={describeBand(band, tz, chartSeriesEnd(series) ?? undefined)}
       summary={summary}
       height={height}
       legend={

@@ -37,7 +37,7 @@ export function ForecastCard({ detail, onScenarioChange, updating }: { detail: S
     <Card>
       <CardHeader
         title="Forecast"
-        description={`Hour by hour over the next ${Math.max(1, Math.round(detail.series.length / 24))} days, in ${tz} time.`}
+        description={`Hour by hour over the next ${Math.max(1, Math.round(detail.series.contents.length / 24))} days, in ${tz} time.`}
         actions={
           <label className="flex w-full flex-col gap-1 sm:w-72">
             <span className="flex items-center gap-2 text-sm font-bold">
@@ -61,7 +61,7 @@ export function ForecastCard({ detail, onScenarioChange, updating }: { detail: S
             {describeScenario(chosen)}
           </p>
         )}
-        {detail.series.length < 2 ? (
+        {detail.series.contents.length < 2 ? (
           <EmptyState title="No forecast to draw" icon="clock">
             {detail.outlook.note ?? 'Enter a reading to start the forecast of this source.'}
           </EmptyState>
