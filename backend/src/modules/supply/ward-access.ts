@@ -1,4 +1,5 @@
 import { In, type EntityManager } from 'typeorm';
+import { wardLeadOnly as onlyWardLead } from '@common/api/roles';
 import { db } from '../../db/db';
 import { UserWard } from '../../db/entities/ward-grant.entity';
 import type { Ward } from '../../db/entities/supply.entity';
@@ -14,7 +15,7 @@ import { AppError } from '../../errors/app-error';
  *   granted wards (403 not_your_ward); a facilities manager writes for every ward of their sites.
  */
 export function wardLeadOnly(actor: Actor): boolean {
-  return actor.user.roles.length > 0 && actor.user.roles.every((r) => r === 'ward_lead');
+  return onlyWardLead(actor.user.roles);
 }
 
 /** The ids of the wards granted to the actor (whatever their roles). */
