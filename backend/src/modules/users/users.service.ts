@@ -1,6 +1,7 @@
 import { In } from 'typeorm';
 import type { ListQuery, Page } from '@common/schemas/common.schema';
-import type { UserCreateInput, UserUpdateInput, UserWardsInput } from '@common/schemas/admin.schema';
+import type { UserCreateInput, UserUpdateInput } from '@common/schemas/admin.schema';
+import type { UserWardsInput } from '@common/schemas/admin.schema';
 import type { Role } from '@common/api/roles';
 import { db } from '../../db/db';
 import { User, UserRole, UserSite } from '../../db/entities/user.entity';

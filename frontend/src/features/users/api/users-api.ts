@@ -1,7 +1,8 @@
 import { keepPreviousData, queryOptions, useMutation, useQueryClient } from '@tanstack/react-query';
 import type { Role } from '@common/api/roles';
 import type { Page } from '@common/schemas/common.schema';
-import type { UserCreateInput, UserUpdateInput, UserWardsInput } from '@common/schemas/admin.schema';
+import type { UserCreateInput, UserUpdateInput } from '@common/schemas/admin.schema';
+import type { UserWardsInput } from '@common/schemas/admin.schema';
 import { api } from '@/lib/api-client';
 import type { ListParams } from '@/lib/list-params';
 
