@@ -147,4 +147,40 @@ describe('keyboard only', () => {
     expect(errors).toEqual([]);
     await context.close();
   });
+
+  it('an administrator grants a ward lead one more ward with the keyboard', async () => {
+    const context = await browser.newContext({ viewport: DESKTOP });
+    const page = await context.newPage();
+    const errors = watchErrors(page);
+    await signInByKeyboard(page, 'admin');
+    await page.getByRole('heading', { name: 'Today', exact: true }).waitFor({ timeout: 20_000 });
+    const users = await (await context.request.get(`${baseUrl}/api/users?q=${encodeURIComponent(DEMO_EMAIL.ward)}`)).json();
+    const lead = users.items.find((u: { email: string }) => u.email === DEMO_EMAIL.ward) as { id: number; name: string };
+    const before = await (await context.request.get(`${baseUrl}/api/users/${lead.id}/wards`)).json();
+    const extra = (before.sites as { wards: { id: number; name: string }[] }[]).flatMap((s) => s.wards).find((w) => !before.wardIds.includes(w.id));
+    expect(extra, 'the demo has a ward the ward lead is not granted').toBeDefined();
+
+    await tabTo(page, (f) => f.href === '/admin/users', 'Users in the menu', 120);
+    await page.keyboard.press('Enter');
+    await page.waitForURL(/\/admin\/users/);
+    await page.waitForLoadState('networkidle');
+    await tabTo(page, (f) => f.tag === 'button' && f.label === `Wards of ${lead.name}`, 'the Wards button of the ward lead', 200);
+    await page.keyboard.press('Enter');
+    await page.getByRole('dialog').getByRole('button', { name: 'Save wards' }).waitFor({ timeout: 20_000 });
+    await tabTo(page, (f) => f.tag === 'input' && f.label === extra!.name, `the checkbox of ${extra!.name}`, 200);
+    await page.keyboard.press('Space');
+    await tabTo(page, (f) => f.tag === 'button' && f.label === 'Save wards', 'the Save wards button', 200);
+    await screenshot(page, 'keyboard-ward-grants-desktop');
+    await page.keyboard.press('Enter');
+    await page.getByText(`${lead.name} now reports for ${before.wardIds.length + 1} wards.`).waitFor({ timeout: 20_000 });
+
+    const after = await (await context.request.get(`${baseUrl}/api/users/${lead.id}/wards`)).json();
+    expect([...after.wardIds].sort()).toEqual([...before.wardIds, extra!.id].sort());
+    // Leave the demo as it was for the other journeys.
+    const csrf = (await (await context.request.get(`${baseUrl}/api/auth/csrf`)).json()).token as string;
+    const restored = await context.request.put(`${baseUrl}/api/users/${lead.id}/wards`, { data: { wardIds: before.wardIds }, headers: { 'x-csrf-token': csrf } });
+    expect(restored.ok()).toBe(true);
+    expect(errors).toEqual([]);
+    await context.close();
+  });
 });

@@ -98,6 +98,9 @@ describe('usage reports', () => {
   beforeAll(async () => {
     const w = await fm.post(`/api/sites/${siteId}/wards`, { name: `Ward ${uniq()}`, department: 'ward', beds: 24 });
     wardId = w.body.id;
+    // Ward leads file only for the wards an administrator granted them.
+    const admin = await signedIn(app, org.users.administrator);
+    expect((await admin.put(`/api/users/${org.userIds.ward_lead}/wards`, { wardIds: [wardId] })).status).toBe(200);
     await fm.put(`/api/wards/${wardId}/therapy`, { lines: [{ gasCode: 'O2', device: 'nasal_cannula', patients: 6 }, { gasCode: 'O2', device: 'simple_mask', patients: 2 }] });
     const cyl = await app.ds.getRepository(CylinderType).save(app.ds.getRepository(CylinderType).create({ organisationId: org.organisationId, gasCode: 'O2', waterCapacityL: 2, fillPressureBar: 230, tareKg: null, maxFillingRatioKgPerL: null, material: 'aluminium', valveNotes: '', active: true }));
     cylId = cyl.id;
@@ -159,14 +162,23 @@ describe('usage reports', () => {
     expect(JSON.parse(audit[1].after_json).note).toBe('fixed by facilities');
   });
 
-  it('e-mails a reminder to the ward leads of a ward without a report, once', async () => {
+  it('e-mails a reminder to the ward leads granted a ward without a report, once; an ungranted ward goes to the facilities managers', async () => {
     const w = await fm.post(`/api/sites/${siteId}/wards`, { name: `Quiet ward ${uniq()}`, department: 'ward', beds: 10 });
+    const nobody = await fm.post(`/api/sites/${siteId}/wards`, { name: `Ungranted ward ${uniq()}`, department: 'ward', beds: 10 });
+    const admin = await signedIn(app, org.users.administrator);
+    expect((await admin.put(`/api/users/${org.userIds.ward_lead}/wards`, { wardIds: [wardId, w.body.id] })).status).toBe(200);
     setEnv(parseEnv({ ...baseEnv(), REPORT_REMINDER_LOCAL_TIME: '00:00' }));
     try {
       const sent = await sendDueReminders(new Date(), { siteIds: [siteId] });
       const mine = sent.find((s) => s.to === org.users.ward_lead);
       expect(mine, JSON.stringify(sent)).toBeDefined();
       expect(mine!.wards).toContain(w.body.name);
+      // Nobody is granted the other ward: its reminder goes to the site's facilities manager, not to the ward lead.
+      expect(mine!.wards).not.toContain(nobody.body.name);
+      expect(sent.find((s) => s.to === org.users.facilities_manager)?.wards, JSON.stringify(sent)).toContain(nobody.body.name);
+      expect(sent.find((s) => s.to === org.users.facilities_manager)?.wards).not.toContain(w.body.name);
+      const fmMail: { text_body: string }[] = await app.ds.query('SELECT text_body FROM mail_message WHERE mail_to LIKE ? ORDER BY id DESC LIMIT 1', [`%${org.users.facilities_manager}%`]);
+      expect(fmMail[0].text_body).toMatch(/no ward lead is granted this ward/);
       // The ward that reported today is not in it.
       const filed = (await lead.get(`/api/sites/${siteId}/usage-status`)).body.wards.filter((x: { reportId: number | null }) => x.reportId !== null).map((x: { name: string }) => x.name);
       for (const name of filed) expect(mine!.wards).not.toContain(name);

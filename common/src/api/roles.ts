@@ -15,3 +15,10 @@ export const CSRF_HEADER = 'x-csrf-token';
 
 /** Sign-in policy: consecutive failures before a temporary lock (its length is configured on the server). */
 export const LOGIN_MAX_FAILURES = 5;
+/**
+ * Whether ward lead is a person's only role: then they see only the wards an administrator granted
+ * them; any other role reads every ward of their sites.
+ */
+export function wardLeadOnly(roles: readonly Role[]): boolean {
+  return roles.length > 0 && roles.every((r) => r === 'ward_lead');
+}

@@ -88,3 +88,9 @@ export const supplierSchema = z.object({
   prices: z.array(supplierPriceSchema).max(500).default([]),
 });
 export type SupplierInput = z.infer<typeof supplierSchema>;
+
+/** The wards granted to a ward lead (the whole set: absent ids are revoked). */
+export const userWardsSchema = z.object({
+  wardIds: z.array(z.number({ error: 'choose wards from the list' }).int().positive()).max(1000, 'at most 1,000 wards'),
+});
+export type UserWardsInput = z.infer<typeof userWardsSchema>;

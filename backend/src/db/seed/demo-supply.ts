@@ -3,6 +3,7 @@ import { DateTime } from 'luxon';
 import { compressedContents } from '@common/gas/contents';
 import { freeGasLitresPerKg } from '@common/gas/reference-conditions';
 import { Scenario, ScheduledDelivery, SourceReading, SupplySource, TherapyLineRow, Ward, WardFeed } from '../entities/supply.entity';
+import { UserWard } from '../entities/ward-grant.entity';
 import type { FoundationIds } from './demo-foundation';
 
 /** A small seeded generator (mulberry32), so the demo is the same on every machine. */
@@ -123,6 +124,13 @@ export async function seedSupply(m: EntityManager, ids: FoundationIds, now = new
   const random = rng(20270104);
   const hospitalWards = await addWards(m, ids.hospitalId, HOSPITAL_WARDS);
   const clinicWards = await addWards(m, ids.clinicId, CLINIC_WARDS);
+  // The demo ward lead reports for the hospital's inpatient wards (the report screen, its browser
+  // journeys and the ward screens open on these); departments report through facilities.
+  const wardLead = ids.userIds['ward@plenum.example'];
+  if (wardLead) {
+    const inpatient = [...hospitalWards.values()].filter((w) => w.department === 'ward');
+    if (inpatient.length) await m.getRepository(UserWard).insert(inpatient.map((w) => ({ userId: wardLead, wardId: w.id })));
+  }
   const src = (row: Partial<SupplySource>) => m.getRepository(SupplySource).save(m.getRepository(SupplySource).create({ reorderMode: 'none', forecastBasis: 'model', modelCorrectionFactor: 1, notes: '', active: true, ...row }));
 
   const vie = await src({ siteId: ids.hospitalId, name: 'Main VIE — liquid oxygen', type: 'bulk_liquid', gasCode: 'O2', supplierId: ids.supplierIds.bulk, capacityKg: 10_000, evaporationPercentPerDay: 0.4, vaporiserM3H: 90, vaporiserDerating: 0.7, minLevelAlarmPercent: 25, reservePercent: 10, reorderMode: 'percent', reorderLevel: 35, orderUpTo: 9000, leadTimeHours: 48, notes: 'Telemetry every hour from the tank’s level gauge.' });

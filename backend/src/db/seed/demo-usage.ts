@@ -57,7 +57,8 @@ export async function seedUsage(m: EntityManager, ids: FoundationIds, now = new 
       for (const l of lines) byDevice.set(l.device, (byDevice.get(l.device) ?? 0) + l.patients);
       // Filed during the late shift, between 18:00 and 21:00 local.
       const filedAt = day.plus({ hours: 18, minutes: Math.floor(random() * 180) }).toJSDate();
-      const byFacilities = back === 4 && w.name.startsWith('Merlin');
+      // The ward lead is granted the inpatient wards (demo-supply); departments are filed by facilities.
+      const byFacilities = (back === 4 && w.name.startsWith('Merlin')) || w.department !== 'ward';
       const report = await m.getRepository(UsageReport).save(
         m.getRepository(UsageReport).create({
           siteId: ids.hospitalId,

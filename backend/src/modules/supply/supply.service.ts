@@ -15,6 +15,7 @@ import { AppError, badRequest, conflict, notFound } from '../../errors/app-error
 import { recordAudit, whoOf } from '../audit/audit.service';
 import { getSiteFor } from '../sites/sites.service';
 import { bumpSiteVersion } from '../forecast/site-version';
+import { assertMayWriteWard, maySeeWard, visibleWards } from './ward-access';
 
 // ---------- presenters ----------
 
@@ -83,9 +84,10 @@ export async function sourceFor(actor: Actor, id: number, m: EntityManager = db(
   return s;
 }
 
+/** A ward of the actor's sites; for a user who is only a ward lead, one of their granted wards (ward-access.ts). */
 export async function wardFor(actor: Actor, id: number, m: EntityManager = db().manager): Promise<Ward> {
   const w = await m.getRepository(Ward).findOneBy({ id });
-  if (!w || !actor.user.siteIds.includes(w.siteId)) throw notFound('Ward');
+  if (!w || !actor.user.siteIds.includes(w.siteId) || !(await maySeeWard(actor, w.id, m))) throw notFound('Ward');
   return w;
 }
 
@@ -259,7 +261,7 @@ export async function listReadings(actor: Actor, sourceId: number, page: number,
 export async function listWards(actor: Actor, siteId: number) {
   await getSiteFor(actor, siteId);
   const wards = await db().getRepository(Ward).find({ where: { siteId }, order: { name: 'ASC' } });
-  return wards.map(presentWard);
+  return (await visibleWards(actor, wards)).map(presentWard);
 }
 
 export async function createWard(actor: Actor, siteId: number, input: WardInput) {
@@ -289,6 +291,7 @@ export async function updateWard(actor: Actor, id: number, input: WardInput) {
 export async function replaceTherapy(actor: Actor, wardId: number, lines: TherapyLineInput[]) {
   return db().transaction(async (m) => {
     const ward = await wardFor(actor, wardId, m);
+    await assertMayWriteWard(actor, ward, m);
     const before = (await m.getRepository(TherapyLineRow).find({ where: { wardId }, order: { id: 'ASC' } })).map(presentTherapy);
     await m.getRepository(TherapyLineRow).delete({ wardId });
     if (lines.length) {

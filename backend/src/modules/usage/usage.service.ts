@@ -17,6 +17,7 @@ import { recordAudit, whoOf } from '../audit/audit.service';
 import { getSiteFor } from '../sites/sites.service';
 import { presentWard, wardFor } from '../supply/supply.service';
 import { isDuplicateKey } from '../../db/db-errors';
+import { assertMayWriteWard, maySeeWard, visibleWards } from '../supply/ward-access';
 
 // ---------- presenters ----------
 
@@ -68,6 +69,8 @@ export async function reportFor(actor: Actor, id: number, m: EntityManager = db(
   if (!r || !actor.user.siteIds.includes(r.siteId)) throw notFound('Usage report');
   const site = await m.getRepository(Site).findOneBy({ id: r.siteId, organisationId: actor.user.organisationId });
   if (!site) throw notFound('Usage report');
+  // A ward lead's reports are those of their granted wards: any other does not exist for them.
+  if (!(await maySeeWard(actor, r.wardId, m))) throw notFound('Usage report');
   return r;
 }
 
@@ -188,6 +191,7 @@ async function loadPresented(m: EntityManager, id: number): Promise<PresentedRep
 /** Files a ward's report for a local date (one per ward and date); recorded in the audit log. */
 export async function createReport(actor: Actor, wardId: number, input: UsageReportCreate) {
   const ward = await wardFor(actor, wardId);
+  await assertMayWriteWard(actor, ward);
   const site = await getSiteFor(actor, ward.siteId);
   const today = localToday(site.timeZone);
   if (input.date > today) throw badRequest('A report cannot be filed for a future day', [{ path: 'date', message: `today at the site is ${today}` }]);
@@ -217,6 +221,7 @@ export async function createReport(actor: Actor, wardId: number, input: UsageRep
 export async function updateReport(actor: Actor, id: number, input: UsageReportUpdate) {
   return db().transaction(async (m) => {
     const r = await reportFor(actor, id, m);
+    await assertMayWriteWard(actor, await m.getRepository(Ward).findOneByOrFail({ id: r.wardId }), m);
     const rule = editRule(actor, r);
     if (!rule.canEdit) throw new AppError(403, 'edit_window_closed', rule.reason ?? 'This report can no longer be changed');
     await checkCylinderTypes(m, actor, input.cylinders);
@@ -247,7 +252,7 @@ export async function getReport(actor: Actor, id: number) {
 export async function usageStatus(actor: Actor, siteId: number, date?: string) {
   const site = await getSiteFor(actor, siteId);
   const day = date ?? localToday(site.timeZone);
-  const wards = await db().getRepository(Ward).find({ where: { siteId, active: true }, order: { name: 'ASC' } });
+  const wards = await visibleWards(actor, await db().getRepository(Ward).find({ where: { siteId, active: true }, order: { name: 'ASC' } }));
   const reports = wards.length ? await db().getRepository(UsageReport).find({ where: { siteId, reportDate: day } }) : [];
   const names = await userNames(db().manager, reports.map((r) => r.submittedByUserId));
   return {

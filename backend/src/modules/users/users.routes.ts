@@ -1,9 +1,9 @@
 import { idParamSchema, listQuerySchema } from '@common/schemas/common.schema';
-import { userCreateSchema, userUpdateSchema } from '@common/schemas/admin.schema';
+import { userCreateSchema, userUpdateSchema, userWardsSchema } from '@common/schemas/admin.schema';
 import type { RouteDef } from '../../http/route';
 import { actorOf } from '../../http/context';
 import { validate } from '../../http/validate';
-import { createUser, listUsers, unlockUser, updateUser } from './users.service';
+import { createUser, getUserWards, listUsers, setUserWards, unlockUser, updateUser } from './users.service';
 import { keepSessionSignedIn } from '../auth/passport';
 
 export function userRoutes(): RouteDef[] {
@@ -29,6 +29,14 @@ export function userRoutes(): RouteDef[] {
       path: '/api/users/:id/unlock',
       access: ['administrator'],
       handler: (req) => unlockUser(actorOf(req), validate(idParamSchema, req.params, 'address').id),
+    },
+    // Ward grants: the wards a ward lead sees and reports for (the whole set on PUT: grants and revokes).
+    { method: 'get', path: '/api/users/:id/wards', access: ['administrator'], handler: (req) => getUserWards(actorOf(req), validate(idParamSchema, req.params, 'address').id) },
+    {
+      method: 'put',
+      path: '/api/users/:id/wards',
+      access: ['administrator'],
+      handler: (req) => setUserWards(actorOf(req), validate(idParamSchema, req.params, 'address').id, validate(userWardsSchema, req.body, 'ward grants')),
     },
   ];
 }

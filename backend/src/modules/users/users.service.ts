@@ -1,10 +1,13 @@
 import { In } from 'typeorm';
 import type { ListQuery, Page } from '@common/schemas/common.schema';
 import type { UserCreateInput, UserUpdateInput } from '@common/schemas/admin.schema';
+import type { UserWardsInput } from '@common/schemas/admin.schema';
 import type { Role } from '@common/api/roles';
 import { db } from '../../db/db';
 import { User, UserRole, UserSite } from '../../db/entities/user.entity';
 import { Site } from '../../db/entities/site.entity';
+import { Ward } from '../../db/entities/supply.entity';
+import { UserWard } from '../../db/entities/ward-grant.entity';
 import type { Actor } from '../../http/context';
 import { AppError, badRequest, notFound } from '../../errors/app-error';
 import { recordAudit, whoOf } from '../audit/audit.service';
@@ -122,5 +125,64 @@ export async function unlockUser(actor: Actor, id: number): Promise<UserRow> {
     const [row] = await present(m, [await getInOrg(m, actor, id)]);
     await recordAudit(m, whoOf(actor), { action: 'unlock', entity: 'user', entityId: String(id), after: row });
     return row;
+  });
+}
+
+// ---------- ward grants (which wards a ward lead reports for) ----------
+
+export interface UserWardsView {
+  userId: number;
+  wardIds: number[];
+  /** The organisation's sites with their wards, for the picker; `granted` says whether the user holds the site. */
+  sites: { id: number; name: string; granted: boolean; wards: { id: number; name: string; department: string; active: boolean }[] }[];
+}
+
+async function wardsView(m: EntityManager, actor: Actor, user: User): Promise<UserWardsView> {
+  const sites = await m.getRepository(Site).find({ where: { organisationId: actor.user.organisationId }, order: { name: 'ASC' } });
+  const wards = sites.length ? await m.getRepository(Ward).find({ where: { siteId: In(sites.map((s) => s.id)) }, order: { name: 'ASC' } }) : [];
+  const held = new Set((await m.getRepository(UserSite).find({ where: { userId: user.id } })).map((s) => s.siteId));
+  const inOrg = new Set(wards.map((w) => w.id));
+  const wardIds = (await m.getRepository(UserWard).find({ where: { userId: user.id } })).map((g) => g.wardId).filter((id) => inOrg.has(id)).sort((a, b) => a - b);
+  return {
+    userId: user.id,
+    wardIds,
+    sites: sites.map((s) => ({ id: s.id, name: s.name, granted: held.has(s.id), wards: wards.filter((w) => w.siteId === s.id).map((w) => ({ id: w.id, name: w.name, department: w.department, active: w.active })) })),
+  };
+}
+
+/** The wards granted to a user of the administrator's organisation, with every ward to choose from. */
+export async function getUserWards(actor: Actor, id: number): Promise<UserWardsView> {
+  const m = db().manager;
+  return wardsView(m, actor, await getInOrg(m, actor, id));
+}
+
+/**
+ * Sets the wards granted to a ward lead (grants the new ones, revokes the absent ones; audited). Only
+ * wards of the organisation's sites: any other id is "not found", as for every record outside it.
+ */
+export async function setUserWards(actor: Actor, id: number, input: UserWardsInput): Promise<UserWardsView> {
+  return db().transaction(async (m) => {
+    const user = await getInOrg(m, actor, id);
+    const wanted = [...new Set(input.wardIds)];
+    if (wanted.length) {
+      const roles = await m.getRepository(UserRole).find({ where: { userId: id } });
+      if (!roles.some((r) => r.role === 'ward_lead')) throw badRequest('Wards are granted to ward leads: give this user the ward-lead role first', [{ path: 'wardIds', message: 'not a ward lead' }]);
+      const found = await m
+        .getRepository(Ward)
+        .createQueryBuilder('w')
+        .innerJoin(Site, 's', 's.id = w.site_id')
+        .where('w.id IN (:...ids) AND s.organisation_id = :org', { ids: wanted, org: actor.user.organisationId })
+        .getCount();
+      if (found !== wanted.length) throw notFound('Ward');
+    }
+    const before = await wardsView(m, actor, user);
+    const keep = new Set(wanted);
+    const revoke = before.wardIds.filter((w) => !keep.has(w));
+    const grant = wanted.filter((w) => !before.wardIds.includes(w));
+    if (revoke.length) await m.getRepository(UserWard).delete({ userId: id, wardId: In(revoke) });
+    if (grant.length) await m.getRepository(UserWard).insert(grant.map((wardId) => ({ userId: id, wardId })));
+    const after = await wardsView(m, actor, user);
+    await recordAudit(m, whoOf(actor), { action: 'update', entity: 'user_wards', entityId: String(id), before: { wardIds: before.wardIds }, after: { wardIds: after.wardIds, granted: grant, revoked: revoke } });
+    return after;
   });
 }

@@ -1,7 +1,7 @@
 import { useEffect, useMemo, useRef, useState } from 'react';
 import { useQuery } from '@tanstack/react-query';
 import { DateTime } from 'luxon';
-import type { Role } from '@common/api/roles';
+import { wardLeadOnly, type Role } from '@common/api/roles';
 import { usageReportUpdateSchema, type UsageCylinderLine, type UsageDeviceLine } from '@common/schemas/usage.schema';
 import { errorMessage } from '@/lib/api-client';
 import { formatDateTime, formatNumber } from '@/lib/format';
@@ -66,6 +66,13 @@ export function DailyReportScreen({ site, roles }: { site: { id: number; name: s
 
   if (status.isPending) return <Card><LoadingState label="Loading the wards…" /></Card>;
   if (status.isError) return <Card><ErrorState error={status.error} onRetry={() => status.refetch()} /></Card>;
+  if ((!wards.length || wardId === null) && wardLeadOnly(roles)) {
+    return (
+      <Card>
+        <EmptyState title="No wards granted to you yet">You report for the wards an administrator grants you. Ask an administrator to grant your wards.</EmptyState>
+      </Card>
+    );
+  }
   if (!wards.length || wardId === null) {
     return (
       <Card>

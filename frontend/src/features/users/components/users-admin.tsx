@@ -16,6 +16,7 @@ import { SearchInput } from '@/components/ui/search-input';
 import { EmptyState, ErrorState, LoadingState } from '@/components/ui/states';
 import { usersQueries, useUnlockUser, type UserRow } from '../api/users-api';
 import { UserCreateForm, UserEditForm, type SiteOption } from './user-forms';
+import { UserWardsDialogBody } from './ward-grants';
 
 const col = createColumnHelper<UserRow>();
 export const USERS_LIST_DEFAULTS = { pageSize: 25, sort: 'name', dir: 'asc' as const };
@@ -25,6 +26,7 @@ export function UsersAdmin({ sites, currentUserId }: { sites: SiteOption[]; curr
   const users = useQuery(usersQueries.list(params));
   const unlock = useUnlockUser();
   const [editing, setEditing] = useState<UserRow | 'new' | null>(null);
+  const [wardsOf, setWardsOf] = useState<UserRow | null>(null);
   const siteName = useMemo(() => new Map(sites.map((s) => [s.id, s.name])), [sites]);
 
   const columns = useMemo(
@@ -69,6 +71,12 @@ export function UsersAdmin({ sites, currentUserId }: { sites: SiteOption[]; curr
                   Unlock
                 </Button>
               )}
+              {u.roles.includes('ward_lead') && (
+                <Button variant="ghost" size="sm" onClick={() => setWardsOf(u)} aria-label={`Wards of ${u.name}`}>
+                  <Icon name="bed" className="size-4" />
+                  Wards
+                </Button>
+              )}
               <Button variant="ghost" size="sm" onClick={() => setEditing(u)} aria-label={`Edit ${u.name}`}>
                 <Icon name="pencil" className="size-4" />
                 Edit
@@ -111,6 +119,9 @@ export function UsersAdmin({ sites, currentUserId }: { sites: SiteOption[]; curr
       <Dialog open={editing !== null} onClose={() => setEditing(null)} title={editing === 'new' ? 'New user' : `Edit ${editing?.name ?? ''}`} wide>
         {editing === 'new' && <UserCreateForm sites={sites} onDone={() => setEditing(null)} />}
         {editing !== null && editing !== 'new' && <UserEditForm user={editing} sites={sites} isSelf={editing.id === currentUserId} onDone={() => setEditing(null)} />}
+      </Dialog>
+      <Dialog open={wardsOf !== null} onClose={() => setWardsOf(null)} title={`Wards of ${wardsOf?.name ?? ''}`} wide>
+        {wardsOf !== null && <UserWardsDialogBody user={wardsOf} onDone={() => setWardsOf(null)} />}
       </Dialog>
     </Card>
   );

@@ -17,7 +17,7 @@ import { WardForm } from './ward-form';
 const col = createColumnHelper<Ward>();
 
 /** The wards of a site, each linking to its demand; facilities managers add and change them. */
-export function WardsAdmin({ siteId, canEdit, onSaved }: { siteId: number; canEdit: boolean; onSaved?: () => void }) {
+export function WardsAdmin({ siteId, canEdit, onSaved, grantedOnly = false }: { siteId: number; canEdit: boolean; onSaved?: () => void; grantedOnly?: boolean }) {
   const wards = useQuery(wardsQueries.site(siteId));
   const [editing, setEditing] = useState<Ward | 'new' | null>(null);
   const columns = useMemo(
@@ -72,6 +72,10 @@ export function WardsAdmin({ siteId, canEdit, onSaved }: { siteId: number; canEd
         <LoadingState label="Loading the wards…" />
       ) : wards.isError ? (
         <ErrorState error={wards.error} onRetry={() => wards.refetch()} />
+      ) : wards.data.length === 0 && grantedOnly ? (
+        <EmptyState title="No wards granted to you yet" icon="bed">
+          You see the wards an administrator grants you. Ask an administrator to grant your wards.
+        </EmptyState>
       ) : wards.data.length === 0 ? (
         <EmptyState title="No wards on this site yet" icon="sites">
           {canEdit ? 'Add the wards and departments that use medical gases.' : 'A facilities manager adds the wards of a site.'}

@@ -1,5 +1,5 @@
 import { useQuery } from '@tanstack/react-query';
-import type { Role } from '@common/api/roles';
+import { wardLeadOnly, type Role } from '@common/api/roles';
 import { Card } from '@/components/ui/card';
 import { PanelBoundary } from '@/components/ui/panel-boundary';
 import { ErrorState, LoadingState } from '@/components/ui/states';
@@ -22,7 +22,7 @@ export function WardsScreen({ siteId, timeZone, roles, onSupplyChanged }: { site
   return (
     <div className="flex flex-col gap-5">
       <PanelBoundary title="Wards">
-        <WardsAdmin siteId={siteId} canEdit={fm} onSaved={onSupplyChanged} />
+        <WardsAdmin siteId={siteId} canEdit={fm} onSaved={onSupplyChanged} grantedOnly={wardLeadOnly(roles)} />
       </PanelBoundary>
       <div className="grid items-start gap-5 xl:grid-cols-2">
         <PanelBoundary title="Scenarios">
