@@ -92,7 +92,8 @@ describe('the database stops under load and comes back', () => {
         if (!res) return outcomes.push({ phase: started, endPhase: phase, what, status: 'no answer' });
         outcomes.push({ phase: started, endPhase: phase, what, status: res.status, code: res.body?.error?.code, message: res.body?.error?.message, retryAfter: res.headers.get('retry-after'), ward });
       } catch (e) {
-        outcomes.push({ phase: started, endPhase: phase, what, status: 'no answer', message: (e as Error).message });
+        const cause = (e as { cause?: { code?: string; message?: string } }).cause;
+        outcomes.push({ phase: started, endPhase: phase, what, status: 'no answer', message: `${(e as Error).message}${cause ? ` (${cause.code ?? ''} ${cause.message ?? ''})` : ''}` });
       }
     };
 
