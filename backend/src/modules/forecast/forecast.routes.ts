@@ -10,13 +10,13 @@ import { validate } from '../../http/validate';
 import { notFound } from '../../errors/app-error';
 import { db } from '../../db/db';
 import { SourceReading } from '../../db/entities/supply.entity';
+import { compareStatus } from '@common/forecast/status';
 import { loadSiteModels, type SiteModel } from './site-model';
 import { siteVersions, VersionedCache } from './site-version';
 import { FORECAST_CAUTION, measuredDemandCv, measuredLPerDay, modelledLines, outlookFor, wardDemandLines, wardsFedBy, type SourceOutlook } from './forecast.service';
 import { presentReading, readerNames, presentScenario, presentSource, presentTherapy, presentWard, sourceFor, wardFor } from '../supply/supply.service';
 
 const MS_H = 3_600_000;
-const STATUS_RANK = { critical: 0, reorder: 1, watch: 2, unknown: 3, ok: 4 } as const;
 
 function overviewRow(model: SiteModel, o: SourceOutlook) {
   const s = model.sources.find((x) => x.id === o.sourceId)!;
@@ -71,7 +71,7 @@ export async function overview(actor: Actor) {
         sources: m.sources
           .filter((s) => s.type !== 'emergency_reserve')
           .map((s) => overviewRow(m, outlookFor(m, s, { now })))
-          .sort((a, b) => STATUS_RANK[a.status] - STATUS_RANK[b.status] || (a.daysOfStock ?? 1e9) - (b.daysOfStock ?? 1e9)),
+          .sort((a, b) => compareStatus(a.status, b.status) || (a.daysOfStock ?? 1e9) - (b.daysOfStock ?? 1e9)),
       };
       sites.set(m.site.id, site);
       overviewCache.set(key(m.site.id), site);

@@ -1,7 +1,8 @@
 import { queryOptions } from '@tanstack/react-query';
+import type { SourceStatus } from '@common/forecast/status';
 import { api } from '@/lib/api-client';
 
-export type SourceStatus = 'ok' | 'watch' | 'reorder' | 'critical';
+export type { SourceStatus };
 
 export interface OverviewSource {
   id: number;
@@ -9,7 +10,8 @@ export interface OverviewSource {
   type: 'bulk_liquid' | 'manifold' | 'cylinder_store';
   gasCode: string;
   unit: 'kg' | 'L';
-  contents: number;
+  /** Null while the source has no reading. */
+  contents: number | null;
   capacity: number | null;
   daysOfStock: number | null;
   /** ISO instant, UTC. */
@@ -21,6 +23,8 @@ export interface OverviewSource {
   /** Daily contents over the next 14 days. */
   trend: number[];
   leadTimeHours: number | null;
+  /** Why there is no forecast, when there is none. */
+  note: string | null;
 }
 
 export interface OverviewSite {

@@ -1,9 +1,9 @@
 import { keepPreviousData, queryOptions, useMutation, useQueryClient } from '@tanstack/react-query';
 import type { DeliveryInput, ReadingInput, SourceInput, SourceType } from '@common/schemas/supply.schema';
+import type { SourceStatus } from '@common/forecast/status';
 import { api } from '@/lib/api-client';
 
 export type { SourceType };
-export type SupplyStatus = 'ok' | 'watch' | 'reorder' | 'critical' | 'unknown';
 export type ForecastBasis = 'model' | 'measured' | 'scaled';
 
 /** A supply source as the server presents it (the fields of sourceSchema plus its ids). */
@@ -49,7 +49,7 @@ export interface Outlook {
   daysOfStock: number | null;
   emptyAt: string | null;
   reorderAt: string | null;
-  status: SupplyStatus;
+  status: SourceStatus;
   statusText: string;
   firstRisk: { code: string; message: string; at?: string } | null;
   trend: number[];
