@@ -11,6 +11,8 @@ import { notFound } from '../../errors/app-error';
 import { db } from '../../db/db';
 import { SourceReading } from '../../db/entities/supply.entity';
 import { compareStatus } from '@common/forecast/status';
+import type { Overview, OverviewSite, OverviewSource, SourceDetail, WardDetail } from '@common/schemas/forecast.schema';
+import type { FeedRole, SourceType } from '@common/schemas/supply.schema';
 import { loadSiteModels, type SiteModel } from './site-model';
 import { siteVersions, VersionedCache } from './site-version';
 import { FORECAST_CAUTION, measuredDemandCv, measuredLPerDay, modelledLines, outlookFor, wardDemandLines, wardsFedBy, type SourceOutlook } from './forecast.service';
@@ -18,12 +20,12 @@ import { presentReading, readerNames, presentScenario, presentSource, presentThe
 
 const MS_H = 3_600_000;
 
-function overviewRow(model: SiteModel, o: SourceOutlook) {
+function overviewRow(model: SiteModel, o: SourceOutlook): OverviewSource {
   const s = model.sources.find((x) => x.id === o.sourceId)!;
   return {
     id: s.id,
     name: s.name,
-    type: s.type,
+    type: s.type as SourceType,
     gasCode: s.gasCode,
     unit: o.unit,
     contents: o.contentsNow,
@@ -40,14 +42,12 @@ function overviewRow(model: SiteModel, o: SourceOutlook) {
   };
 }
 
-type OverviewSite = { id: number; name: string; timeZone: string; referenceCode: string; computedAt: string; sources: ReturnType<typeof overviewRow>[] };
-
 /** Computed overview per site, by data version and a 5-minute clock bucket (see VersionedCache). */
 const overviewCache = new VersionedCache<OverviewSite>(5 * 60_000);
 const BUCKET_MS = 5 * 60_000;
 
 /** The overview: every source of the caller's sites, worst first. */
-export async function overview(actor: Actor) {
+export async function overview(actor: Actor): Promise<Overview> {
   const now = new Date();
   const versions = await siteVersions(actor.user.siteIds, actor.user.organisationId);
   const bucket = Math.floor(now.getTime() / BUCKET_MS);
@@ -92,7 +92,7 @@ async function modelOf(actor: Actor, siteId: number): Promise<SiteModel> {
 }
 
 /** Source detail: settings, forecast from now (hourly), empty-time band, orders, deliveries, method and readings. */
-async function sourceDetail(actor: Actor, id: number, q: { scenario?: number; draws: number; horizonDays: number }) {
+async function sourceDetail(actor: Actor, id: number, q: { scenario?: number; draws: number; horizonDays: number }): Promise<SourceDetail> {
   const source = await sourceFor(actor, id);
   const model = await modelOf(actor, source.siteId);
   const s = model.sources.find((x) => x.id === id) ?? source;
@@ -162,7 +162,7 @@ async function sourceDetail(actor: Actor, id: number, q: { scenario?: number; dr
   };
 }
 
-async function wardDetail(actor: Actor, id: number) {
+async function wardDetail(actor: Actor, id: number): Promise<WardDetail> {
   const ward = await wardFor(actor, id);
   const model = await modelOf(actor, ward.siteId);
   const reference = model.site.referenceCode as ReferenceCode;
@@ -179,13 +179,13 @@ async function wardDetail(actor: Actor, id: number) {
       const srcModelled = meanDailyDemandL(modelledLines(model, src));
       if (srcMeasured !== null && srcModelled > 0) measured = (srcMeasured * modelledLPerDay) / srcModelled;
     }
-    return { gasCode: gas, modelledLPerDay, measuredLPerDay: measured, suggestedFactor: measured !== null && modelledLPerDay > 0 ? measured / modelledLPerDay : null, primarySource: src ? { id: src.id, name: src.name } : null, lines: lines.map((l) => ({ label: l.label, flowLMin: l.flow_L_min, hours: l.hours ?? null, weekdays: l.weekdays ?? null })) };
+    return { gasCode: gas, modelledLPerDay, measuredLPerDay: measured, suggestedFactor: measured !== null && modelledLPerDay > 0 ? measured / modelledLPerDay : null, primarySource: src ? { id: src.id, name: src.name } : null, lines: lines.map((l) => ({ label: l.label ?? '', flowLMin: l.flow_L_min, hours: l.hours ?? null, weekdays: l.weekdays ?? null })) };
   });
   return {
     ward: presentWard(ward),
     site: { id: model.site.id, name: model.site.name, timeZone: model.site.timeZone, referenceCode: model.site.referenceCode },
     therapy: model.therapy.filter((t) => t.wardId === id).map(presentTherapy),
-    feeds: model.feeds.filter((f) => f.wardId === id).map((f) => ({ sourceId: f.sourceId, gasCode: f.gasCode, role: f.role, sourceName: model.sources.find((s) => s.id === f.sourceId)?.name ?? '' })),
+    feeds: model.feeds.filter((f) => f.wardId === id).map((f) => ({ sourceId: f.sourceId, gasCode: f.gasCode, role: f.role as FeedRole, sourceName: model.sources.find((s) => s.id === f.sourceId)?.name ?? '' })),
     perGas,
     scenarios: model.scenarios.filter((s) => s.wardId === id || s.wardId === null).map(presentScenario),
   };

@@ -1,45 +1,9 @@
 import { queryOptions } from '@tanstack/react-query';
-import type { SourceStatus } from '@common/forecast/status';
+import type { Overview, OverviewSite, OverviewSource } from '@common/schemas/forecast.schema';
 import { api } from '@/lib/api-client';
 
-export type { SourceStatus };
-
-export interface OverviewSource {
-  id: number;
-  name: string;
-  type: 'bulk_liquid' | 'manifold' | 'cylinder_store';
-  gasCode: string;
-  unit: 'kg' | 'L';
-  /** Null while the source has no reading. */
-  contents: number | null;
-  capacity: number | null;
-  daysOfStock: number | null;
-  /** ISO instant, UTC. */
-  emptyAt: string | null;
-  reorderAt: string | null;
-  status: SourceStatus;
-  statusText: string;
-  firstRisk: { code: string; message: string } | null;
-  /** Daily contents over the next 14 days. */
-  trend: number[];
-  leadTimeHours: number | null;
-  /** Why there is no forecast, when there is none. */
-  note: string | null;
-}
-
-export interface OverviewSite {
-  id: number;
-  name: string;
-  timeZone: string;
-  sources: OverviewSource[];
-}
-
-export interface Overview {
-  generatedAt: string;
-  /** The planning caution the forecast travels with. */
-  caution?: string;
-  sites: OverviewSite[];
-}
+export type { SourceStatus } from '@common/forecast/status';
+export type { Overview, OverviewSite, OverviewSource };
 
 export const overviewQueries = {
   all: () => ['overview'] as const,

@@ -11,7 +11,7 @@ import type { RankedSource } from '../lib/rank-sources';
 // the chart library is large: the cards show their figures at once and the lines follow
 const TrendSparkline = lazy(() => import('./trend-sparkline').then((m) => ({ default: m.TrendSparkline })));
 
-const TYPE_LABEL: Record<RankedSource['type'], string> = { bulk_liquid: 'Bulk liquid tank', manifold: 'Cylinder manifold', cylinder_store: 'Cylinder store' };
+const TYPE_LABEL: Record<RankedSource['type'], string> = { bulk_liquid: 'Bulk liquid tank', manifold: 'Cylinder manifold', cylinder_store: 'Cylinder store', emergency_reserve: 'Emergency reserve' };
 const EDGE: Record<RankedSource['status'], string> = { critical: 'border-l-critical', reorder: 'border-l-warn', watch: 'border-l-watch', unknown: 'border-l-line-strong', ok: 'border-l-ok' };
 
 function gasName(code: string): string {
