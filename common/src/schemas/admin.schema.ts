@@ -1,6 +1,7 @@
 import { z } from 'zod';
 import { currencySchema, emailSchema, timeZoneSchema } from './common.schema';
 import { newPasswordSchema, roleSchema } from './auth.schema';
+import type { Role } from '../api/roles';
 
 export const REFERENCE_CODES = ['15C', '21C', '0C'] as const;
 export const UNIT_SYSTEMS = ['metric', 'us'] as const;
@@ -88,3 +89,18 @@ export const supplierSchema = z.object({
   prices: z.array(supplierPriceSchema).max(500).default([]),
 });
 export type SupplierInput = z.infer<typeof supplierSchema>;
+
+// ---------- responses: users (what the server sends; the browser reads the same types) ----------
+
+/** A user of the organisation as the administration screens list it (never a password or its hash). */
+export interface UserRow {
+  id: number;
+  email: string;
+  name: string;
+  active: boolean;
+  roles: Role[];
+  siteIds: number[];
+  /** Locked by failed sign-ins until an administrator unlocks it or the lock runs out. */
+  locked: boolean;
+  createdAt: string;
+}

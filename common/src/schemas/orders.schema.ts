@@ -213,3 +213,13 @@ export interface SpendReport {
   rows: SpendRow[];
   currencies: string[];
 }
+
+/** A purchasing officer with their approval limit (integer minor units; null: none set, so they cannot approve). */
+export interface ApprovalLimitRow {
+  userId: number;
+  name: string;
+  email: string;
+  active: boolean;
+  limitMinor: number | null;
+  currency: string | null;
+}
