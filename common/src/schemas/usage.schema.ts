@@ -339,3 +339,52 @@ export interface SourceReconciliationDetail {
   source: SourceReconciliation;
   corrections: { at: string; by: string | null; factor: number; basis: string; previousFactor: number | null }[];
 }
+
+// ---------- responses: uploads ----------
+
+/** One checked row as the upload's preview shows it (times in site time, values in words). */
+export interface ImportPreviewRow {
+  row: number;
+  time: string;
+  target?: string;
+  reading: string;
+  contents: string | null;
+}
+
+/** An upload job: its file, mapping, progress, errors and what the caller may do next. */
+export interface ImportJobView {
+  id: number;
+  siteId: number;
+  kind: ImportKind;
+  kindLabel: string;
+  status: ImportStatus;
+  phase: 'check' | 'import' | null;
+  file: { name: string; sizeBytes: number; sha256: string; lines: number } | null;
+  options: { sourceId: number | null; wardId: number | null; unit: string | null; headerUnit: string | null; dateOrder: (typeof DATE_ORDERS)[number]; separator: ',' | ';' };
+  mapping: Record<string, string>;
+  columns: readonly ImportColumn[];
+  header: string[];
+  sample: string[][];
+  totalRows: number | null;
+  processedRows: number;
+  insertedRows: number;
+  progress: number;
+  errorCount: number;
+  errors: ImportRowError[];
+  preview: { rows: ImportPreviewRow[]; firstAt: string | null; lastAt: string | null; targets: { id: number; name: string; rows: number }[]; checkedUpToId?: number } | null;
+  message: string;
+  cancelRequested: boolean;
+  confirmDuplicate: boolean;
+  canCommit: boolean;
+  canCancel: boolean;
+  canRemap: boolean;
+  createdAt: string;
+  startedAt: string | null;
+  finishedAt: string | null;
+}
+
+/** What can be uploaded: the size limit and each kind's columns. */
+export interface ImportKinds {
+  maxMb: number;
+  kinds: { kind: ImportKind; label: string; columns: readonly ImportColumn[] }[];
+}
