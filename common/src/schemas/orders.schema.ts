@@ -223,3 +223,13 @@ export interface ApprovalLimitRow {
   limitMinor: number | null;
   currency: string | null;
 }
+
+/** One's own alert subscription to a site. */
+export interface SubscriptionView {
+  siteId: number;
+  siteName: string;
+  mode: (typeof SUBSCRIPTION_MODES)[number];
+  /** Alert when a source's days of stock fall below this. */
+  policyDays: number;
+  lastDigestAt: string | null;
+}

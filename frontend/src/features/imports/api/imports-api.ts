@@ -1,21 +1,13 @@
 import { queryOptions, useMutation, useQueryClient } from '@tanstack/react-query';
 import type { ExportTable, ImportJobView, ImportKind, ImportKinds, ImportPreviewRow, ImportRemap, ImportStatus } from '@common/schemas/usage.schema';
+import type { SourceView, WardView } from '@common/schemas/supply.schema';
 import { api, apiUrl } from '@/lib/api-client';
 
 export type { ImportJobView as ImportJob, ImportKinds, ImportPreviewRow };
 
 /** The targets an upload can go to (the site's sources and wards, as this screen needs them). */
-export interface TargetSource {
-  id: number;
-  name: string;
-  type: string;
-  gasCode: string;
-  calibrationUnit: string | null;
-}
-export interface TargetWard {
-  id: number;
-  name: string;
-}
+export type TargetSource = Pick<SourceView, 'id' | 'name' | 'type' | 'gasCode' | 'calibrationUnit'>;
+export type TargetWard = Pick<WardView, 'id' | 'name'>;
 
 /** A job that the worker is still busy with: its screen polls. */
 export function isBusy(status: ImportStatus | undefined): boolean {

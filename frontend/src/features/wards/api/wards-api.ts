@@ -1,21 +1,13 @@
 import { queryOptions, useMutation, useQueryClient } from '@tanstack/react-query';
 import type { GasDemand, WardDetail, WardFeedView } from '@common/schemas/forecast.schema';
-import type { Department, DeviceFlowView, ScenarioInput, ScenarioView, TherapyLineInput, TherapyLineView, WardInput, WardView } from '@common/schemas/supply.schema';
+import type { Department, DeviceFlowView, ScenarioInput, ScenarioView, SourceView, TherapyLineInput, TherapyLineView, WardInput, WardView } from '@common/schemas/supply.schema';
 import { api } from '@/lib/api-client';
 
 export type { Department, GasDemand, WardDetail };
 export type { WardView as Ward, TherapyLineView as TherapyLine, WardFeedView as Feed, ScenarioView as Scenario, DeviceFlowView as DeviceFlow };
 
 /** A supply source as the feeds editor needs it (the route passes the site's sources in). */
-export interface SourceOption {
-  id: number;
-  name: string;
-  gasCode: string;
-  type: string;
-  active: boolean;
-  forecastBasis?: 'model' | 'measured' | 'scaled';
-  modelCorrectionFactor?: number;
-}
+export type SourceOption = Pick<SourceView, 'id' | 'name' | 'gasCode' | 'type' | 'active'> & Partial<Pick<SourceView, 'forecastBasis' | 'modelCorrectionFactor'>>;
 
 export const wardsQueries = {
   all: () => ['wards'] as const,
