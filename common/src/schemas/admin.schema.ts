@@ -1,6 +1,8 @@
 import { z } from 'zod';
 import { currencySchema, emailSchema, timeZoneSchema } from './common.schema';
 import { newPasswordSchema, roleSchema } from './auth.schema';
+import type { Role } from '../api/roles';
+import type { NominalContents } from '../catalogue/cylinder-type';
 
 export const REFERENCE_CODES = ['15C', '21C', '0C'] as const;
 export const UNIT_SYSTEMS = ['metric', 'us'] as const;
@@ -94,3 +96,86 @@ export const userWardsSchema = z.object({
   wardIds: z.array(z.number({ error: 'choose wards from the list' }).int().positive()).max(1000, 'at most 1,000 wards'),
 });
 export type UserWardsInput = z.infer<typeof userWardsSchema>;
+
+// ---------- responses: users (what the server sends; the browser reads the same types) ----------
+
+/** A user of the organisation as the administration screens list it (never a password or its hash). */
+export interface UserRow {
+  id: number;
+  email: string;
+  name: string;
+  active: boolean;
+  roles: Role[];
+  siteIds: number[];
+  /** Locked by failed sign-ins until an administrator unlocks it or the lock runs out. */
+  locked: boolean;
+  createdAt: string;
+}
+
+// ---------- responses: organisation, sites and catalogue ----------
+
+export interface OrganisationView {
+  id: number;
+  name: string;
+}
+
+export interface SiteView {
+  id: number;
+  name: string;
+  kind: (typeof SITE_KINDS)[number];
+  address: string;
+  timeZone: string;
+  referenceCode: (typeof REFERENCE_CODES)[number];
+  unitSystem: (typeof UNIT_SYSTEMS)[number];
+  altitudeM: number;
+  atmosphericBar: number;
+  currency: string;
+  cylinderColours: (typeof COLOUR_CONVENTIONS)[number];
+  storeTemperatureC: number;
+  beds: number;
+  updatedAt: string;
+}
+
+export interface GasView {
+  code: string;
+  name: string;
+  state: 'compressed' | 'liquefied';
+  iso32Colours: string[];
+  cgaColours: string[];
+}
+
+export interface CylinderTypeView {
+  id: number;
+  name: string;
+  gasCode: string;
+  waterCapacityL: number;
+  fillPressureBar: number;
+  tareKg: number | null;
+  maxFillingRatioKgPerL: number | null;
+  material: string;
+  valveNotes: string;
+  active: boolean;
+  /** Computed by the gas engine from the type (never typed in); null for a gas it does not model. */
+  nominal: NominalContents | null;
+}
+
+export interface SupplierPriceView {
+  id: number;
+  cylinderTypeId: number | null;
+  gasCode: string | null;
+  unit: 'cylinder' | 'kg';
+  priceMinor: number;
+}
+
+export interface SupplierView {
+  id: number;
+  name: string;
+  orderEmail: string;
+  phone: string;
+  leadTimeHours: number;
+  rentalMinorPerCylinderDay: number;
+  minBulkDropKg: number;
+  currency: string;
+  active: boolean;
+  prices: SupplierPriceView[];
+}

@@ -108,3 +108,135 @@ export const outboxQuerySchema = z.object({
 export const IDEMPOTENCY_HEADER = 'idempotency-key';
 export const idempotencyKeySchema = z.string().regex(/^[\w-]{8,100}$/, 'use 8–100 letters, digits, - or _').optional();
 
+// ---------- responses (what the orders presenters send; the browser reads the same types) ----------
+
+export type OrderUnit = 'kg' | 'cylinders';
+
+/** One reorder request in a list. */
+export interface RequestRow {
+  id: number;
+  reference: string;
+  status: RequestStatus;
+  statusText: string;
+  origin: 'auto' | 'manual';
+  siteId: number;
+  siteName: string;
+  sourceId: number;
+  sourceName: string;
+  gasCode: string;
+  description: string;
+  supplierId: number | null;
+  supplierName: string | null;
+  unit: OrderUnit;
+  suggestedQuantity: number;
+  quantity: number;
+  quantityReason: string;
+  unitPriceMinor: number | null;
+  totalMinor: number | null;
+  currency: string;
+  neededBy: string | null;
+  problem: string;
+  note: string;
+  requestedBy: { id: number; name: string } | null;
+  /** Who last changed the quantity or price (may not approve, like the raiser). */
+  amendedBy: { id: number; name: string } | null;
+  version: number;
+  createdAt: string;
+  updatedAt: string;
+  order: { id: number; poNumber: string; status: string } | null;
+}
+
+/** Whether the caller may take an action on a request, and why not. */
+export interface ActionState {
+  allowed: boolean;
+  reason: string | null;
+}
+
+export type RequestAction = 'approve' | 'reject' | 'submit' | 'cancel' | 'changeQuantity';
+
+export interface RequestDetail extends RequestRow {
+  trigger: { status?: string; daysOfStock?: number | null; reorderAt?: string | null; emptyAt?: string | null } | null;
+  approvals: { userId: number; name: string; at: string; limitMinor: number; comment: string }[];
+  timeline: { at: string; action: string; by: string; userId: number | null; fromStatus: string | null; toStatus: string | null; comment: string; detail: Record<string, unknown> | null }[];
+  myApprovalLimit: { limitMinor: number; currency: string } | null;
+  actions: Record<RequestAction, ActionState>;
+}
+
+/** One purchase order in a list. */
+export interface OrderRow {
+  id: number;
+  poNumber: string;
+  status: string;
+  statusText: string;
+  requestId: number;
+  siteId: number;
+  siteName: string;
+  sourceId: number;
+  sourceName: string;
+  supplierId: number;
+  supplierName: string;
+  description: string;
+  unit: OrderUnit;
+  quantity: number;
+  deliveredQuantity: number | null;
+  unitPriceMinor: number;
+  totalMinor: number;
+  currency: string;
+  windowStart: string;
+  windowEnd: string;
+  deliveryAddress: string;
+  contact: { name: string; email: string };
+  approvedBy: { userId: number; name: string }[];
+  sentAt: string | null;
+  createdAt: string;
+}
+
+export interface OrderDetail extends OrderRow {
+  pdfUrl: string;
+  request: { id: number; reference: string; status: string; origin: string };
+  delivery: { id: number; deliveryNote: string; deliveredAt: string; quantity: number; unit: string; emptiesCollected: number; note: string; readingId: string | null } | null;
+  emails: { id: number; kind: string; to: string; cc: string; status: string; attempts: number; lastError: string; sentAt: string | null; nextAttemptAt: string }[];
+}
+
+/** Spend of one month, site, gas, supplier and currency (integer minor units). */
+export interface SpendRow {
+  month: string;
+  siteId: number;
+  siteName: string;
+  gasCode: string;
+  supplierId: number;
+  supplierName: string;
+  currency: string;
+  orderedMinor: number;
+  deliveredMinor: number;
+  rentalMinor: number;
+  cylinderDays: number;
+}
+
+export interface SpendReport {
+  from: string;
+  to: string;
+  months: string[];
+  rows: SpendRow[];
+  currencies: string[];
+}
+
+/** A purchasing officer with their approval limit (integer minor units; null: none set, so they cannot approve). */
+export interface ApprovalLimitRow {
+  userId: number;
+  name: string;
+  email: string;
+  active: boolean;
+  limitMinor: number | null;
+  currency: string | null;
+}
+
+/** One's own alert subscription to a site. */
+export interface SubscriptionView {
+  siteId: number;
+  siteName: string;
+  mode: (typeof SUBSCRIPTION_MODES)[number];
+  /** Alert when a source's days of stock fall below this. */
+  policyDays: number;
+  lastDigestAt: string | null;
+}

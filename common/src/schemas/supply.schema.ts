@@ -170,3 +170,123 @@ export const forecastQuerySchema = z.object({
   draws: z.coerce.number().int().min(0).max(1000).default(200),
   horizonDays: z.coerce.number().int().min(1).max(365).default(90),
 });
+
+// ---------- responses (what the server's supply presenters send; the browser reads the same types) ----------
+
+export const READING_KINDS = ['level_percent', 'kg', 'litres_liquid', 'calibration', 'bank_gauges', 'store_count'] as const;
+export type ReadingKind = (typeof READING_KINDS)[number];
+export type ReorderMode = (typeof REORDER_MODES)[number];
+export type ForecastBasis = (typeof FORECAST_BASES)[number];
+export type FeedRole = (typeof FEED_ROLES)[number];
+export type Department = (typeof DEPARTMENTS)[number];
+export type TherapyDevice = (typeof THERAPY_DEVICES)[number];
+export type ReadingMethod = (typeof READING_METHODS)[number];
+
+/** A supply source as the server presents it (the fields of sourceSchema plus its ids). */
+export interface SourceView {
+  id: number;
+  siteId: number;
+  name: string;
+  type: SourceType;
+  gasCode: string;
+  supplierId: number | null;
+  capacityKg: number | null;
+  evaporationPercentPerDay: number | null;
+  vaporiserM3H: number | null;
+  vaporiserDerating: number | null;
+  minLevelAlarmPercent: number | null;
+  reservePercent: number | null;
+  calibration: { reading: number; kg: number }[] | null;
+  calibrationUnit: string | null;
+  cylinderTypeId: number | null;
+  cylindersPerBank: number | null;
+  regulatorLMin: number | null;
+  changeoverGaugeBar: number | null;
+  temperatureC: number | null;
+  backsUp: number[];
+  reorderMode: ReorderMode;
+  reorderLevel: number | null;
+  orderUpTo: number | null;
+  leadTimeHours: number | null;
+  forecastBasis: ForecastBasis;
+  modelCorrectionFactor: number;
+  notes: string;
+  active: boolean;
+}
+
+/** A reading of a source; `contents` in the source's unit (kg for a tank, litres of free gas for cylinders). */
+export interface ReadingView {
+  id: string;
+  takenAt: string;
+  kind: ReadingKind;
+  value: number | null;
+  detail: { dutyBar?: number; standbyBar?: number; spareFull?: number; full?: number; inUseGaugeBar?: number[]; empty?: number } | null;
+  contents: number;
+  method: ReadingMethod;
+  takenByUserId: number | null;
+  takenByName: string | null;
+  note: string;
+}
+
+export interface ReadingPage {
+  items: ReadingView[];
+  total: number;
+  page: number;
+  pageSize: number;
+}
+
+export interface WardView {
+  id: number;
+  siteId: number;
+  name: string;
+  department: Department;
+  beds: number;
+  leakagePercent: number;
+  active: boolean;
+}
+
+export interface ScenarioView {
+  id: number;
+  siteId: number;
+  name: string;
+  multiplier: number;
+  extraPatients: number;
+  extraFlowLMin: number;
+  wardId: number | null;
+  wardChange: 'open' | 'close' | null;
+  fromLocal: string;
+  untilLocal: string | null;
+  note: string;
+}
+
+export interface TherapyLineView {
+  id: number;
+  gasCode: string;
+  device: TherapyDevice;
+  patients: number;
+  flowLMin: number | null;
+  hours: number[] | null;
+  weekdays: number[] | null;
+  label: string;
+}
+
+export interface DeliveryView {
+  id: number;
+  sourceId: number;
+  dueAt: string;
+  kg: number | null;
+  cylinders: number | null;
+  status: string;
+  reference: string;
+}
+
+/** A device's flow: the documented default and the organisation's own, when it set one. */
+export interface DeviceFlowView {
+  device: TherapyDevice;
+  label: string;
+  defaultFlowLMin: number;
+  rangeLMin: readonly [number, number];
+  source: string;
+  flowLMin: number;
+  edited: boolean;
+}

@@ -1,5 +1,6 @@
 import { z } from 'zod';
 import { OXYGEN_DEVICES } from '../forecast/demand-model';
+import type { WardView } from './supply.schema';
 
 /**
  * Schemas of ward usage reports, CSV uploads (readings, telemetry, store counts, flow meters, historic
@@ -198,3 +199,192 @@ export const exportQuerySchema = z.object({ table: z.enum(EXPORT_TABLES, { error
 export const reconciliationQuerySchema = z.object({
   days: z.coerce.number().int().min(7, 'at least 7 days').max(365).default(28),
 });
+
+// ---------- responses: daily usage reports (what the server sends; the browser reads the same types) ----------
+
+/** A filed report of one ward and local date. */
+export interface UsageReportView {
+  id: number;
+  wardId: number;
+  siteId: number;
+  date: string;
+  devices: UsageDeviceLine[];
+  cylinders: UsageCylinderLine[];
+  note: string;
+  submittedAt: string;
+  submittedBy: string | null;
+  updatedAt: string;
+  updatedBy: string | null;
+}
+
+/** Whether the caller may still change a report, until when, and why not. */
+export interface UsageEditRule {
+  canEdit: boolean;
+  editableUntil: string;
+  reason: string | null;
+}
+
+export type FiledReport = UsageReportView & UsageEditRule;
+
+/** What the report screen needs for one ward and local date. */
+export interface ReportScreenData {
+  ward: WardView;
+  site: { id: number; name: string; timeZone: string; referenceCode: string };
+  date: string;
+  today: string;
+  report: FiledReport | null;
+  draft: { date: string; devices: UsageDeviceLine[]; cylinders: UsageCylinderLine[]; note: string; prefilledFrom: string | null } | null;
+  previous: UsageReportView | null;
+  canCreate: boolean;
+  createRule: string | null;
+  devices: { device: UsageDeviceLine['device']; label: string; flowLMin: number; modelPatients: number }[];
+  cylinderTypes: { id: number; gasCode: string; name: string; freeGasL: number | null }[];
+  recent: { id: number; date: string; patientsNow: number; cylindersUsed: number; submittedBy: string | null; submittedAt: string }[];
+  editWindowHours: number;
+}
+
+/** One report with its ward and its change history (from the audit log). */
+export interface UsageReportDetail extends FiledReport {
+  ward: WardView;
+  history: { at: string; action: string; userEmail: string | null }[];
+}
+
+/** Which wards of a site have filed their report for a local date. */
+export interface UsageStatus {
+  site: { id: number; name: string; timeZone: string };
+  date: string;
+  reminderLocalTime: string;
+  wards: { wardId: number; name: string; department: string; reportId: number | null; submittedAt: string | null; submittedBy: string | null }[];
+}
+
+// ---------- responses: reconciliation of measured and modelled use ----------
+
+export interface WeekTotal {
+  /** ISO week, yyyy-Www. */
+  week: string;
+  total: number;
+  days: number;
+  perDay: number;
+}
+
+/** One local day of a source: measured and modelled use in litres of free gas, over `hours` of the day. */
+export interface DayPoint {
+  date: string;
+  measuredL: number;
+  modelledL: number;
+  hours: number;
+}
+
+export interface SourceReconciliation {
+  id: number;
+  name: string;
+  type: string;
+  gasCode: string;
+  modelledLPerDay: number;
+  correctedLPerDay: number;
+  measuredLPerDay: number | null;
+  ratio: number | null;
+  suggestedFactor: number | null;
+  acceptedFactor: number;
+  forecastBasis: 'model' | 'measured' | 'scaled';
+  dailyCv: number | null;
+  demandCv: { cv: number; measured: boolean; days: number };
+  readings: number;
+  spanHours: number;
+  refills: { at: string; delivered: number; unit: string }[];
+  daily: DayPoint[];
+  weekly: WeekTotal[];
+  wardsFed: { id: number; name: string }[];
+  note: string | null;
+}
+
+export interface WardReconciliation {
+  id: number;
+  name: string;
+  department: string;
+  modelledLPerDay: number;
+  measuredLPerDay: number | null;
+  /** Which measurement `measuredLPerDay` comes from (flow meter, historic usage, reported patients). */
+  basis: string | null;
+  ratio: number | null;
+  suggestedFactor: number | null;
+  reports: number;
+  reportedLPerDay: number | null;
+  meterLPerDay: number | null;
+  historyLPerDay: number | null;
+  devices: { device: string; label: string; modelPatients: number; reportedMeanNow: number | null; reportedMaxShift: number | null }[];
+  cylinders: { gasCode: string; cylinders: number; litres: number }[];
+  /** Oxygen of the cylinders reported used, litres of free gas per week. */
+  cylinderWeekly: WeekTotal[];
+  weekly: WeekTotal[];
+  daily: { date: string; modelledL: number; reportedL: number | null; meterL: number | null; historyL: number | null }[];
+  primarySource: { id: number; name: string } | null;
+}
+
+export interface SiteReconciliation {
+  site: { id: number; name: string; timeZone: string; referenceCode: string };
+  from: string;
+  to: string;
+  days: number;
+  caution: string;
+  method: string[];
+  sources: SourceReconciliation[];
+  wards: WardReconciliation[];
+}
+
+export interface SourceReconciliationDetail {
+  site: { id: number; name: string; timeZone: string };
+  days: number;
+  caution: string;
+  source: SourceReconciliation;
+  corrections: { at: string; by: string | null; factor: number; basis: string; previousFactor: number | null }[];
+}
+
+// ---------- responses: uploads ----------
+
+/** One checked row as the upload's preview shows it (times in site time, values in words). */
+export interface ImportPreviewRow {
+  row: number;
+  time: string;
+  target?: string;
+  reading: string;
+  contents: string | null;
+}
+
+/** An upload job: its file, mapping, progress, errors and what the caller may do next. */
+export interface ImportJobView {
+  id: number;
+  siteId: number;
+  kind: ImportKind;
+  kindLabel: string;
+  status: ImportStatus;
+  phase: 'check' | 'import' | null;
+  file: { name: string; sizeBytes: number; sha256: string; lines: number } | null;
+  options: { sourceId: number | null; wardId: number | null; unit: string | null; headerUnit: string | null; dateOrder: (typeof DATE_ORDERS)[number]; separator: ',' | ';' };
+  mapping: Record<string, string>;
+  columns: readonly ImportColumn[];
+  header: string[];
+  sample: string[][];
+  totalRows: number | null;
+  processedRows: number;
+  insertedRows: number;
+  progress: number;
+  errorCount: number;
+  errors: ImportRowError[];
+  preview: { rows: ImportPreviewRow[]; firstAt: string | null; lastAt: string | null; targets: { id: number; name: string; rows: number }[]; checkedUpToId?: number } | null;
+  message: string;
+  cancelRequested: boolean;
+  confirmDuplicate: boolean;
+  canCommit: boolean;
+  canCancel: boolean;
+  canRemap: boolean;
+  createdAt: string;
+  startedAt: string | null;
+  finishedAt: string | null;
+}
+
+/** What can be uploaded: the size limit and each kind's columns. */
+export interface ImportKinds {
+  maxMb: number;
+  kinds: { kind: ImportKind; label: string; columns: readonly ImportColumn[] }[];
+}

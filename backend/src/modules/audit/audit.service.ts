@@ -3,6 +3,7 @@ import type { ListQuery, Page } from '@common/schemas/common.schema';
 import { AuditLog } from '../../db/entities/audit-log.entity';
 import { db } from '../../db/db';
 import type { Actor } from '../../http/context';
+import type { AuditRow } from '@common/schemas/audit.schema';
 
 export interface AuditWho {
   organisationId: number | null;
@@ -46,16 +47,7 @@ export async function recordAudit(manager: EntityManager, who: AuditWho, what: A
   });
 }
 
-export interface AuditRow {
-  id: string;
-  at: string;
-  userEmail: string | null;
-  action: string;
-  entity: string;
-  entityId: string | null;
-  before: unknown;
-  after: unknown;
-}
+export type { AuditRow };
 
 const SORTABLE: Record<string, string> = { at: 'a.at', action: 'a.action', entity: 'a.entity', userEmail: 'a.user_email' };
 

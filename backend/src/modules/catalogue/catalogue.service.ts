@@ -7,13 +7,14 @@ import type { Actor } from '../../http/context';
 import { badRequest, conflict, notFound } from '../../errors/app-error';
 import { recordAudit, whoOf } from '../audit/audit.service';
 import { bumpOrganisationSiteVersions } from '../forecast/site-version';
+import type { CylinderTypeView, GasView, SupplierPriceView, SupplierView } from '@common/schemas/admin.schema';
 
-export async function listGases() {
+export async function listGases(): Promise<GasView[]> {
   const gases = await db().getRepository(Gas).find({ order: { sortOrder: 'ASC' } });
-  return gases.map((g) => ({ code: g.code, name: g.name, state: g.state, iso32Colours: g.iso32Colours.split(',').filter(Boolean), cgaColours: g.cgaColours.split(',').filter(Boolean) }));
+  return gases.map((g) => ({ code: g.code, name: g.name, state: g.state as GasView['state'], iso32Colours: g.iso32Colours.split(',').filter(Boolean), cgaColours: g.cgaColours.split(',').filter(Boolean) }));
 }
 
-export function presentCylinderType(c: CylinderType) {
+export function presentCylinderType(c: CylinderType): CylinderTypeView {
   return {
     id: c.id,
     name: cylinderTypeName(c.waterCapacityL, c.fillPressureBar),
@@ -75,7 +76,7 @@ export async function updateCylinderType(actor: Actor, id: number, input: Cylind
 
 // ---- suppliers ----
 
-async function presentSuppliers(m: EntityManager, suppliers: Supplier[]) {
+async function presentSuppliers(m: EntityManager, suppliers: Supplier[]): Promise<SupplierView[]> {
   const prices = suppliers.length ? await m.getRepository(SupplierPrice).find({ where: { supplierId: In(suppliers.map((s) => s.id)) }, order: { id: 'ASC' } }) : [];
   return suppliers.map((s) => ({
     id: s.id,
@@ -87,7 +88,7 @@ async function presentSuppliers(m: EntityManager, suppliers: Supplier[]) {
     minBulkDropKg: s.minBulkDropKg,
     currency: s.currency,
     active: s.active,
-    prices: prices.filter((p) => p.supplierId === s.id).map((p) => ({ id: p.id, cylinderTypeId: p.cylinderTypeId, gasCode: p.gasCode, unit: p.unit, priceMinor: p.priceMinor })),
+    prices: prices.filter((p) => p.supplierId === s.id).map((p) => ({ id: p.id, cylinderTypeId: p.cylinderTypeId, gasCode: p.gasCode, unit: p.unit as SupplierPriceView['unit'], priceMinor: p.priceMinor })),
   }));
 }
 

@@ -6,6 +6,9 @@ import type { RouteDef } from '../../http/route';
 import { actorOf, type Actor } from '../../http/context';
 import { validate } from '../../http/validate';
 import { notFound } from '../../errors/app-error';
+import { compareStatus } from '@common/forecast/status';
+import type { Overview, OverviewSite, WardDetail } from '@common/schemas/forecast.schema';
+import type { FeedRole } from '@common/schemas/supply.schema';
 import type { Ward } from '../../db/entities/supply.entity';
 import type { SiteModel } from './site-model';
 import { siteVersions, VersionedCache } from './site-version';
@@ -14,15 +17,12 @@ import { FORECAST_CAUTION, measuredLPerDay, modelledLines, outlookFor, wardDeman
 import { overviewRow, sourceDetail, sourceForecastCsv } from './source-detail.service';
 import { presentScenario, presentTherapy, presentWard, wardFor } from '../supply/supply.service';
 
-const STATUS_RANK = { critical: 0, reorder: 1, watch: 2, unknown: 3, ok: 4 } as const;
-
-type OverviewSite = { id: number; name: string; timeZone: string; referenceCode: string; computedAt: string; sources: ReturnType<typeof overviewRow>[] };
 
 /** Computed overview per site, by data version and a 5-minute clock bucket (see VersionedCache). */
 const overviewCache = new VersionedCache<OverviewSite>(BUCKET_MS);
 
 /** The overview: every source of the caller's sites, worst first. */
-export async function overview(actor: Actor) {
+export async function overview(actor: Actor): Promise<Overview> {
   const now = new Date();
   const versions = await siteVersions(actor.user.siteIds, actor.user.organisationId);
   const bucket = clockBucket(now);
@@ -46,7 +46,7 @@ export async function overview(actor: Actor) {
         sources: m.sources
           .filter((s) => s.type !== 'emergency_reserve')
           .map((s) => overviewRow(m, outlookFor(m, s, { now })))
-          .sort((a, b) => STATUS_RANK[a.status] - STATUS_RANK[b.status] || (a.daysOfStock ?? 1e9) - (b.daysOfStock ?? 1e9)),
+          .sort((a, b) => compareStatus(a.status, b.status) || (a.daysOfStock ?? 1e9) - (b.daysOfStock ?? 1e9)),
       };
       sites.set(m.site.id, site);
       overviewCache.set(key(m.site.id), site);
@@ -61,9 +61,9 @@ export async function overview(actor: Actor) {
 }
 
 /** Computed ward details by ward, site data version and clock bucket. */
-const wardCache = new VersionedCache<Promise<ReturnType<typeof computeWardDetail>>>(BUCKET_MS, 200);
+const wardCache = new VersionedCache<Promise<WardDetail>>(BUCKET_MS, 200);
 
-async function wardDetail(actor: Actor, id: number) {
+async function wardDetail(actor: Actor, id: number): Promise<WardDetail> {
   const ward = await wardFor(actor, id);
   const organisationId = actor.user.organisationId;
   const version = await siteVersionOf(ward.siteId, organisationId);
@@ -76,7 +76,7 @@ async function wardDetail(actor: Actor, id: number) {
   });
 }
 
-function computeWardDetail(model: SiteModel, ward: Ward) {
+function computeWardDetail(model: SiteModel, ward: Ward): WardDetail {
   const id = ward.id;
   const reference = model.site.referenceCode as ReferenceCode;
   const gases = [...new Set([...model.therapy.filter((t) => t.wardId === id).map((t) => t.gasCode), ...model.feeds.filter((f) => f.wardId === id).map((f) => f.gasCode)])];
@@ -92,13 +92,13 @@ function computeWardDetail(model: SiteModel, ward: Ward) {
       const srcModelled = meanDailyDemandL(modelledLines(model, src));
       if (srcMeasured !== null && srcModelled > 0) measured = (srcMeasured * modelledLPerDay) / srcModelled;
     }
-    return { gasCode: gas, modelledLPerDay, measuredLPerDay: measured, suggestedFactor: measured !== null && modelledLPerDay > 0 ? measured / modelledLPerDay : null, primarySource: src ? { id: src.id, name: src.name } : null, lines: lines.map((l) => ({ label: l.label, flowLMin: l.flow_L_min, hours: l.hours ?? null, weekdays: l.weekdays ?? null })) };
+    return { gasCode: gas, modelledLPerDay, measuredLPerDay: measured, suggestedFactor: measured !== null && modelledLPerDay > 0 ? measured / modelledLPerDay : null, primarySource: src ? { id: src.id, name: src.name } : null, lines: lines.map((l) => ({ label: l.label ?? '', flowLMin: l.flow_L_min, hours: l.hours ?? null, weekdays: l.weekdays ?? null })) };
   });
   return {
     ward: presentWard(ward),
     site: { id: model.site.id, name: model.site.name, timeZone: model.site.timeZone, referenceCode: model.site.referenceCode },
     therapy: model.therapy.filter((t) => t.wardId === id).map(presentTherapy),
-    feeds: model.feeds.filter((f) => f.wardId === id).map((f) => ({ sourceId: f.sourceId, gasCode: f.gasCode, role: f.role, sourceName: model.sources.find((s) => s.id === f.sourceId)?.name ?? '' })),
+    feeds: model.feeds.filter((f) => f.wardId === id).map((f) => ({ sourceId: f.sourceId, gasCode: f.gasCode, role: f.role as FeedRole, sourceName: model.sources.find((s) => s.id === f.sourceId)?.name ?? '' })),
     perGas,
     scenarios: model.scenarios.filter((s) => s.wardId === id || s.wardId === null).map(presentScenario),
   };

@@ -9,17 +9,10 @@ import { InvalidInputError } from '@common/api/errors';
 import { consumptionBetweenReadings, dailyRates, demandCvFromDays, detectRefills, orderedSeries, refillThreshold, type Consumption } from '@common/forecast/reconcile';
 import { nominalContents } from '@common/catalogue/cylinder-type';
 import type { Scenario, SupplySource } from '../../db/entities/supply.entity';
+import { decideStatus, statusText, type SourceStatus } from '@common/forecast/status';
 import type { SiteModel } from './site-model';
 
-export type SourceStatus = 'ok' | 'watch' | 'reorder' | 'critical' | 'unknown';
-
-export const STATUS_TEXT: Record<SourceStatus, string> = {
-  ok: 'Enough stock',
-  watch: 'Reorder within a week',
-  reorder: 'Reorder now',
-  critical: 'Runs out before a delivery',
-  unknown: 'No reading yet',
-};
+export type { SourceStatus };
 
 const DEFAULT_LEAD_TIME_HOURS = 48;
 /** Vaporiser derating when none is entered: 0.7 for an alternating pair (the capacity engine's documented default). */
@@ -299,7 +292,7 @@ export function outlookFor(model: SiteModel, s: SupplySource, opts: ForecastOpti
   const empty: SourceOutlook = {
     sourceId: s.id,
     status: 'unknown',
-    statusText: STATUS_TEXT.unknown,
+    statusText: statusText('unknown', reading !== undefined),
     unit,
     contentsNow: reading ? reading.contents : null,
     capacity,
@@ -316,7 +309,7 @@ export function outlookFor(model: SiteModel, s: SupplySource, opts: ForecastOpti
     startUtc: null,
     elapsedHours: 0,
   };
-  if (!input) return { ...empty, statusText: reading ? 'No forecast' : STATUS_TEXT.unknown };
+  if (!input) return empty;
   let f: SourceForecast;
   try {
     f = forecastOnce(input);
@@ -335,12 +328,7 @@ export function outlookFor(model: SiteModel, s: SupplySource, opts: ForecastOpti
   const reorderAtMs = firstOrder ? Math.max(startMs + firstOrder.placedHours * MS_H, now.getTime()) : null;
   const hoursToReorder = reorderAtMs === null ? null : (reorderAtMs - now.getTime()) / MS_H;
 
-  let status: SourceStatus = 'ok';
   const reserveTouched = f.firstRisk?.kind === 'reserve_touched' && f.firstRisk.atHours <= elapsed + lead;
-  if ((hoursToEmptyNow !== null && hoursToEmptyNow <= lead) || reserveTouched) status = 'critical';
-  else if (hoursToReorder !== null && hoursToReorder <= lead) status = 'reorder';
-  else if (hoursToReorder !== null && hoursToReorder <= 7 * 24) status = 'watch';
-  else if (daysOfStock !== null && daysOfStock * 24 <= lead) status = 'critical';
 
   // A vaporiser carries the hourly demand only up to its derated rating (continuous duty, cold weather).
   let risk = f.firstRisk ? { code: f.firstRisk.kind as string, message: f.firstRisk.message, atHours: f.firstRisk.atHours } : null;
@@ -352,8 +340,16 @@ export function outlookFor(model: SiteModel, s: SupplySource, opts: ForecastOpti
         break;
       }
     }
-    if (risk?.code === 'vaporiser_overload' && risk.atHours <= elapsed + 24 && status !== 'critical') status = 'critical';
   }
+  const status = decideStatus({
+    forecast: true,
+    leadTimeHours: lead,
+    hoursToEmpty: hoursToEmptyNow,
+    hoursToReorder,
+    daysOfStock,
+    reserveTouchedWithinLead: reserveTouched,
+    vaporiserOverloadWithinDay: risk?.code === 'vaporiser_overload' && risk.atHours <= elapsed + 24,
+  });
 
   const trend: number[] = [];
   for (let d = 0; d <= 14; d++) {
@@ -363,7 +359,7 @@ export function outlookFor(model: SiteModel, s: SupplySource, opts: ForecastOpti
   return {
     ...empty,
     status,
-    statusText: STATUS_TEXT[status],
+    statusText: statusText(status, true),
     contentsNow,
     daysOfStock,
     emptyAt,

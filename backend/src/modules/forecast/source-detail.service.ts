@@ -2,6 +2,8 @@ import { toCsv } from '@common/api/csv';
 import { toChartSeries } from '@common/forecast/chart-series';
 import { REFERENCE_CONDITIONS, type ReferenceCode } from '@common/gas/reference-conditions';
 import { cylinderTypeName } from '@common/catalogue/cylinder-type';
+import type { OverviewSource, SourceDetail } from '@common/schemas/forecast.schema';
+import type { SourceType } from '@common/schemas/supply.schema';
 import type { Actor } from '../../http/context';
 import { notFound } from '../../errors/app-error';
 import { db } from '../../db/db';
@@ -21,12 +23,12 @@ export interface SourceDetailQuery {
 }
 
 /** One row of the overview (and the outlook of the source detail). */
-export function overviewRow(model: SiteModel, o: SourceOutlook) {
+export function overviewRow(model: SiteModel, o: SourceOutlook): OverviewSource {
   const s = model.sources.find((x) => x.id === o.sourceId)!;
   return {
     id: s.id,
     name: s.name,
-    type: s.type,
+    type: s.type as SourceType,
     gasCode: s.gasCode,
     unit: o.unit,
     contents: o.contentsNow,
@@ -129,7 +131,7 @@ async function computed(actor: Actor, id: number, q: SourceDetailQuery): Promise
 }
 
 /** Source detail: settings, forecast from now (hourly), empty-time band, orders, deliveries, method and readings. */
-export async function sourceDetail(actor: Actor, id: number, q: SourceDetailQuery) {
+export async function sourceDetail(actor: Actor, id: number, q: SourceDetailQuery): Promise<SourceDetail> {
   const c = await computed(actor, id, q);
   // Names are read each time: a person's name is not a forecast input and does not bump the version.
   const names = await readerNames(actor.user.organisationId, c.readings);

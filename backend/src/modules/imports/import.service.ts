@@ -15,6 +15,7 @@ import { inspectCsvFile } from './csv-file';
 import { unitsAccepted } from './import-rows';
 import { wakeImportWorker } from './import-runner';
 import { fileStore, uploadKey } from '../../storage/file-store';
+import type { ImportJobView } from '@common/schemas/usage.schema';
 
 /** What is stored in import_job.options_json. */
 export interface JobOptions {
@@ -48,7 +49,7 @@ export const FINAL_STATUSES: ImportStatus[] = ['done', 'cancelled'];
 
 // ---------- presenters ----------
 
-export function presentJob(job: ImportJob, file: ImportFile | null) {
+export function presentJob(job: ImportJob, file: ImportFile | null): ImportJobView {
   const options = JSON.parse(job.optionsJson) as JobOptions;
   const status = job.status as ImportStatus;
   const total = job.totalRows ?? (file ? Math.max(0, file.lineCount - 1) : null);
@@ -71,7 +72,7 @@ export function presentJob(job: ImportJob, file: ImportFile | null) {
     progress: total ? Math.min(1, job.processedRows / total) : status === 'done' ? 1 : 0,
     errorCount: job.errorCount,
     errors: job.errorsJson ? (JSON.parse(job.errorsJson) as ImportRowError[]) : [],
-    preview: job.previewJson ? (JSON.parse(job.previewJson) as JobPreview) : null,
+    preview: job.previewJson ? (JSON.parse(job.previewJson) as ImportJobView['preview']) : null,
     message: job.message,
     cancelRequested: job.cancelRequested,
     confirmDuplicate: job.confirmDuplicate,

@@ -15,6 +15,7 @@ import * as svc from './import.service';
 import { exportTable } from './exports';
 import { uploadDir } from '../../storage/file-store';
 import { getSiteFor } from '../sites/sites.service';
+import type { ImportKinds } from '@common/schemas/usage.schema';
 
 const id = (params: unknown) => validate(idParamSchema, params, 'address').id;
 const FM: Role[] = ['facilities_manager'];
@@ -67,7 +68,7 @@ export function importRoutes(): RouteDef[] {
       method: 'get',
       path: '/api/import-kinds',
       access: FM,
-      handler: () => ({ maxMb: env().UPLOAD_MAX_MB, kinds: IMPORT_KINDS.map((kind) => ({ kind, label: IMPORT_KIND_LABELS[kind], columns: IMPORT_COLUMNS[kind] })) }),
+      handler: () => ({ maxMb: env().UPLOAD_MAX_MB, kinds: IMPORT_KINDS.map((kind) => ({ kind, label: IMPORT_KIND_LABELS[kind], columns: IMPORT_COLUMNS[kind] })) }) satisfies ImportKinds,
     },
     {
       method: 'post',

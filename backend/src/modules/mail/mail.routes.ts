@@ -1,5 +1,7 @@
 import { z } from 'zod';
 import { idParamSchema, listQuerySchema } from '@common/schemas/common.schema';
+import type { Page } from '@common/schemas/common.schema';
+import type { MailMessageView, MailSummary } from '@common/schemas/mail.schema';
 import type { RouteDef } from '../../http/route';
 import { validate } from '../../http/validate';
 import { db } from '../../db/db';
@@ -34,7 +36,7 @@ export function mailRoutes(): RouteDef[] {
           total,
           page: q.page,
           pageSize: q.pageSize,
-        };
+        } satisfies Page<MailSummary>;
       },
     },
     {
@@ -46,7 +48,7 @@ export function mailRoutes(): RouteDef[] {
         const m = await db().getRepository(MailMessage).findOneBy({ id });
         if (!m) throw notFound('Message');
         const attachments = await db().getRepository(MailAttachment).find({ select: { id: true, filename: true, contentType: true, sizeBytes: true }, where: { mailMessageId: id } });
-        return { id: m.id, receivedAt: m.receivedAt.toISOString(), from: m.mailFrom, to: m.mailTo, subject: m.subject, text: m.textBody, html: m.htmlBody, attachments };
+        return { id: m.id, receivedAt: m.receivedAt.toISOString(), from: m.mailFrom, to: m.mailTo, subject: m.subject, text: m.textBody, html: m.htmlBody, attachments: attachments.map((a) => ({ id: a.id, filename: a.filename, contentType: a.contentType, sizeBytes: a.sizeBytes })) } satisfies MailMessageView;
       },
     },
     {

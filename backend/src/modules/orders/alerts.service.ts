@@ -1,5 +1,6 @@
 import { In, IsNull } from 'typeorm';
 import type { SubscriptionInput } from '@common/schemas/orders.schema';
+import type { SubscriptionView } from '@common/schemas/orders.schema';
 import { db } from '../../db/db';
 import { Site } from '../../db/entities/site.entity';
 import { User } from '../../db/entities/user.entity';
@@ -14,11 +15,11 @@ import { enqueueMail } from './outbox.service';
 
 // ---------- subscriptions ----------
 
-export async function listSubscriptions(actor: Actor) {
+export async function listSubscriptions(actor: Actor): Promise<SubscriptionView[]> {
   const subs = await db().getRepository(SiteSubscription).find({ where: { userId: actor.user.id } });
   const visible = subs.filter((s) => actor.user.siteIds.includes(s.siteId));
   const sites = visible.length ? await db().getRepository(Site).findBy({ id: In(visible.map((s) => s.siteId)) }) : [];
-  return visible.map((s) => ({ siteId: s.siteId, siteName: sites.find((x) => x.id === s.siteId)?.name ?? '', mode: s.mode, policyDays: s.policyDays, lastDigestAt: s.lastDigestAt?.toISOString() ?? null }));
+  return visible.map((s) => ({ siteId: s.siteId, siteName: sites.find((x) => x.id === s.siteId)?.name ?? '', mode: s.mode as SubscriptionView['mode'], policyDays: s.policyDays, lastDigestAt: s.lastDigestAt?.toISOString() ?? null }));
 }
 
 export async function setSubscription(actor: Actor, siteId: number, input: SubscriptionInput) {

@@ -11,6 +11,7 @@ import { addEvent } from './orders.shared';
 import { isDuplicateKey } from './transactions';
 import { pdfForOrder } from './purchase-orders.service';
 import { backoffMs } from '@common/api/backoff';
+import type { OutboxKind, OutboxMessage, OutboxPage, OutboxStatus } from '@common/schemas/mail.schema';
 
 export interface OutgoingMail {
   organisationId: number;
@@ -185,14 +186,14 @@ export function startOutboxWorker(opts: { ds?: DataSource; pollMs?: number } = {
 
 // ---------- administrators ----------
 
-export function presentOutbox(o: MailOutbox, attentionAttempts: number) {
+export function presentOutbox(o: MailOutbox, attentionAttempts: number): OutboxMessage {
   return {
     id: Number(o.id),
-    kind: o.kind,
+    kind: o.kind as OutboxKind,
     to: o.toAddress,
     cc: o.ccAddress,
     subject: o.subject,
-    status: o.status,
+    status: o.status as OutboxStatus,
     attempts: o.attempts,
     needsAttention: o.status === 'failed' || (o.status === 'pending' && o.attempts >= attentionAttempts),
     nextAttemptAt: o.nextAttemptAt.toISOString(),
@@ -205,7 +206,7 @@ export function presentOutbox(o: MailOutbox, attentionAttempts: number) {
 }
 
 /** The organisation's outbox; "attention" lists failed messages and ones that keep failing. */
-export async function listOutbox(actor: Actor, q: { status: string; page: number; pageSize: number }) {
+export async function listOutbox(actor: Actor, q: { status: string; page: number; pageSize: number }): Promise<OutboxPage> {
   const attention = Math.min(3, env().OUTBOX_MAX_ATTEMPTS);
   const qb = db().getRepository(MailOutbox).createQueryBuilder('o').select(['o.id', 'o.kind', 'o.toAddress', 'o.ccAddress', 'o.subject', 'o.status', 'o.attempts', 'o.nextAttemptAt', 'o.lastError', 'o.sentAt', 'o.createdAt', 'o.purchaseOrderId', 'o.requestId']).where('o.organisation_id = :org', { org: actor.user.organisationId });
   if (q.status === 'attention') qb.andWhere("(o.status = 'failed' OR (o.status = 'pending' AND o.attempts >= :n))", { n: attention });

@@ -1,4 +1,6 @@
 import { In, type DataSource } from 'typeorm';
+import type { Page } from '@common/schemas/common.schema';
+import type { OrderDetail, OrderRow, OrderUnit } from '@common/schemas/orders.schema';
 import { db } from '../../db/db';
 import { Supplier } from '../../db/entities/catalogue.entity';
 import { Organisation } from '../../db/entities/organisation.entity';
@@ -76,7 +78,7 @@ function presentOrder(po: PurchaseOrder, names: { site?: string; supplier?: stri
     supplierId: po.supplierId,
     supplierName: names.supplier ?? '',
     description: po.description,
-    unit: po.unit,
+    unit: po.unit as OrderUnit,
     quantity: po.quantity,
     deliveredQuantity: po.deliveredQuantity,
     unitPriceMinor: po.unitPriceMinor,
@@ -89,7 +91,7 @@ function presentOrder(po: PurchaseOrder, names: { site?: string; supplier?: stri
     approvedBy: JSON.parse(po.approvedByJson) as { userId: number; name: string }[],
     sentAt: po.sentAt?.toISOString() ?? null,
     createdAt: po.createdAt.toISOString(),
-  };
+  } satisfies OrderRow;
 }
 
 export async function listOrders(actor: Actor, q: { status?: string; siteId?: number; page: number; pageSize: number }) {
@@ -101,7 +103,7 @@ export async function listOrders(actor: Actor, q: { status?: string; siteId?: nu
   qb.orderBy('p.seq', 'DESC').skip((q.page - 1) * q.pageSize).take(q.pageSize);
   const [rows, total] = await qb.getManyAndCount();
   const names = await namesFor(rows);
-  return { items: rows.map((p) => presentOrder(p, { site: names.sites.get(p.siteId), supplier: names.suppliers.get(p.supplierId), source: names.sources.get(p.sourceId) })), total, page: q.page, pageSize: q.pageSize };
+  return { items: rows.map((p) => presentOrder(p, { site: names.sites.get(p.siteId), supplier: names.suppliers.get(p.supplierId), source: names.sources.get(p.sourceId) })), total, page: q.page, pageSize: q.pageSize } satisfies Page<OrderRow>;
 }
 
 async function namesFor(rows: PurchaseOrder[]) {
@@ -128,5 +130,5 @@ export async function getOrder(actor: Actor, id: number) {
       ? { id: delivery.id, deliveryNote: delivery.deliveryNote, deliveredAt: delivery.deliveredAt.toISOString(), quantity: delivery.quantity, unit: delivery.unit, emptiesCollected: delivery.emptiesCollected, note: delivery.note, readingId: delivery.readingId }
       : null,
     emails: mails.map((x) => ({ id: Number(x.id), kind: x.kind, to: x.toAddress, cc: x.ccAddress, status: x.status, attempts: x.attempts, lastError: x.lastError, sentAt: x.sentAt?.toISOString() ?? null, nextAttemptAt: x.nextAttemptAt.toISOString() })),
-  };
+  } satisfies OrderDetail;
 }

@@ -1,5 +1,7 @@
 import { In, type EntityManager } from 'typeorm';
 import { MAX_ORDER_CYLINDERS, REQUEST_STATUS_TEXT, type ChangeQuantityInput, type CreateRequestInput, type DecisionInput, type RejectInput, type RequestListQuery, type RequestStatus } from '@common/schemas/orders.schema';
+import type { ActionState, OrderUnit, RequestAction, RequestDetail, RequestRow } from '@common/schemas/orders.schema';
+import type { Page } from '@common/schemas/common.schema';
 import { db } from '../../db/db';
 import { CylinderType, Supplier } from '../../db/entities/catalogue.entity';
 import { Site } from '../../db/entities/site.entity';
@@ -244,7 +246,7 @@ export async function listRequests(actor: Actor, q: RequestListQuery) {
   qb.skip((q.page - 1) * q.pageSize).take(q.pageSize);
   const [rows, total] = await qb.getManyAndCount();
   const ctx = await contextFor(rows);
-  return { items: rows.map((r) => presentRequestRow(r, ctx)), total, page: q.page, pageSize: q.pageSize };
+  return { items: rows.map((r) => presentRequestRow(r, ctx)), total, page: q.page, pageSize: q.pageSize } satisfies Page<RequestRow>;
 }
 
 interface Ctx {
@@ -280,7 +282,7 @@ function presentRequestRow(r: ReorderRequest, ctx: Ctx) {
     reference: `R-${r.id}`,
     status: r.status as RequestStatus,
     statusText: REQUEST_STATUS_TEXT[r.status as RequestStatus],
-    origin: r.origin,
+    origin: r.origin as RequestRow['origin'],
     siteId: r.siteId,
     siteName: ctx.sites.get(r.siteId)?.name ?? '',
     sourceId: r.sourceId,
@@ -289,7 +291,7 @@ function presentRequestRow(r: ReorderRequest, ctx: Ctx) {
     description: source ? describeItem(source, r.cylinderTypeId ? (ctx.cyl.get(r.cylinderTypeId) ?? null) : null) : r.gasCode,
     supplierId: r.supplierId,
     supplierName: r.supplierId ? (ctx.suppliers.get(r.supplierId)?.name ?? '') : null,
-    unit: r.unit,
+    unit: r.unit as OrderUnit,
     suggestedQuantity: r.suggestedQuantity,
     quantity: r.quantity,
     quantityReason: r.quantityReason,
@@ -306,7 +308,7 @@ function presentRequestRow(r: ReorderRequest, ctx: Ctx) {
     createdAt: r.createdAt.toISOString(),
     updatedAt: r.updatedAt.toISOString(),
     order: po ? { id: po.id, poNumber: po.poNumber, status: po.status } : null,
-  };
+  } satisfies RequestRow;
 }
 
 /** A request with its timeline, approvals, trigger and what the actor may do with it (and why not). */
@@ -319,17 +321,15 @@ export async function getRequest(actor: Actor, id: number) {
   const approvers = approvals.length ? await db().getRepository(User).findBy({ id: In(approvals.map((a) => a.userId)) }) : [];
   return {
     ...presentRequestRow(r, ctx),
-    trigger: r.triggerJson ? JSON.parse(r.triggerJson) : null,
+    trigger: r.triggerJson ? (JSON.parse(r.triggerJson) as RequestDetail['trigger']) : null,
     approvals: approvals.map((a) => ({ userId: a.userId, name: approvers.find((u) => u.id === a.userId)?.name ?? '', at: a.at.toISOString(), limitMinor: a.limitMinor, comment: a.comment })),
-    timeline: events.map((e) => ({ at: e.at.toISOString(), action: e.action, by: e.userName, userId: e.userId, fromStatus: e.fromStatus, toStatus: e.toStatus, comment: e.comment, detail: e.detailJson ? JSON.parse(e.detailJson) : null })),
+    timeline: events.map((e) => ({ at: e.at.toISOString(), action: e.action, by: e.userName, userId: e.userId, fromStatus: e.fromStatus, toStatus: e.toStatus, comment: e.comment, detail: e.detailJson ? (JSON.parse(e.detailJson) as Record<string, unknown>) : null })),
     myApprovalLimit: limit ? { limitMinor: limit.limitMinor, currency: limit.currency } : null,
     actions: actionsFor(actor, r, approvals, limit),
-  };
+  } satisfies RequestDetail;
 }
 
-type ActionState = { allowed: boolean; reason: string | null };
-
-function actionsFor(actor: Actor, r: ReorderRequest, approvals: RequestApproval[], limit: UserApprovalLimit | null): Record<'approve' | 'reject' | 'submit' | 'cancel' | 'changeQuantity', ActionState> {
+function actionsFor(actor: Actor, r: ReorderRequest, approvals: RequestApproval[], limit: UserApprovalLimit | null): Record<RequestAction, ActionState> {
   const roles = actor.user.roles;
   const po = roles.includes('purchasing_officer');
   const fm = roles.includes('facilities_manager');

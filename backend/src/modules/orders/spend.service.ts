@@ -1,6 +1,7 @@
 import { In } from 'typeorm';
 import { DateTime } from 'luxon';
 import type { SpendQuery } from '@common/schemas/orders.schema';
+import type { SpendReport, SpendRow } from '@common/schemas/orders.schema';
 import { toCsv } from '@common/api/csv';
 import { db } from '../../db/db';
 import { Supplier } from '../../db/entities/catalogue.entity';
@@ -9,19 +10,7 @@ import { SupplySource } from '../../db/entities/supply.entity';
 import type { Actor } from '../../http/context';
 import { badRequest } from '../../errors/app-error';
 
-export interface SpendRow {
-  month: string;
-  siteId: number;
-  siteName: string;
-  gasCode: string;
-  supplierId: number;
-  supplierName: string;
-  currency: string;
-  orderedMinor: number;
-  deliveredMinor: number;
-  rentalMinor: number;
-  cylinderDays: number;
-}
+export type { SpendRow };
 
 /** Cylinders a reading says are on site (full, in use and empty ones all carry rental). */
 export function cylindersOnSite(kind: string, detail: Record<string, unknown> | null, cylindersPerBank: number | null): number | null {
@@ -67,7 +56,7 @@ function monthRange(q: SpendQuery): { from: string; to: string; fromMs: number; 
  * Spend by month, site, gas and supplier: orders placed (value ordered and value delivered) and cylinder
  * rental (cylinders on site × days × the supplier's daily rate). Integer minor units of each row's currency.
  */
-export async function spendReport(actor: Actor, q: SpendQuery) {
+export async function spendReport(actor: Actor, q: SpendQuery): Promise<SpendReport> {
   const range = monthRange(q);
   const siteIds = q.siteId ? actor.user.siteIds.filter((x) => x === q.siteId) : actor.user.siteIds;
   const empty = { from: range.from, to: range.to, months: [] as string[], rows: [] as SpendRow[], currencies: [] as string[] };
@@ -132,7 +121,7 @@ export async function spendReport(actor: Actor, q: SpendQuery) {
   const months: string[] = [];
   for (let d = DateTime.fromMillis(range.fromMs, { zone: 'utc' }); d.toMillis() < range.toMs; d = d.plus({ months: 1 })) months.push(d.toFormat('yyyy-MM'));
   const list = [...rows.values()].sort((a, b) => a.month.localeCompare(b.month) || a.siteName.localeCompare(b.siteName) || a.gasCode.localeCompare(b.gasCode) || a.supplierName.localeCompare(b.supplierName));
-  return { from: range.from, to: range.to, months, rows: list, currencies: [...new Set(list.map((r) => r.currency))] };
+  return { from: range.from, to: range.to, months, rows: list, currencies: [...new Set(list.map((r) => r.currency))] } satisfies SpendReport;
 }
 
 export async function spendCsv(actor: Actor, q: SpendQuery): Promise<string> {

@@ -5,25 +5,26 @@ import { Organisation } from '../../db/entities/organisation.entity';
 import type { Actor } from '../../http/context';
 import { conflict, notFound } from '../../errors/app-error';
 import { recordAudit, whoOf } from '../audit/audit.service';
+import type { OrganisationView, SiteView } from '@common/schemas/admin.schema';
 
 /** Atmospheric pressure at an altitude, bar: ICAO standard atmosphere, p = p0·(1 − 2.25577e-5·h)^5.25588. */
 export function standardAtmosphereBar(altitudeM: number): number {
   return 1.01325 * Math.pow(1 - 2.25577e-5 * altitudeM, 5.25588);
 }
 
-export function presentSite(s: Site) {
+export function presentSite(s: Site): SiteView {
   return {
     id: s.id,
     name: s.name,
-    kind: s.kind,
+    kind: s.kind as SiteView['kind'],
     address: s.address,
     timeZone: s.timeZone,
-    referenceCode: s.referenceCode,
-    unitSystem: s.unitSystem,
+    referenceCode: s.referenceCode as SiteView['referenceCode'],
+    unitSystem: s.unitSystem as SiteView['unitSystem'],
     altitudeM: s.altitudeM,
     atmosphericBar: s.atmosphericBar,
     currency: s.currency,
-    cylinderColours: s.cylinderColours,
+    cylinderColours: s.cylinderColours as SiteView['cylinderColours'],
     storeTemperatureC: s.storeTemperatureC,
     beds: s.beds,
     updatedAt: s.updatedAt.toISOString(),
@@ -79,7 +80,7 @@ export async function updateSite(actor: Actor, id: number, input: SiteInput) {
 
 export async function getOrganisation(actor: Actor) {
   const org = await db().getRepository(Organisation).findOneByOrFail({ id: actor.user.organisationId });
-  return { id: org.id, name: org.name };
+  return { id: org.id, name: org.name } satisfies OrganisationView;
 }
 
 export async function renameOrganisation(actor: Actor, name: string) {
@@ -88,6 +89,6 @@ export async function renameOrganisation(actor: Actor, name: string) {
     const before = await repo.findOneByOrFail({ id: actor.user.organisationId });
     await repo.update({ id: before.id }, { name });
     await recordAudit(m, whoOf(actor), { action: 'update', entity: 'organisation', entityId: String(before.id), before: { name: before.name }, after: { name } });
-    return { id: before.id, name };
+    return { id: before.id, name } satisfies OrganisationView;
   });
 }

@@ -1,6 +1,7 @@
 import { z } from 'zod';
 import { idParamSchema, listQuerySchema } from '@common/schemas/common.schema';
 import { deliverySchema, deviceFlowsSchema, readingInputSchema, scenarioSchema, sourceSchema, therapyLinesSchema, wardFeedsSchema, wardSchema } from '@common/schemas/supply.schema';
+import type { DeviceFlowView, TherapyDevice } from '@common/schemas/supply.schema';
 import { DEVICE_DEFAULTS } from '@common/forecast/demand-model';
 import type { Role } from '@common/api/roles';
 import type { RouteDef } from '../../http/route';
@@ -75,7 +76,7 @@ export function supplyRoutes(): RouteDef[] {
       access: READERS,
       handler: async (req) => {
         const own = await svc.getDeviceFlows(actorOf(req));
-        return Object.entries(DEVICE_DEFAULTS).map(([device, d]) => ({ device, label: d.label, defaultFlowLMin: d.flowLMin, rangeLMin: d.rangeLMin, source: d.source, flowLMin: own.find((o) => o.device === device)?.flowLMin ?? d.flowLMin, edited: own.some((o) => o.device === device) }));
+        return Object.entries(DEVICE_DEFAULTS).map(([device, d]) => ({ device: device as TherapyDevice, label: d.label, defaultFlowLMin: d.flowLMin, rangeLMin: d.rangeLMin, source: d.source, flowLMin: own.find((o) => o.device === device)?.flowLMin ?? d.flowLMin, edited: own.some((o) => o.device === device) }) satisfies DeviceFlowView);
       },
     },
     { method: 'put', path: '/api/device-flows', access: ['facilities_manager', 'administrator'], handler: (req) => svc.setDeviceFlows(actorOf(req), validate(deviceFlowsSchema, req.body, 'device flows').flows) },

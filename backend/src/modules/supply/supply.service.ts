@@ -1,6 +1,6 @@
 import { In, type EntityManager } from 'typeorm';
 import { DateTime } from 'luxon';
-import type { DeliveryInput, ReadingInput, ScenarioInput, SourceInput, TherapyLineInput, WardInput } from '@common/schemas/supply.schema';
+import type { DeliveryInput, DeliveryView, Department, ForecastBasis, ReadingInput, ReadingKind, ReadingMethod, ReadingPage, ReadingView, ReorderMode, ScenarioInput, ScenarioView, SourceInput, SourceType, SourceView, TherapyDevice, TherapyLineInput, TherapyLineView, WardInput, WardView } from '@common/schemas/supply.schema';
 import { compressedContents } from '@common/gas/contents';
 import { levelPercentToKg, loxLitresToKg, contentsFromCalibrationTable } from '@common/gas/liquid-oxygen';
 import { freeGasLitresPerKg, type ReferenceCode } from '@common/gas/reference-conditions';
@@ -24,7 +24,7 @@ export function presentSource(s: SupplySource) {
     id: s.id,
     siteId: s.siteId,
     name: s.name,
-    type: s.type,
+    type: s.type as SourceType,
     gasCode: s.gasCode,
     supplierId: s.supplierId,
     capacityKg: s.capacityKg,
@@ -41,19 +41,19 @@ export function presentSource(s: SupplySource) {
     changeoverGaugeBar: s.changeoverGaugeBar,
     temperatureC: s.temperatureC,
     backsUp: s.backsUpJson ? (JSON.parse(s.backsUpJson) as number[]) : [],
-    reorderMode: s.reorderMode,
+    reorderMode: s.reorderMode as ReorderMode,
     reorderLevel: s.reorderLevel,
     orderUpTo: s.orderUpTo,
     leadTimeHours: s.leadTimeHours,
-    forecastBasis: s.forecastBasis,
+    forecastBasis: s.forecastBasis as ForecastBasis,
     modelCorrectionFactor: s.modelCorrectionFactor,
     notes: s.notes,
     active: s.active,
-  };
+  } satisfies SourceView;
 }
 
 export function presentReading(r: SourceReading, names?: Map<number, string>) {
-  return { id: r.id, takenAt: r.takenAt.toISOString(), kind: r.kind, value: r.value, detail: r.detailJson ? JSON.parse(r.detailJson) : null, contents: r.contents, method: r.method, takenByUserId: r.takenByUserId, takenByName: r.takenByUserId ? (names?.get(r.takenByUserId) ?? null) : null, note: r.note };
+  return { id: r.id, takenAt: r.takenAt.toISOString(), kind: r.kind as ReadingKind, value: r.value, detail: r.detailJson ? (JSON.parse(r.detailJson) as ReadingView['detail']) : null, contents: r.contents, method: r.method as ReadingMethod, takenByUserId: r.takenByUserId, takenByName: r.takenByUserId ? (names?.get(r.takenByUserId) ?? null) : null, note: r.note } satisfies ReadingView;
 }
 
 /** Names of the people who took readings (same organisation only), for the readings tables. */
@@ -65,15 +65,15 @@ export async function readerNames(organisationId: number, readings: SourceReadin
 }
 
 export function presentWard(w: Ward) {
-  return { id: w.id, siteId: w.siteId, name: w.name, department: w.department, beds: w.beds, leakagePercent: w.leakagePercent, active: w.active };
+  return { id: w.id, siteId: w.siteId, name: w.name, department: w.department as Department, beds: w.beds, leakagePercent: w.leakagePercent, active: w.active } satisfies WardView;
 }
 
 export function presentScenario(s: Scenario) {
-  return { id: s.id, siteId: s.siteId, name: s.name, multiplier: s.multiplier, extraPatients: s.extraPatients, extraFlowLMin: s.extraFlowLMin, wardId: s.wardId, wardChange: s.wardChange, fromLocal: s.fromLocal, untilLocal: s.untilLocal, note: s.note };
+  return { id: s.id, siteId: s.siteId, name: s.name, multiplier: s.multiplier, extraPatients: s.extraPatients, extraFlowLMin: s.extraFlowLMin, wardId: s.wardId, wardChange: s.wardChange as ScenarioView['wardChange'], fromLocal: s.fromLocal, untilLocal: s.untilLocal, note: s.note } satisfies ScenarioView;
 }
 
 export function presentTherapy(t: TherapyLineRow) {
-  return { id: t.id, gasCode: t.gasCode, device: t.device, patients: t.patients, flowLMin: t.flowLMin, hours: t.hoursJson ? JSON.parse(t.hoursJson) : null, weekdays: t.weekdaysJson ? JSON.parse(t.weekdaysJson) : null, label: t.label };
+  return { id: t.id, gasCode: t.gasCode, device: t.device as TherapyDevice, patients: t.patients, flowLMin: t.flowLMin, hours: t.hoursJson ? (JSON.parse(t.hoursJson) as number[]) : null, weekdays: t.weekdaysJson ? (JSON.parse(t.weekdaysJson) as number[]) : null, label: t.label } satisfies TherapyLineView;
 }
 
 // ---------- scoped look-ups (404 for anything outside the actor's sites) ----------
@@ -253,7 +253,7 @@ export async function listReadings(actor: Actor, sourceId: number, page: number,
   await sourceFor(actor, sourceId);
   const [rows, total] = await db().getRepository(SourceReading).findAndCount({ where: { sourceId }, order: { takenAt: 'DESC', id: 'DESC' }, skip: (page - 1) * pageSize, take: pageSize });
   const names = await readerNames(actor.user.organisationId, rows);
-  return { items: rows.map((r) => presentReading(r, names)), total, page, pageSize };
+  return { items: rows.map((r) => presentReading(r, names)), total, page, pageSize } satisfies ReadingPage;
 }
 
 // ---------- wards, feeds, therapy lines ----------
@@ -391,7 +391,7 @@ export async function deleteScenario(actor: Actor, id: number) {
 // ---------- scheduled deliveries ----------
 
 export function presentDelivery(d: ScheduledDelivery) {
-  return { id: d.id, sourceId: d.sourceId, dueAt: d.dueAt.toISOString(), kg: d.kg, cylinders: d.cylinders, status: d.status, reference: d.reference };
+  return { id: d.id, sourceId: d.sourceId, dueAt: d.dueAt.toISOString(), kg: d.kg, cylinders: d.cylinders, status: d.status, reference: d.reference } satisfies DeliveryView;
 }
 
 export async function listDeliveries(actor: Actor, sourceId: number) {

@@ -17,6 +17,7 @@ import { modelledLines, wardDemandLines, wardsFedBy } from '../forecast/forecast
 import { sourceFor } from '../supply/supply.service';
 import { getSiteFor } from '../sites/sites.service';
 import { siteReportsSince, type PresentedReport } from './usage.service';
+import type { SiteReconciliation, SourceReconciliation, SourceReconciliationDetail, WardReconciliation } from '@common/schemas/usage.schema';
 
 /**
  * Measured use against the demand model, per source and per ward.
@@ -78,7 +79,7 @@ function fullCylinderL(model: SiteModel, s: SupplySource): number | null {
 }
 
 /** Measured use of one source from its readings, against the model of the wards it feeds. */
-async function reconcileSource(model: SiteModel, s: SupplySource, since: Date) {
+async function reconcileSource(model: SiteModel, s: SupplySource, since: Date): Promise<SourceReconciliation> {
   const reference = model.site.referenceCode as ReferenceCode;
   const zone = model.site.timeZone;
   const lines = modelledLines(model, s);
@@ -112,7 +113,7 @@ async function reconcileSource(model: SiteModel, s: SupplySource, since: Date) {
     ratio: measured !== null && modelled > 0 ? measured / modelled : null,
     suggestedFactor: suggestCorrectionFactor(measured, modelled),
     acceptedFactor: s.modelCorrectionFactor,
-    forecastBasis: s.forecastBasis,
+    forecastBasis: s.forecastBasis as SourceReconciliation['forecastBasis'],
     dailyCv: coefficientOfVariation(days.map((d) => d.perDay)),
     demandCv: cv,
     readings: points.length,
@@ -122,7 +123,7 @@ async function reconcileSource(model: SiteModel, s: SupplySource, since: Date) {
     weekly: weeklyTotals(daily.map((d) => ({ date: d.date, amount: d.measuredL }))),
     wardsFed: wardsFedBy(model, s).map((w) => ({ id: w.id, name: w.name })),
     note,
-  };
+  } satisfies SourceReconciliation;
 }
 
 interface WardData {
@@ -132,7 +133,7 @@ interface WardData {
 }
 
 /** Measured use of one ward (oxygen): meters, historic usage, reported patients and cylinders, against its model. */
-function reconcileWard(model: SiteModel, w: Ward, data: WardData, fromDate: string, toDate: string) {
+function reconcileWard(model: SiteModel, w: Ward, data: WardData, fromDate: string, toDate: string): WardReconciliation {
   const zone = model.site.timeZone;
   const lines = wardDemandLines(model, w.id, 'O2');
   const modelled = meanPerDay(lines);
@@ -250,7 +251,7 @@ async function wardData(siteId: number, wardIds: number[], since: Date, fromDate
 }
 
 /** Reconciliation of a site over the last `days` days: every source with readings and every ward. */
-export async function siteReconciliation(actor: Actor, siteId: number, days: number) {
+export async function siteReconciliation(actor: Actor, siteId: number, days: number): Promise<SiteReconciliation> {
   await getSiteFor(actor, siteId);
   const [model] = await loadSiteModels([siteId], actor.user.organisationId);
   if (!model) throw notFound('Site');
@@ -281,7 +282,7 @@ export async function siteReconciliation(actor: Actor, siteId: number, days: num
 }
 
 /** One source's reconciliation with its history of accepted corrections. */
-export async function sourceReconciliation(actor: Actor, sourceId: number, days: number) {
+export async function sourceReconciliation(actor: Actor, sourceId: number, days: number): Promise<SourceReconciliationDetail> {
   const source = await sourceFor(actor, sourceId);
   const [model] = await loadSiteModels([source.siteId], actor.user.organisationId);
   if (!model) throw notFound('Supply source');

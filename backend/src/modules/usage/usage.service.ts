@@ -1,6 +1,7 @@
 import { In, MoreThanOrEqual, type EntityManager } from 'typeorm';
 import { DateTime } from 'luxon';
-import type { UsageCylinderLine, UsageDeviceLine, UsageReportCreate, UsageReportUpdate } from '@common/schemas/usage.schema';
+import type { UsageCylinderLine, UsageReportCreate, UsageReportUpdate } from '@common/schemas/usage.schema';
+import type { FiledReport, ReportScreenData, UsageEditRule, UsageReportDetail, UsageReportView, UsageStatus } from '@common/schemas/usage.schema';
 import { DEVICE_DEFAULTS, OXYGEN_DEVICES, type OxygenDevice } from '@common/forecast/demand-model';
 import { cylinderTypeName, nominalContents } from '@common/catalogue/cylinder-type';
 import { db } from '../../db/db';
@@ -21,19 +22,7 @@ import { assertMayWriteWard, maySeeWard, visibleWards } from '../supply/ward-acc
 
 // ---------- presenters ----------
 
-export interface PresentedReport {
-  id: number;
-  wardId: number;
-  siteId: number;
-  date: string;
-  devices: UsageDeviceLine[];
-  cylinders: UsageCylinderLine[];
-  note: string;
-  submittedAt: string;
-  submittedBy: string | null;
-  updatedAt: string;
-  updatedBy: string | null;
-}
+export type PresentedReport = UsageReportView;
 
 export function presentReport(r: UsageReport, lines: UsageReportLine[], names: Map<number, string> = new Map()): PresentedReport {
   const own = lines.filter((l) => l.reportId === r.id);
@@ -84,7 +73,7 @@ function isManager(actor: Actor): boolean {
 }
 
 /** Whether the actor may still change a filed report, and until when a ward lead may. */
-export function editRule(actor: Actor, r: UsageReport, now: Date = new Date()): { canEdit: boolean; editableUntil: string; reason: string | null } {
+export function editRule(actor: Actor, r: UsageReport, now: Date = new Date()): UsageEditRule {
   const until = new Date(r.submittedAt.getTime() + env().REPORT_EDIT_WINDOW_HOURS * 3_600_000);
   if (isManager(actor)) return { canEdit: true, editableUntil: until.toISOString(), reason: null };
   if (!actor.user.roles.includes('ward_lead')) return { canEdit: false, editableUntil: until.toISOString(), reason: 'Only ward leads and facilities managers file reports.' };
@@ -161,7 +150,7 @@ export async function openReport(actor: Actor, wardId: number, q: { date?: strin
       return { id: r.id, date: r.reportDate, patientsNow: p.devices.reduce((s, d) => s + d.patientsNow, 0), cylindersUsed: p.cylinders.reduce((s, c) => s + c.used, 0), submittedBy: p.submittedBy, submittedAt: p.submittedAt };
     }),
     editWindowHours: env().REPORT_EDIT_WINDOW_HOURS,
-  };
+  } satisfies ReportScreenData;
 }
 
 async function checkCylinderTypes(m: EntityManager, actor: Actor, cylinders: UsageCylinderLine[]) {
@@ -213,7 +202,7 @@ export async function createReport(actor: Actor, wardId: number, input: UsageRep
     await writeLines(m, saved.id, input);
     const after = await loadPresented(m, saved.id);
     await recordAudit(m, whoOf(actor), { action: 'create', entity: 'usage_report', entityId: String(saved.id), after: { ...after, wardName: ward.name } });
-    return { ...after, ...editRule(actor, saved) };
+    return { ...after, ...editRule(actor, saved) } satisfies FiledReport;
   });
 }
 
@@ -230,7 +219,7 @@ export async function updateReport(actor: Actor, id: number, input: UsageReportU
     await writeLines(m, id, input);
     const after = await loadPresented(m, id);
     await recordAudit(m, whoOf(actor), { action: 'update', entity: 'usage_report', entityId: String(id), before, after });
-    return { ...after, ...editRule(actor, await m.getRepository(UsageReport).findOneByOrFail({ id })) };
+    return { ...after, ...editRule(actor, await m.getRepository(UsageReport).findOneByOrFail({ id })) } satisfies FiledReport;
   });
 }
 
@@ -245,7 +234,7 @@ export async function getReport(actor: Actor, id: number) {
     ...editRule(actor, r),
     ward: presentWard(ward),
     history: history.map((h) => ({ at: h.at.toISOString(), action: h.action, userEmail: h.userEmail })),
-  };
+  } satisfies UsageReportDetail;
 }
 
 /** Which wards of a site have filed their report for a local date (default today). */
@@ -263,7 +252,7 @@ export async function usageStatus(actor: Actor, siteId: number, date?: string) {
       const r = reports.find((x) => x.wardId === w.id);
       return { wardId: w.id, name: w.name, department: w.department, reportId: r?.id ?? null, submittedAt: r?.submittedAt.toISOString() ?? null, submittedBy: r?.submittedByUserId ? (names.get(r.submittedByUserId) ?? null) : null };
     }),
-  };
+  } satisfies UsageStatus;
 }
 
 /** Reports of a site since a local date, with their lines (reconciliation and export). */

@@ -1,6 +1,6 @@
 import { In } from 'typeorm';
 import type { ListQuery, Page } from '@common/schemas/common.schema';
-import type { UserCreateInput, UserUpdateInput } from '@common/schemas/admin.schema';
+import type { UserCreateInput, UserRow, UserUpdateInput } from '@common/schemas/admin.schema';
 import type { UserWardsInput } from '@common/schemas/admin.schema';
 import type { Role } from '@common/api/roles';
 import { db } from '../../db/db';
@@ -14,16 +14,7 @@ import { recordAudit, whoOf } from '../audit/audit.service';
 import { hashPassword } from '../auth/auth.service';
 import type { EntityManager } from 'typeorm';
 
-export interface UserRow {
-  id: number;
-  email: string;
-  name: string;
-  active: boolean;
-  roles: Role[];
-  siteIds: number[];
-  locked: boolean;
-  createdAt: string;
-}
+export type { UserRow };
 
 async function present(m: EntityManager, users: User[]): Promise<UserRow[]> {
   if (users.length === 0) return [];

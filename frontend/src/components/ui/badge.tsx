@@ -1,4 +1,5 @@
 import type { ReactNode } from 'react';
+import { SOURCE_STATUS, type SourceStatus, type StatusTone } from '@common/forecast/status';
 import { variants, type VariantProps } from '@/lib/variants';
 import { Icon, type IconName } from './icons';
 
@@ -25,20 +26,13 @@ export function Badge({ tone, className, icon, children }: VariantProps<typeof b
   );
 }
 
+const STATUS_ICON: Record<StatusTone, IconName> = { critical: 'alert', warn: 'alert', watch: 'info', neutral: 'info', ok: 'check' };
+
 /** Supply status, always in words as well as colour (and a shape, for those who see no colour). */
-export type SupplyStatus = 'ok' | 'watch' | 'reorder' | 'critical';
-
-export const SUPPLY_STATUS: Record<SupplyStatus, { label: string; tone: Tone; icon: IconName; rank: number }> = {
-  critical: { label: 'Critical', tone: 'critical', icon: 'alert', rank: 0 },
-  reorder: { label: 'Reorder now', tone: 'warn', icon: 'alert', rank: 1 },
-  watch: { label: 'Watch', tone: 'watch', icon: 'info', rank: 2 },
-  ok: { label: 'OK', tone: 'ok', icon: 'check', rank: 3 },
-};
-
-export function StatusBadge({ status, className }: { status: SupplyStatus; className?: string }) {
-  const s = SUPPLY_STATUS[status] ?? SUPPLY_STATUS.watch;
+export function StatusBadge({ status, className }: { status: SourceStatus; className?: string }) {
+  const s = Object.hasOwn(SOURCE_STATUS, status) ? SOURCE_STATUS[status] : SOURCE_STATUS.unknown;
   return (
-    <Badge tone={s.tone} icon={s.icon} className={className}>
+    <Badge tone={s.tone} icon={STATUS_ICON[s.tone]} className={className}>
       {s.label}
     </Badge>
   );

@@ -1,18 +1,10 @@
 import { keepPreviousData, queryOptions } from '@tanstack/react-query';
 import type { Page } from '@common/schemas/common.schema';
+import type { AuditRow } from '@common/schemas/audit.schema';
 import { api } from '@/lib/api-client';
 import type { ListParams } from '@/lib/list-params';
 
-export interface AuditRow {
-  id: string;
-  at: string;
-  userEmail: string | null;
-  action: string;
-  entity: string;
-  entityId: string | null;
-  before: unknown;
-  after: unknown;
-}
+export type { AuditRow };
 
 export const auditQueries = {
   all: () => ['audit'] as const,

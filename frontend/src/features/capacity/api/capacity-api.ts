@@ -1,5 +1,6 @@
 import { keepPreviousData, queryOptions, useMutation, useQueryClient } from '@tanstack/react-query';
 import type {
+  CapacityQuery,
   CapacityReport,
   CapacityResponse,
   PipeRunInput,
@@ -15,12 +16,8 @@ import { api } from '@/lib/api-client';
 
 export type { CapacityReport, CapacityResponse, PipeRunRow, RuleSetRow, SignoffRow, ZoneRow };
 
-/** What-if inputs of the check; each left out takes its documented default on the server. */
-export interface CapacityWhatIf {
-  flowPerPatientLMin?: number;
-  vaporiserDerating?: number;
-  peakHoursPerDay?: number;
-}
+/** What-if inputs of the check (the query the server validates); each left out takes its documented default there. */
+export type CapacityWhatIf = Partial<CapacityQuery>;
 
 export const capacityQueries = {
   all: () => ['capacity'] as const,

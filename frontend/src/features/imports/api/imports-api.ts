@@ -1,54 +1,13 @@
 import { queryOptions, useMutation, useQueryClient } from '@tanstack/react-query';
-import type { ExportTable, ImportColumn, ImportKind, ImportRemap, ImportRowError, ImportStatus } from '@common/schemas/usage.schema';
+import type { ExportTable, ImportJobView, ImportKind, ImportKinds, ImportPreviewRow, ImportRemap, ImportStatus } from '@common/schemas/usage.schema';
+import type { SourceView, WardView } from '@common/schemas/supply.schema';
 import { api, apiUrl } from '@/lib/api-client';
 
-export interface ImportJob {
-  id: number;
-  siteId: number;
-  kind: ImportKind;
-  kindLabel: string;
-  status: ImportStatus;
-  phase: 'check' | 'import' | null;
-  file: { name: string; sizeBytes: number; sha256: string; lines: number } | null;
-  options: { sourceId: number | null; wardId: number | null; unit: string | null; headerUnit: string | null; dateOrder: 'ymd' | 'dmy' | 'mdy'; separator: ',' | ';' };
-  mapping: Record<string, string>;
-  columns: ImportColumn[];
-  header: string[];
-  sample: string[][];
-  totalRows: number | null;
-  processedRows: number;
-  insertedRows: number;
-  progress: number;
-  errorCount: number;
-  errors: ImportRowError[];
-  preview: { rows: { row: number; time: string; target?: string; reading: string; contents: string | null }[]; firstAt: string | null; lastAt: string | null; targets: { id: number; name: string; rows: number }[] } | null;
-  message: string;
-  cancelRequested: boolean;
-  canCommit: boolean;
-  canCancel: boolean;
-  canRemap: boolean;
-  createdAt: string;
-  startedAt: string | null;
-  finishedAt: string | null;
-}
-
-export interface ImportKinds {
-  maxMb: number;
-  kinds: { kind: ImportKind; label: string; columns: ImportColumn[] }[];
-}
+export type { ImportJobView as ImportJob, ImportKinds, ImportPreviewRow };
 
 /** The targets an upload can go to (the site's sources and wards, as this screen needs them). */
-export interface TargetSource {
-  id: number;
-  name: string;
-  type: string;
-  gasCode: string;
-  calibrationUnit: string | null;
-}
-export interface TargetWard {
-  id: number;
-  name: string;
-}
+export type TargetSource = Pick<SourceView, 'id' | 'name' | 'type' | 'gasCode' | 'calibrationUnit'>;
+export type TargetWard = Pick<WardView, 'id' | 'name'>;
 
 /** A job that the worker is still busy with: its screen polls. */
 export function isBusy(status: ImportStatus | undefined): boolean {
@@ -63,7 +22,7 @@ export const importsQueries = {
   list: (siteId: number) =>
     queryOptions({
       queryKey: [...importsQueries.all(), 'site', siteId] as const,
-      queryFn: ({ signal }) => api.get<ImportJob[]>(`/sites/${siteId}/imports`, { signal }),
+      queryFn: ({ signal }) => api.get<ImportJobView[]>(`/sites/${siteId}/imports`, { signal }),
       staleTime: 5_000,
       refetchInterval: (q) => (q.state.data?.some((j) => isBusy(j.status)) ? 2_000 : false),
     }),
@@ -71,7 +30,7 @@ export const importsQueries = {
   job: (id: number) =>
     queryOptions({
       queryKey: [...importsQueries.all(), 'job', id] as const,
-      queryFn: ({ signal }) => api.get<ImportJob>(`/imports/${id}`, { signal }),
+      queryFn: ({ signal }) => api.get<ImportJobView>(`/imports/${id}`, { signal }),
       staleTime: 1_000,
       refetchInterval: (q) => (isBusy(q.state.data?.status) ? 1_000 : false),
     }),
@@ -102,7 +61,7 @@ export function useUpload(siteId: number) {
       form.append('dateOrder', u.dateOrder);
       if (u.confirmDuplicate) form.append('confirmDuplicate', 'true');
       form.append('file', u.file, u.file.name);
-      return api.upload<ImportJob>(`/sites/${siteId}/imports`, form);
+      return api.upload<ImportJobView>(`/sites/${siteId}/imports`, form);
     },
     meta: { formHandlesErrors: true },
     onSuccess: (job) => {
@@ -112,7 +71,7 @@ export function useUpload(siteId: number) {
   });
 }
 
-function useJobMutation<V>(fn: (v: V) => Promise<ImportJob>) {
+function useJobMutation<V>(fn: (v: V) => Promise<ImportJobView>) {
   const qc = useQueryClient();
   return useMutation({
     mutationFn: fn,
@@ -124,9 +83,9 @@ function useJobMutation<V>(fn: (v: V) => Promise<ImportJob>) {
   });
 }
 
-export const useRemap = (id: number) => useJobMutation((body: ImportRemap) => api.put<ImportJob>(`/imports/${id}/mapping`, body));
-export const useCommit = (id: number) => useJobMutation((confirmDuplicate: boolean) => api.post<ImportJob>(`/imports/${id}/commit`, { confirmDuplicate }));
-export const useCancel = (id: number) => useJobMutation(() => api.post<ImportJob>(`/imports/${id}/cancel`, {}));
+export const useRemap = (id: number) => useJobMutation((body: ImportRemap) => api.put<ImportJobView>(`/imports/${id}/mapping`, body));
+export const useCommit = (id: number) => useJobMutation((confirmDuplicate: boolean) => api.post<ImportJobView>(`/imports/${id}/commit`, { confirmDuplicate }));
+export const useCancel = (id: number) => useJobMutation(() => api.post<ImportJobView>(`/imports/${id}/cancel`, {}));
 
 export const templateUrl = (siteId: number, kind: ImportKind) => apiUrl(`/sites/${siteId}/import-template`, { kind });
 export const exportUrl = (siteId: number, table: ExportTable) => apiUrl(`/sites/${siteId}/export`, { table });

@@ -1,35 +1,10 @@
 import { keepPreviousData, queryOptions } from '@tanstack/react-query';
 import type { Page } from '@common/schemas/common.schema';
+import type { MailAttachmentView, MailMessageView, MailSummary } from '@common/schemas/mail.schema';
 import { api, apiUrl } from '@/lib/api-client';
 import type { ListParams } from '@/lib/list-params';
 
-export interface MailSummary {
-  id: number;
-  receivedAt: string;
-  from: string;
-  to: string;
-  subject: string;
-  sizeBytes: number;
-  attachments: number;
-}
-
-export interface MailAttachment {
-  id: number;
-  filename: string;
-  contentType: string;
-  sizeBytes: number;
-}
-
-export interface MailMessage {
-  id: number;
-  receivedAt: string;
-  from: string;
-  to: string;
-  subject: string;
-  text: string | null;
-  html: string | null;
-  attachments: MailAttachment[];
-}
+export type { MailSummary, MailAttachmentView as MailAttachment, MailMessageView as MailMessage };
 
 export const mailQueries = {
   all: () => ['mail'] as const,
@@ -42,7 +17,7 @@ export const mailQueries = {
       placeholderData: keepPreviousData,
     }),
   /** A received message never changes. */
-  detail: (id: number) => queryOptions({ queryKey: [...mailQueries.all(), 'detail', id] as const, queryFn: ({ signal }) => api.get<MailMessage>(`/mail/${id}`, { signal }), staleTime: Infinity }),
+  detail: (id: number) => queryOptions({ queryKey: [...mailQueries.all(), 'detail', id] as const, queryFn: ({ signal }) => api.get<MailMessageView>(`/mail/${id}`, { signal }), staleTime: Infinity }),
 };
 
 /** A plain link downloads the file with the session cookie; no script touches its bytes. */

@@ -1,32 +1,10 @@
 import { keepPreviousData, queryOptions, useMutation, useQueryClient } from '@tanstack/react-query';
-import type { Page } from '@common/schemas/common.schema';
+import type { OutboxMessage, OutboxPage, OutboxStatus } from '@common/schemas/mail.schema';
 import { api } from '@/lib/api-client';
 
-export type OutboxStatus = 'pending' | 'sent' | 'failed';
+export type { OutboxMessage, OutboxPage, OutboxStatus };
 export type OutboxFilter = OutboxStatus | 'attention' | 'all';
 export const OUTBOX_FILTERS: readonly OutboxFilter[] = ['all', 'attention', 'pending', 'failed', 'sent'];
-
-export interface OutboxMessage {
-  id: number;
-  kind: 'purchase_order' | 'rejection' | 'alert' | 'digest';
-  to: string;
-  cc: string;
-  subject: string;
-  status: OutboxStatus;
-  attempts: number;
-  /** Failed, or still queued after several failed attempts. */
-  needsAttention: boolean;
-  nextAttemptAt: string;
-  lastError: string;
-  sentAt: string | null;
-  createdAt: string;
-  purchaseOrderId: number | null;
-  requestId: number | null;
-}
-
-export interface OutboxPage extends Page<OutboxMessage> {
-  counts: Record<OutboxStatus | 'attention', number>;
-}
 
 export interface OutboxListParams {
   status: OutboxFilter;

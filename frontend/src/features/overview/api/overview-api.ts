@@ -1,41 +1,9 @@
 import { queryOptions } from '@tanstack/react-query';
+import type { Overview, OverviewSite, OverviewSource } from '@common/schemas/forecast.schema';
 import { api } from '@/lib/api-client';
 
-export type SourceStatus = 'ok' | 'watch' | 'reorder' | 'critical';
-
-export interface OverviewSource {
-  id: number;
-  name: string;
-  type: 'bulk_liquid' | 'manifold' | 'cylinder_store';
-  gasCode: string;
-  unit: 'kg' | 'L';
-  contents: number;
-  capacity: number | null;
-  daysOfStock: number | null;
-  /** ISO instant, UTC. */
-  emptyAt: string | null;
-  reorderAt: string | null;
-  status: SourceStatus;
-  statusText: string;
-  firstRisk: { code: string; message: string } | null;
-  /** Daily contents over the next 14 days. */
-  trend: number[];
-  leadTimeHours: number | null;
-}
-
-export interface OverviewSite {
-  id: number;
-  name: string;
-  timeZone: string;
-  sources: OverviewSource[];
-}
-
-export interface Overview {
-  generatedAt: string;
-  /** The planning caution the forecast travels with. */
-  caution?: string;
-  sites: OverviewSite[];
-}
+export type { SourceStatus } from '@common/forecast/status';
+export type { Overview, OverviewSite, OverviewSource };
 
 export const overviewQueries = {
   all: () => ['overview'] as const,

@@ -3,7 +3,7 @@ import { useQuery } from '@tanstack/react-query';
 import { ApiError } from '@/lib/api-client';
 import { cn } from '@/lib/cn';
 import { formatDateTime, formatRelative } from '@/lib/format';
-import { SUPPLY_STATUS, type SupplyStatus } from '@/components/ui/badge';
+import { SOURCE_STATUS, SOURCE_STATUSES, type SourceStatus } from '@common/forecast/status';
 import { Button } from '@/components/ui/button';
 import { Card } from '@/components/ui/card';
 import { Select } from '@/components/ui/field';
@@ -13,10 +13,11 @@ import { overviewQueries } from '../api/overview-api';
 import { countByStatus, rankSources } from '../lib/rank-sources';
 import { SourceCard } from './source-card';
 
-const TILE: Record<SupplyStatus, string> = {
+const TILE: Record<SourceStatus, string> = {
   critical: 'bg-critical-soft text-critical border-critical/40',
   reorder: 'bg-warn-soft text-warn border-warn/40',
   watch: 'bg-watch-soft text-watch border-watch/40',
+  unknown: 'bg-surface-sunken text-fg border-line-strong',
   ok: 'bg-ok-soft text-ok border-ok/40',
 };
 
@@ -54,6 +55,8 @@ export function OverviewBoard() {
   const sites = overview.data.sites;
   const shown = siteId === 'all' ? ranked : ranked.filter((s) => s.siteId === siteId);
   const counts = countByStatus(shown);
+  // sources without a forecast get their own tile only while there are any
+  const tiles = SOURCE_STATUSES.filter((st) => st !== 'unknown' || counts.unknown > 0);
   if (ranked.length === 0) {
     return (
       <Card>
@@ -92,10 +95,10 @@ export function OverviewBoard() {
         {overview.data.caution ?? 'Planning estimate only: check against the site’s own records and the supplier’s figures; the site’s authorised person decides.'}
       </p>
 
-      <ul className="grid grid-cols-2 gap-2 sm:grid-cols-4" aria-label="Sources by status">
-        {(Object.keys(SUPPLY_STATUS) as SupplyStatus[]).map((st) => (
+      <ul className={cn('grid grid-cols-2 gap-2', tiles.length > 4 ? 'sm:grid-cols-5' : 'sm:grid-cols-4')} aria-label="Sources by status">
+        {tiles.map((st) => (
           <li key={st} className={cn('flex items-center justify-between gap-2 rounded-lg border px-3 py-2', counts[st] === 0 ? 'border-line bg-surface-sunken text-fg-muted' : TILE[st])}>
-            <span className="font-bold">{SUPPLY_STATUS[st].label}</span>
+            <span className="font-bold">{SOURCE_STATUS[st].label}</span>
             <span className="text-2xl font-black tabular">{counts[st]}</span>
           </li>
         ))}

@@ -11,14 +11,15 @@ import type { RankedSource } from '../lib/rank-sources';
 // the chart library is large: the cards show their figures at once and the lines follow
 const TrendSparkline = lazy(() => import('./trend-sparkline').then((m) => ({ default: m.TrendSparkline })));
 
-const TYPE_LABEL: Record<RankedSource['type'], string> = { bulk_liquid: 'Bulk liquid tank', manifold: 'Cylinder manifold', cylinder_store: 'Cylinder store' };
-const EDGE: Record<RankedSource['status'], string> = { critical: 'border-l-critical', reorder: 'border-l-warn', watch: 'border-l-watch', ok: 'border-l-ok' };
+const TYPE_LABEL: Record<RankedSource['type'], string> = { bulk_liquid: 'Bulk liquid tank', manifold: 'Cylinder manifold', cylinder_store: 'Cylinder store', emergency_reserve: 'Emergency reserve' };
+const EDGE: Record<RankedSource['status'], string> = { critical: 'border-l-critical', reorder: 'border-l-warn', watch: 'border-l-watch', unknown: 'border-l-line-strong', ok: 'border-l-ok' };
 
 function gasName(code: string): string {
   return isGasCode(code) ? GAS_INFO[code].name : code;
 }
 
 function ReorderLine({ s }: { s: RankedSource }) {
+  if (s.status === 'unknown') return <span className="text-fg-muted">No reorder date without a forecast</span>;
   if (!s.reorderAt) return <span className="text-fg-muted">No reorder due in the horizon</span>;
   const past = DateTime.fromISO(s.reorderAt) <= DateTime.now();
   return past ? (
@@ -31,7 +32,7 @@ function ReorderLine({ s }: { s: RankedSource }) {
 }
 
 export function SourceCard({ s, showSite }: { s: RankedSource; showSite: boolean }) {
-  const fill = s.capacity && s.capacity > 0 ? Math.max(0, Math.min(1, s.contents / s.capacity)) : null;
+  const fill = s.contents !== null && s.capacity && s.capacity > 0 ? Math.max(0, Math.min(1, s.contents / s.capacity)) : null;
   return (
     <article className={cn('relative flex flex-col gap-3 rounded-card border border-l-[6px] border-line bg-surface p-4 shadow-card', EDGE[s.status])} aria-labelledby={`source-${s.siteId}-${s.id}`}>
       <header className="flex flex-wrap items-start justify-between gap-2">
@@ -49,7 +50,12 @@ export function SourceCard({ s, showSite }: { s: RankedSource; showSite: boolean
 
       <div className="flex items-end justify-between gap-3">
         <div>
-          {s.daysOfStock === null ? (
+          {s.status === 'unknown' ? (
+            <>
+              <p className="text-xl font-black leading-tight">{s.statusText}</p>
+              <p className="text-sm text-fg-muted">no days of stock until it can be forecast</p>
+            </>
+          ) : s.daysOfStock === null ? (
             <>
               <p className="text-xl font-black leading-tight">Lasts the forecast</p>
               <p className="text-sm text-fg-muted">no run-out in the forecast horizon</p>
@@ -68,7 +74,7 @@ export function SourceCard({ s, showSite }: { s: RankedSource; showSite: boolean
         </div>
       </div>
 
-      <p className="text-sm font-bold">{s.statusText}</p>
+      {s.status === 'unknown' ? s.note && <p className="text-sm">{s.note}</p> : <p className="text-sm font-bold">{s.statusText}</p>}
 
       <dl className="grid gap-1 text-sm">
         <div className="flex gap-2">
@@ -80,7 +86,7 @@ export function SourceCard({ s, showSite }: { s: RankedSource; showSite: boolean
         <div className="flex flex-wrap gap-x-2">
           <dt className="text-fg-muted">Holds</dt>
           <dd className="tabular">
-            {formatNumber(s.contents)} {s.unit}
+            {s.contents === null ? 'no reading yet' : `${formatNumber(s.contents)} ${s.unit}`}
             {fill !== null && (
               <>
                 {' '}

@@ -7,6 +7,7 @@ const COLOUR: Record<SourceStatus, string> = {
   watch: 'var(--color-watch)',
   reorder: 'var(--color-warn)',
   critical: 'var(--color-critical)',
+  unknown: 'var(--color-line-strong)',
 };
 
 /** The next 14 days of contents as a small line; its text alternative says where it starts and ends. */

@@ -1,6 +1,7 @@
-import type { Overview, OverviewSource, SourceStatus } from '../api/overview-api';
+import { compareStatus } from '@common/forecast/status';
+import type { Overview, OverviewSource } from '../api/overview-api';
 
-const RANK: Record<SourceStatus, number> = { critical: 0, reorder: 1, watch: 2, ok: 3 };
+export { countByStatus } from '@common/forecast/status';
 
 export interface RankedSource extends OverviewSource {
   siteId: number;
@@ -17,12 +18,6 @@ export function rankSources(overview: Overview): RankedSource[] {
   const days = (s: RankedSource) => (typeof s.daysOfStock === 'number' && Number.isFinite(s.daysOfStock) ? s.daysOfStock : Infinity);
   const reorder = (s: RankedSource) => (s.reorderAt ? Date.parse(s.reorderAt) : Infinity);
   return all.sort(
-    (a, b) => (RANK[a.status] ?? 2) - (RANK[b.status] ?? 2) || days(a) - days(b) || reorder(a) - reorder(b) || a.name.localeCompare(b.name),
+    (a, b) => compareStatus(a.status, b.status) || days(a) - days(b) || reorder(a) - reorder(b) || a.name.localeCompare(b.name),
   );
-}
-
-export function countByStatus(sources: { status: SourceStatus }[]): Record<SourceStatus, number> {
-  const counts: Record<SourceStatus, number> = { critical: 0, reorder: 0, watch: 0, ok: 0 };
-  for (const s of sources) counts[s.status] = (counts[s.status] ?? 0) + 1;
-  return counts;
 }

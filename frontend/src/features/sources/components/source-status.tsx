@@ -1,12 +1,13 @@
 import { DateTime } from 'luxon';
 import { cn } from '@/lib/cn';
 import { formatDateTime, formatDays, formatKg, formatLitres, formatNumber, formatRelative } from '@/lib/format';
-import { Badge, StatusBadge, SUPPLY_STATUS } from '@/components/ui/badge';
+import { SOURCE_STATUS } from '@common/forecast/status';
+import { StatusBadge } from '@/components/ui/badge';
 import { Card } from '@/components/ui/card';
 import { Icon } from '@/components/ui/icons';
 import type { SourceDetail } from '../api/sources-api';
 
-const EDGE: Record<string, string> = { critical: 'border-l-critical', reorder: 'border-l-warn', watch: 'border-l-watch', ok: 'border-l-ok', unknown: 'border-l-line-strong' };
+const EDGE: Record<SourceDetail['outlook']['status'], string> = { critical: 'border-l-critical', reorder: 'border-l-warn', watch: 'border-l-watch', ok: 'border-l-ok', unknown: 'border-l-line-strong' };
 
 function Figure({ label, children, sub, className }: { label: string; children: React.ReactNode; sub?: React.ReactNode; className?: string }) {
   return (
@@ -28,20 +29,14 @@ export function SourceStatus({ detail }: { detail: SourceDetail }) {
   const fill = outlook.capacity && contents !== null ? contents / outlook.capacity : null;
   const ownLeadTime = source.leadTimeHours !== null;
   return (
-    <Card className={cn('border-l-[6px]', EDGE[outlook.status] ?? EDGE.unknown)} aria-labelledby="source-status">
+    <Card className={cn('border-l-[6px]', Object.hasOwn(EDGE, outlook.status) ? EDGE[outlook.status] : EDGE.unknown)} aria-labelledby="source-status">
       <div className="flex flex-col gap-4 px-4 py-4 sm:px-5">
         <div className="flex flex-wrap items-center gap-3">
           <h2 id="source-status" className="sr-only">
             Status
           </h2>
-          {outlook.status === 'unknown' ? (
-            <Badge tone="neutral" icon="info">
-              {outlook.statusText}
-            </Badge>
-          ) : (
-            <StatusBadge status={outlook.status} />
-          )}
-          {outlook.status !== 'unknown' && SUPPLY_STATUS[outlook.status]?.label !== outlook.statusText && <p className="font-bold">{outlook.statusText}</p>}
+          <StatusBadge status={outlook.status} />
+          {SOURCE_STATUS[outlook.status]?.label !== outlook.statusText && <p className="font-bold">{outlook.statusText}</p>}
         </div>
         {outlook.note && (
           <p className="flex items-start gap-2 rounded-lg bg-surface-sunken px-3 py-2 text-sm">

@@ -1,46 +1,8 @@
 import { queryOptions, useMutation, useQueryClient } from '@tanstack/react-query';
-import type { UsageCylinderLine, UsageDeviceLine, UsageReportCreate, UsageReportUpdate } from '@common/schemas/usage.schema';
+import type { FiledReport, ReportScreenData, UsageReportCreate, UsageReportUpdate, UsageStatus } from '@common/schemas/usage.schema';
 import { api } from '@/lib/api-client';
 
-export interface FiledReport {
-  id: number;
-  wardId: number;
-  siteId: number;
-  date: string;
-  devices: UsageDeviceLine[];
-  cylinders: UsageCylinderLine[];
-  note: string;
-  submittedAt: string;
-  submittedBy: string | null;
-  updatedAt: string;
-  updatedBy: string | null;
-  canEdit: boolean;
-  editableUntil: string;
-  reason: string | null;
-}
-
-export interface ReportScreenData {
-  ward: { id: number; siteId: number; name: string; department: string; beds: number };
-  site: { id: number; name: string; timeZone: string; referenceCode: string };
-  date: string;
-  today: string;
-  report: FiledReport | null;
-  draft: { date: string; devices: UsageDeviceLine[]; cylinders: UsageCylinderLine[]; note: string; prefilledFrom: string | null } | null;
-  previous: Omit<FiledReport, 'canEdit' | 'editableUntil' | 'reason'> | null;
-  canCreate: boolean;
-  createRule: string | null;
-  devices: { device: UsageDeviceLine['device']; label: string; flowLMin: number; modelPatients: number }[];
-  cylinderTypes: { id: number; gasCode: string; name: string; freeGasL: number | null }[];
-  recent: { id: number; date: string; patientsNow: number; cylindersUsed: number; submittedBy: string | null; submittedAt: string }[];
-  editWindowHours: number;
-}
-
-export interface UsageStatus {
-  site: { id: number; name: string; timeZone: string };
-  date: string;
-  reminderLocalTime: string;
-  wards: { wardId: number; name: string; department: string; reportId: number | null; submittedAt: string | null; submittedBy: string | null }[];
-}
+export type { FiledReport, ReportScreenData, UsageStatus };
 
 export const usageQueries = {
   all: () => ['usage'] as const,

@@ -1,17 +1,10 @@
 import { queryOptions, useMutation, useQueryClient } from '@tanstack/react-query';
 import type { ApprovalLimitInput } from '@common/schemas/orders.schema';
+import type { ApprovalLimitRow } from '@common/schemas/orders.schema';
 import { api } from '@/lib/api-client';
 import { usersQueries } from './users-api';
 
-export interface ApprovalLimitRow {
-  userId: number;
-  name: string;
-  email: string;
-  active: boolean;
-  /** Integer minor units; null: none set, so the officer cannot approve. */
-  limitMinor: number | null;
-  currency: string | null;
-}
+export type { ApprovalLimitRow };
 
 export const approvalLimitQueries = {
   all: () => [...usersQueries.all(), 'approval-limits'] as const,

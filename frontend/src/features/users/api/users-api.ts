@@ -1,21 +1,12 @@
 import { keepPreviousData, queryOptions, useMutation, useQueryClient } from '@tanstack/react-query';
-import type { Role } from '@common/api/roles';
 import type { Page } from '@common/schemas/common.schema';
 import type { UserCreateInput, UserUpdateInput } from '@common/schemas/admin.schema';
 import type { UserWardsInput } from '@common/schemas/admin.schema';
+import type { UserRow } from '@common/schemas/admin.schema';
 import { api } from '@/lib/api-client';
 import type { ListParams } from '@/lib/list-params';
 
-export interface UserRow {
-  id: number;
-  email: string;
-  name: string;
-  active: boolean;
-  roles: Role[];
-  siteIds: number[];
-  locked: boolean;
-  createdAt: string;
-}
+export type { UserRow };
 
 export const usersQueries = {
   all: () => ['users'] as const,

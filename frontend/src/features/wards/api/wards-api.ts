@@ -1,100 +1,24 @@
 import { queryOptions, useMutation, useQueryClient } from '@tanstack/react-query';
-import type { ScenarioInput, TherapyLineInput, WardInput } from '@common/schemas/supply.schema';
+import type { GasDemand, WardDetail, WardFeedView } from '@common/schemas/forecast.schema';
+import type { Department, DeviceFlowView, ScenarioInput, ScenarioView, SourceView, TherapyLineInput, TherapyLineView, WardInput, WardView } from '@common/schemas/supply.schema';
 import { api } from '@/lib/api-client';
 
-export type Department = WardInput['department'];
-
-export interface Ward {
-  id: number;
-  siteId: number;
-  name: string;
-  department: Department;
-  beds: number;
-  leakagePercent: number;
-  active: boolean;
-}
-
-export interface TherapyLine {
-  id: number;
-  gasCode: string;
-  device: TherapyLineInput['device'];
-  patients: number;
-  flowLMin: number | null;
-  hours: number[] | null;
-  weekdays: number[] | null;
-  label: string;
-}
-
-export interface Feed {
-  sourceId: number;
-  gasCode: string;
-  role: 'primary' | 'secondary' | 'reserve';
-  sourceName: string;
-}
-
-export interface Scenario {
-  id: number;
-  siteId: number;
-  name: string;
-  multiplier: number;
-  extraPatients: number;
-  extraFlowLMin: number;
-  wardId: number | null;
-  wardChange: 'open' | 'close' | null;
-  fromLocal: string;
-  untilLocal: string | null;
-  note: string;
-}
-
-export interface GasDemand {
-  gasCode: string;
-  modelledLPerDay: number;
-  measuredLPerDay: number | null;
-  suggestedFactor: number | null;
-  primarySource: { id: number; name: string } | null;
-  lines: { label: string; flowLMin: number; hours: number[] | null; weekdays: number[] | null }[];
-}
-
-export interface WardDetail {
-  ward: Ward;
-  site: { id: number; name: string; timeZone: string; referenceCode: string };
-  therapy: TherapyLine[];
-  feeds: Feed[];
-  perGas: GasDemand[];
-  scenarios: Scenario[];
-}
-
-export interface DeviceFlow {
-  device: TherapyLineInput['device'];
-  label: string;
-  defaultFlowLMin: number;
-  rangeLMin: [number, number];
-  source: string;
-  flowLMin: number;
-  edited: boolean;
-}
+export type { Department, GasDemand, WardDetail };
+export type { WardView as Ward, TherapyLineView as TherapyLine, WardFeedView as Feed, ScenarioView as Scenario, DeviceFlowView as DeviceFlow };
 
 /** A supply source as the feeds editor needs it (the route passes the site's sources in). */
-export interface SourceOption {
-  id: number;
-  name: string;
-  gasCode: string;
-  type: string;
-  active: boolean;
-  forecastBasis?: 'model' | 'measured' | 'scaled';
-  modelCorrectionFactor?: number;
-}
+export type SourceOption = Pick<SourceView, 'id' | 'name' | 'gasCode' | 'type' | 'active'> & Partial<Pick<SourceView, 'forecastBasis' | 'modelCorrectionFactor'>>;
 
 export const wardsQueries = {
   all: () => ['wards'] as const,
   /** Wards change when a facilities manager edits one: fresh for a minute. */
-  site: (siteId: number) => queryOptions({ queryKey: [...wardsQueries.all(), 'site', siteId] as const, queryFn: ({ signal }) => api.get<Ward[]>(`/sites/${siteId}/wards`, { signal }), staleTime: 60_000 }),
+  site: (siteId: number) => queryOptions({ queryKey: [...wardsQueries.all(), 'site', siteId] as const, queryFn: ({ signal }) => api.get<WardView[]>(`/sites/${siteId}/wards`, { signal }), staleTime: 60_000 }),
   /** A ward's measured use moves with every reading of its source: fresh for a minute. */
   detail: (id: number) => queryOptions({ queryKey: [...wardsQueries.all(), 'detail', id] as const, queryFn: ({ signal }) => api.get<WardDetail>(`/wards/${id}`, { signal }), staleTime: 60_000 }),
   scenarios: (siteId: number) =>
-    queryOptions({ queryKey: [...wardsQueries.all(), 'scenarios', siteId] as const, queryFn: ({ signal }) => api.get<Scenario[]>(`/sites/${siteId}/scenarios`, { signal }), staleTime: 60_000 }),
+    queryOptions({ queryKey: [...wardsQueries.all(), 'scenarios', siteId] as const, queryFn: ({ signal }) => api.get<ScenarioView[]>(`/sites/${siteId}/scenarios`, { signal }), staleTime: 60_000 }),
   /** The organisation's device flows change rarely: fresh for 10 minutes. */
-  deviceFlows: () => queryOptions({ queryKey: [...wardsQueries.all(), 'device-flows'] as const, queryFn: ({ signal }) => api.get<DeviceFlow[]>('/device-flows', { signal }), staleTime: 10 * 60_000 }),
+  deviceFlows: () => queryOptions({ queryKey: [...wardsQueries.all(), 'device-flows'] as const, queryFn: ({ signal }) => api.get<DeviceFlowView[]>('/device-flows', { signal }), staleTime: 10 * 60_000 }),
 };
 
 /**
@@ -114,19 +38,19 @@ function useWardsMutation<V, R>(fn: (v: V) => Promise<R>, onSaved?: () => void, 
 }
 
 export function useSaveWard(siteId: number, onSaved?: () => void) {
-  return useWardsMutation(({ id, body }: { id?: number; body: WardInput }) => (id ? api.put<Ward>(`/wards/${id}`, body) : api.post<Ward>(`/sites/${siteId}/wards`, body)), onSaved);
+  return useWardsMutation(({ id, body }: { id?: number; body: WardInput }) => (id ? api.put<WardView>(`/wards/${id}`, body) : api.post<WardView>(`/sites/${siteId}/wards`, body)), onSaved);
 }
 
 export function useSaveTherapy(wardId: number, onSaved?: () => void) {
-  return useWardsMutation((lines: TherapyLineInput[]) => api.put<TherapyLine[]>(`/wards/${wardId}/therapy`, { lines }), onSaved);
+  return useWardsMutation((lines: TherapyLineInput[]) => api.put<TherapyLineView[]>(`/wards/${wardId}/therapy`, { lines }), onSaved);
 }
 
 export function useSaveFeeds(wardId: number, onSaved?: () => void) {
-  return useWardsMutation((feeds: { sourceId: number; gasCode: string; role: Feed['role'] }[]) => api.put<unknown>(`/wards/${wardId}/feeds`, { feeds }), onSaved);
+  return useWardsMutation((feeds: { sourceId: number; gasCode: string; role: WardFeedView['role'] }[]) => api.put<unknown>(`/wards/${wardId}/feeds`, { feeds }), onSaved);
 }
 
 export function useSaveScenario(siteId: number, onSaved?: () => void) {
-  return useWardsMutation(({ id, body }: { id?: number; body: ScenarioInput }) => (id ? api.put<Scenario>(`/scenarios/${id}`, body) : api.post<Scenario>(`/sites/${siteId}/scenarios`, body)), onSaved);
+  return useWardsMutation(({ id, body }: { id?: number; body: ScenarioInput }) => (id ? api.put<ScenarioView>(`/scenarios/${id}`, body) : api.post<ScenarioView>(`/sites/${siteId}/scenarios`, body)), onSaved);
 }
 
 export function useDeleteScenario(onSaved?: () => void) {
@@ -134,7 +58,7 @@ export function useDeleteScenario(onSaved?: () => void) {
 }
 
 export function useSaveDeviceFlows(onSaved?: () => void) {
-  return useWardsMutation((flows: { device: DeviceFlow['device']; flowLMin: number }[]) => api.put<unknown>('/device-flows', { flows }), onSaved);
+  return useWardsMutation((flows: { device: DeviceFlowView['device']; flowLMin: number }[]) => api.put<unknown>('/device-flows', { flows }), onSaved);
 }
 
 /** Accept the measured/modelled ratio as the correction of the modelled demand of a source. */
