@@ -2,6 +2,7 @@
  * Command-line entry to the pure engines: `npm run --silent calc -- VERB`, one JSON value on stdin,
  * one JSON value on stdout. Bad input: exit 2 with {"error":{"code":"invalid_input",...}}.
  */
+import { hasKey } from '../common/src/api/lookup';
 import { calcVerbs } from '../common/src/calc/verbs';
 import { InvalidInputError, type ErrorBody } from '../common/src/api/errors';
 
@@ -19,7 +20,7 @@ async function readStdin(): Promise<string> {
 async function main(): Promise<void> {
   const verb = process.argv[2];
   const known = Object.keys(calcVerbs).sort();
-  if (!verb || !(verb in calcVerbs)) {
+  if (!verb || !hasKey(calcVerbs, verb)) {
     fail(
       {
         error: {

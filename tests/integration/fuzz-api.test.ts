@@ -5,7 +5,7 @@ import fc from 'fast-check';
 import type { Role } from '@common/api/roles';
 import { routeTable } from '@backend/routes';
 import type { RouteDef } from '@backend/http/route';
-import { ALL_ROLES, type Client, createTestOrg, signedIn, startTestApp, type TestApp, type TestOrg } from '../support/test-app';
+import { ALL_ROLES, Client, createTestOrg, PASSWORD, signedIn, startTestApp, type TestApp, type TestOrg } from '../support/test-app';
 import { idFixtures, type IdFixtures } from '../support/fixtures';
 
 /**
@@ -17,8 +17,14 @@ import { idFixtures, type IdFixtures } from '../support/fixtures';
  * shared request schemas with wrong, extreme or plausible values, so they get past the first checks.
  * Bounded: BODIES_PER_ROUTE bodies per route, fixed seed (a failure names the body and can be replayed);
  * FUZZ_BODIES and FUZZ_SEED widen the search by hand.
+ *
+ * Then random query strings and path segments against every route (GET routes get both; other routes
+ * with a `:param` get random segments and an empty body): never a 500, a clear 4xx. After each route's
+ * batch the same process must still sign a user in and serve a read: a request that corrupts shared
+ * state (a polluted prototype) fails here even when it answered politely itself. FUZZ_QUERIES widens it.
  */
 const BODIES_PER_ROUTE = Number(process.env.FUZZ_BODIES ?? 15);
+const QUERIES_PER_ROUTE = Number(process.env.FUZZ_QUERIES ?? 12);
 const SEED = Number(process.env.FUZZ_SEED ?? 4242);
 /** Refusals a client can act on; anything else (a 500, a 403 from a role that may call the route) fails. */
 const CLEAR_REFUSALS = [400, 404, 409, 413, 415, 422, 423];
@@ -91,6 +97,48 @@ const bodyArb = (routeKeys: string[]) => {
     { weight: 1, arbitrary: fc.constantFrom('{"a":', '[]', 'null', '"text"', '42', '{}') },
   );
 };
+
+// ---- query strings and path segments ----------------------------------------------------------------
+
+/** Names every plain object answers through its prototype. */
+const PROTOTYPE_NAMES = ['__proto__', 'constructor', 'prototype', 'toString', 'hasOwnProperty', 'valueOf'];
+/** Query keys of the list and report routes (tried most), then every field name of the shared schemas. */
+const QUERY_KEYS = ['sort', 'dir', 'q', 'page', 'pageSize', 'siteId', 'entity', 'scenario', 'kind', 'status', 'from', 'to', 'table', 'date', 'days', 'draws', 'horizonDays', 'download'];
+
+const oddText = () =>
+  fc.oneof(
+    fc.string({ maxLength: 20 }),
+    fc.constantFrom(...PROTOTYPE_NAMES),
+    fc.constantFrom(...PROTOTYPE_NAMES),
+    fc.constantFrom(...WORDS),
+    fc.integer({ min: -5, max: 5000 }).map(String),
+    fc.constantFrom('', ' ', '0', '-1', '1.5', '1e3', '2147483648', '99999999999999999999', 'NaN', 'Infinity', 'null', 'true', '[]', '{}', '..', '.', '%', '%zz', '\u0000', '😀', 'x'.repeat(300), '2027-01-04', '2027-13-45', "'; DROP TABLE site; --", '<script>'),
+  );
+
+/** A query string: mostly one odd value on a list key (what the handler then looks up), else a few pairs of
+ * known keys, schema field names, prototype names or random keys (some with bracket suffixes). */
+const LIST_KEYS = ['sort', 'dir', 'q', 'page', 'pageSize'];
+const queryArb = () => {
+  const key = fc.oneof({ weight: 6, arbitrary: fc.constantFrom(...LIST_KEYS) }, { weight: 3, arbitrary: fc.constantFrom(...QUERY_KEYS) }, { weight: 2, arbitrary: fc.constantFrom(...FIELD_NAMES) }, { weight: 1, arbitrary: fc.constantFrom(...PROTOTYPE_NAMES) }, { weight: 1, arbitrary: fc.string({ maxLength: 8 }) });
+  const pair = fc.tuple(key, fc.constantFrom('', '', '', '', '[]', '[__proto__]', '[x]'), oddText());
+  return fc
+    .oneof({ weight: 2, arbitrary: pair.map((p) => [p]) }, { weight: 2, arbitrary: fc.array(pair, { maxLength: 5 }) })
+    .map((pairs) => (pairs.length ? `?${pairs.map(([k, suffix, v]) => `${encodeURIComponent(k)}${suffix}=${v === '%zz' ? v : encodeURIComponent(v)}`).join('&')}` : ''));
+};
+
+/** One path segment: often the fixture's id (so the handler runs), otherwise something odd. */
+const segmentArb = (fixture: string) => fc.oneof({ weight: 2, arbitrary: fc.constant(fixture) }, { weight: 3, arbitrary: oddText().map((t) => (t === '%zz' || t === '%' ? t : encodeURIComponent(t))) });
+
+/** Sign-in and a read in a fresh session: the process still serves after a batch of odd requests. */
+async function expectStillServes(after: string): Promise<void> {
+  const c = new Client(app.baseUrl);
+  const login = await c.login(org.users.administrator, PASSWORD);
+  expect(login.status, `sign-in after ${after}: ${JSON.stringify(login.body).slice(0, 300)}`).toBe(200);
+  for (const path of ['/api/auth/me', '/api/sites', '/api/users']) {
+    const res = await c.get(path);
+    expect(res.status, `GET ${path} after ${after}: ${JSON.stringify(res.body).slice(0, 300)}`).toBe(200);
+  }
+}
 
 // ---- helpers ---------------------------------------------------------------------------------------
 
@@ -166,6 +214,45 @@ describe('random JSON bodies on every write route', () => {
         }),
         { numRuns: BODIES_PER_ROUTE, seed: SEED, endOnFailure: true },
       );
+      await expectStillServes(`random bodies on ${route.method.toUpperCase()} ${route.path}`);
+    }, 120_000);
+  }
+});
+
+// Routes whose address or query string can be fuzzed: every GET, and every other route with a parameter
+// (sign-out and uploads have their own tests). Writes run last, as above.
+const addressRoutes = routeTable()
+  .filter((r) => r.method === 'get' || (/:\w+/.test(r.path) && r.path !== '/api/auth/logout' && !r.path.endsWith('/imports')))
+  .sort((a, b) => Number(a.method !== 'get') - Number(b.method !== 'get'));
+
+describe('random query strings and path segments on every route', () => {
+  it('has routes to try', () => {
+    expect(addressRoutes.filter((r) => r.method === 'get').length).toBeGreaterThan(30);
+  });
+
+  for (const route of addressRoutes) {
+    it(`${route.method.toUpperCase()} ${route.path}: no 500 for odd addresses, and the process still serves`, async () => {
+      const client = clientFor(route);
+      const params = [...route.path.matchAll(/:(\w+)/g)].map((m) => m[1]);
+      const fixtures = concretePath(route).split('/');
+      const template = route.path.split('/');
+      const segments = fc.tuple(...template.map((part, i) => (part.startsWith(':') ? segmentArb(fixtures[i]) : fc.constant(part))));
+      const query = route.method === 'get' ? queryArb() : fc.constant('');
+      await fc.assert(
+        fc.asyncProperty(segments, query, async (parts, q) => {
+          const path = parts.join('/') + q;
+          const res = await client.request(route.method.toUpperCase(), path, route.method === 'get' ? undefined : '{}');
+          const shown = `${route.method.toUpperCase()} ${path} → ${res.status} ${JSON.stringify(res.body).slice(0, 300)}`;
+          expect(res.status, shown).toBeLessThan(500);
+          if (res.status >= 300) {
+            expect(CLEAR_REFUSALS, shown).toContain(res.status);
+            expect(typeof res.body?.error?.code, shown).toBe('string');
+            expect(JSON.stringify(res.body), shown).not.toMatch(/at .*\.ts:\d+|QueryFailedError|ER_\w+|sqlMessage/);
+          }
+        }),
+        { numRuns: params.length || route.method === 'get' ? QUERIES_PER_ROUTE : 1, seed: SEED, endOnFailure: true },
+      );
+      await expectStillServes(`odd addresses on ${route.method.toUpperCase()} ${route.path}`);
     }, 120_000);
   }
 });

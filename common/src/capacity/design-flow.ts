@@ -2,6 +2,7 @@
  * Diversified design flow of pipeline zones from terminal-unit counts, department types and a
  * diversity rule set (data, see diversity-rules.ts).
  */
+import { hasKey, lookup } from '../api/lookup';
 import { InvalidInputError } from '../api/errors';
 import {
   DEFAULT_RULE_SETS,
@@ -123,7 +124,7 @@ export function getRuleSet(id: string): DiversityRuleSet {
  * @param ruleSet a validated rule set
  */
 export function computeDesignFlow(gas: CapacityGasCode, zones: ZoneInput[], ruleSet: DiversityRuleSet): DesignFlowResult {
-  const gasRules = ruleSet.gases[gas];
+  const gasRules = lookup(ruleSet.gases, gas);
   if (!gasRules) {
     const why = ruleSet.missing?.[gas] ?? `Rule set "${ruleSet.id}" has no diversity rules for ${gas}: supply an explicit rule.`;
     throw new InvalidInputError(why, [{ path: 'gas', message: `no rules for ${gas} in rule set "${ruleSet.id}"` }]);
@@ -132,7 +133,7 @@ export function computeDesignFlow(gas: CapacityGasCode, zones: ZoneInput[], rule
     throw new InvalidInputError('Give at least one zone', [{ path: 'zones', message: 'expected at least one zone' }]);
   }
   const problems = zones.flatMap((z, i) =>
-    gasRules.departments[z.department]
+    hasKey(gasRules.departments, z.department) && gasRules.departments[z.department]
       ? []
       : [
           {

@@ -10,6 +10,7 @@
  * purpose: the design-flow calculation then refuses and asks for an explicit rule rather than
  * inventing one.
  */
+import { lookup } from '../api/lookup';
 import { z } from 'zod';
 import { InvalidInputError } from '../api/errors';
 
@@ -405,7 +406,7 @@ export const DEFAULT_RULE_SETS: Record<string, DiversityRuleSet> = Object.fromEn
 
 /** A deep copy of a shipped rule set, as a starting point for an organisation's own edits. */
 export function copyRuleSet(id: string, newId: string): DiversityRuleSet {
-  const base = DEFAULT_RULE_SETS[id];
+  const base = lookup(DEFAULT_RULE_SETS, id);
   if (!base) throw new InvalidInputError(`Unknown rule set "${id}"`, [{ path: 'rule_set', message: `known: ${Object.keys(DEFAULT_RULE_SETS).join(', ')}` }]);
   return { ...structuredClone(base), id: newId };
 }

@@ -3,6 +3,7 @@
  * (solved iteratively) or the explicit Swamee–Jain (1976) approximation. Pure: densities and
  * viscosity come in as numbers (pipe-run.ts fetches them from the gas engine).
  */
+import { hasKey } from '../api/lookup';
 import { InvalidInputError, type FieldIssue } from '../api/errors';
 
 /** A nominal copper tube: outside diameter × wall thickness, mm. */
@@ -95,8 +96,8 @@ export function computeWilkeViscosityPaS(moleFractions: Partial<Record<PureVisco
 
 /** Dynamic viscosity near 20 °C of any pipeline gas the engine knows, Pa·s. */
 export function lookupViscosityPaS(gas: string): number {
-  if (gas in PURE_GAS_VISCOSITY) return PURE_GAS_VISCOSITY[gas as PureViscosityGas].viscosityPaS;
-  if (gas in MIXTURE_MOLE_FRACTIONS) return computeWilkeViscosityPaS(MIXTURE_MOLE_FRACTIONS[gas as keyof typeof MIXTURE_MOLE_FRACTIONS]);
+  if (hasKey(PURE_GAS_VISCOSITY, gas)) return PURE_GAS_VISCOSITY[gas as PureViscosityGas].viscosityPaS;
+  if (hasKey(MIXTURE_MOLE_FRACTIONS, gas)) return computeWilkeViscosityPaS(MIXTURE_MOLE_FRACTIONS[gas as keyof typeof MIXTURE_MOLE_FRACTIONS]);
   throw new InvalidInputError(`No viscosity is known for "${gas}"; give viscosity_Pa_s`, [{ path: 'gas', message: 'no viscosity for this gas' }]);
 }
 

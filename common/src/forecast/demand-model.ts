@@ -1,3 +1,4 @@
+import { hasKey } from '../api/lookup';
 import { InvalidInputError, type FieldIssue } from '../api/errors';
 import type { DemandLine } from './demand-lines';
 
@@ -97,7 +98,7 @@ export function buildDemandLinesFromTherapy(therapy: readonly TherapyLine[], opt
   therapy.forEach((t, k) => {
     if (!(Number.isFinite(t.patients) && t.patients >= 0)) issues.push({ path: `therapy.${k}.patients`, message: 'must be a number ≥ 0' });
     if (t.device === 'custom' && t.flow_L_min === undefined) issues.push({ path: `therapy.${k}.flow_L_min`, message: 'a custom line needs its flow' });
-    else if (t.device !== 'custom' && !(t.device in DEVICE_DEFAULTS)) issues.push({ path: `therapy.${k}.device`, message: `unknown device; one of ${OXYGEN_DEVICES.join(', ')}, custom` });
+    else if (t.device !== 'custom' && !hasKey(DEVICE_DEFAULTS, t.device)) issues.push({ path: `therapy.${k}.device`, message: `unknown device; one of ${OXYGEN_DEVICES.join(', ')}, custom` });
     if (t.flow_L_min !== undefined && !(Number.isFinite(t.flow_L_min) && t.flow_L_min >= 0)) issues.push({ path: `therapy.${k}.flow_L_min`, message: 'must be ≥ 0 L/min' });
   });
   if (issues.length > 0) throw new InvalidInputError(`Invalid demand model: ${issues[0].path}: ${issues[0].message}`, issues);

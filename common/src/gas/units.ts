@@ -1,3 +1,4 @@
+import { hasKey } from '../api/lookup';
 import { requireFinite, requirePositive, fail } from './validate-input';
 
 /**
@@ -97,8 +98,8 @@ const LITRES_PER_VOLUME_UNIT: Record<VolumeUnit, number> = { L: 1, m3: LITRES_PE
 /** Converts a volume between L, m³ and ft³ (same reference conditions on both sides). */
 export function convertVolume(value: number, from: VolumeUnit, to: VolumeUnit): number {
   requireFinite('value', value, 'Volume');
-  if (!(from in LITRES_PER_VOLUME_UNIT)) fail('from', `unknown volume unit "${String(from)}"`);
-  if (!(to in LITRES_PER_VOLUME_UNIT)) fail('to', `unknown volume unit "${String(to)}"`);
+  if (!hasKey(LITRES_PER_VOLUME_UNIT, from)) fail('from', `unknown volume unit "${String(from)}"`);
+  if (!hasKey(LITRES_PER_VOLUME_UNIT, to)) fail('to', `unknown volume unit "${String(to)}"`);
   return (value * LITRES_PER_VOLUME_UNIT[from]) / LITRES_PER_VOLUME_UNIT[to];
 }
 

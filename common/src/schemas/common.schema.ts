@@ -10,6 +10,25 @@ export const listQuerySchema = z.object({
 });
 export type ListQuery = z.infer<typeof listQuerySchema>;
 
+/**
+ * The list query of one list whose server sorts by exactly `sortKeys`: an unknown key (a prototype name
+ * such as `__proto__` among them) is a 400 naming the keys, never a look-up that finds something else.
+ */
+export function listQuerySchemaWith<const K extends readonly [string, ...string[]]>(sortKeys: K) {
+  return listQuerySchema.extend({ sort: z.enum(sortKeys, { error: `sort by one of ${sortKeys.join(', ')}` }).optional() });
+}
+
+/** The columns each server-sorted list sorts by (the front end's sortable column ids are the same). */
+export const USER_SORT_KEYS = ['name', 'email', 'createdAt'] as const;
+export const AUDIT_SORT_KEYS = ['at', 'action', 'entity', 'userEmail'] as const;
+export const MAIL_SORT_KEYS = ['receivedAt', 'subject', 'to', 'from'] as const;
+export const userListQuerySchema = listQuerySchemaWith(USER_SORT_KEYS);
+export const auditListQuerySchema = listQuerySchemaWith(AUDIT_SORT_KEYS).extend({ entity: z.string().max(64).optional() });
+export const mailListQuerySchema = listQuerySchemaWith(MAIL_SORT_KEYS);
+export type UserListQuery = z.infer<typeof userListQuerySchema>;
+export type AuditListQuery = z.infer<typeof auditListQuerySchema>;
+export type MailListQuery = z.infer<typeof mailListQuerySchema>;
+
 export interface Page<T> {
   items: T[];
   total: number;

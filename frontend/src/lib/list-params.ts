@@ -15,14 +15,16 @@ export interface ListParams {
   [extra: string]: string | number | undefined;
 }
 
-export function parseListParams(search: URLSearchParams, defaults: { pageSize?: number; sort?: string; dir?: 'asc' | 'desc' } = {}, extras: readonly string[] = []): ListParams {
+/** `sortKeys`: the keys the list's server sorts by (shared schema); another `sort` in the address is dropped. */
+export function parseListParams(search: URLSearchParams, defaults: { pageSize?: number; sort?: string; dir?: 'asc' | 'desc'; sortKeys?: readonly string[] } = {}, extras: readonly string[] = []): ListParams {
   const page = Math.max(1, Math.floor(Number(search.get('page')) || 1));
   const pageSize = Math.min(200, Math.max(5, Math.floor(Number(search.get('pageSize')) || defaults.pageSize || 25)));
   const dirRaw = search.get('dir');
+  const sortRaw = search.get('sort');
   const params: ListParams = {
     page,
     pageSize,
-    sort: search.get('sort') || defaults.sort,
+    sort: sortRaw && (!defaults.sortKeys || defaults.sortKeys.includes(sortRaw)) ? sortRaw : defaults.sort,
     dir: dirRaw === 'asc' || dirRaw === 'desc' ? dirRaw : (defaults.dir ?? 'asc'),
     q: search.get('q') || undefined,
   };

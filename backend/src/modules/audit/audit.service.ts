@@ -1,5 +1,5 @@
 import type { EntityManager } from 'typeorm';
-import type { ListQuery, Page } from '@common/schemas/common.schema';
+import type { AuditListQuery, Page } from '@common/schemas/common.schema';
 import { AuditLog } from '../../db/entities/audit-log.entity';
 import { db } from '../../db/db';
 import type { Actor } from '../../http/context';
@@ -49,14 +49,14 @@ export async function recordAudit(manager: EntityManager, who: AuditWho, what: A
 
 export type { AuditRow };
 
-const SORTABLE: Record<string, string> = { at: 'a.at', action: 'a.action', entity: 'a.entity', userEmail: 'a.user_email' };
+const SORTABLE = new Map<AuditListQuery['sort'], string>([['at', 'a.at'], ['action', 'a.action'], ['entity', 'a.entity'], ['userEmail', 'a.user_email']]);
 
 /** The organisation's audit log, newest first by default, filtered by entity, action or e-mail. */
-export async function listAudit(organisationId: number, q: ListQuery & { entity?: string }): Promise<Page<AuditRow>> {
+export async function listAudit(organisationId: number, q: AuditListQuery): Promise<Page<AuditRow>> {
   const qb = db().getRepository(AuditLog).createQueryBuilder('a').where('a.organisation_id = :org', { org: organisationId });
   if (q.entity) qb.andWhere('a.entity = :entity', { entity: q.entity });
   if (q.q) qb.andWhere('(a.user_email LIKE :q OR a.entity LIKE :q OR a.action LIKE :q OR a.entity_id = :exact)', { q: `%${q.q}%`, exact: q.q });
-  const sortCol = SORTABLE[q.sort ?? 'at'] ?? 'a.at';
+  const sortCol = SORTABLE.get(q.sort ?? 'at') ?? 'a.at';
   const dir = q.sort ? (q.dir === 'desc' ? 'DESC' : 'ASC') : 'DESC';
   qb.orderBy(sortCol, dir).addOrderBy('a.id', 'DESC').skip((q.page - 1) * q.pageSize).take(q.pageSize);
   const [rows, total] = await qb.getManyAndCount();

@@ -1,3 +1,4 @@
+import { lookup } from '@common/api/lookup';
 import { createHash } from 'node:crypto';
 import { In, type EntityManager } from 'typeorm';
 import { copyRuleSet } from '@common/capacity/diversity-rules';
@@ -396,7 +397,7 @@ async function loadCapacityInput(actor: Actor, site: Site, options: CapacityQuer
 
   const zoneData: ZoneData[] = zones.map((z) => {
     const own = z.ruleSetId !== null ? ownSets.find((r) => r.id === z.ruleSetId) : undefined;
-    const builtin = DEFAULT_RULE_SETS[z.builtinRuleSet] ?? DEFAULT_RULE_SETS.default;
+    const builtin = lookup(DEFAULT_RULE_SETS, z.builtinRuleSet) ?? DEFAULT_RULE_SETS.default;
     const ruleSet = own ? (JSON.parse(own.json) as DiversityRuleSet) : builtin;
     return {
       id: z.id,

@@ -4,6 +4,7 @@
  * and weekly cylinders; the 4-hour and average-day reserve rules; surge headroom. Pure: it takes the
  * site's records as plain data and returns the report (the service loads and stores).
  */
+import { lookup } from '@common/api/lookup';
 import { InvalidInputError } from '@common/api/errors';
 import { computeDesignFlow, computeZoneDesignFlow, type ZoneFlow } from '@common/capacity/design-flow';
 import { UNVERIFIED_WARNING, type CapacityGasCode, type Department, type DiversityRuleSet, type RuleSource } from '@common/capacity/diversity-rules';
@@ -115,8 +116,8 @@ function zoneFlowOf(z: ZoneData): ZoneFlowResult {
     );
     return { zone: z, flow, warning: null, refused: null };
   }
-  const gasRules = z.ruleSet.gases[z.gasCode];
-  const rule = gasRules?.departments[z.department];
+  const gasRules = lookup(z.ruleSet.gases, z.gasCode);
+  const rule = gasRules ? lookup(gasRules.departments, z.department) : undefined;
   if (!gasRules || !rule) {
     const why = !gasRules
       ? (z.ruleSet.missing?.[z.gasCode] ?? `Rule set "${z.ruleSetLabel.name}" has no diversity rules for ${z.gasCode}.`)

@@ -1,3 +1,4 @@
+import { hasKey } from '@common/api/lookup';
 import { DateTime } from 'luxon';
 import { forecastInputSchema, type ForecastInput } from '@common/forecast/forecast-input.schema';
 import { forecastSource, FORECAST_CAUTION, type SourceForecast } from '@common/forecast/forecast-source';
@@ -76,7 +77,7 @@ export function wardDemandLines(model: SiteModel, wardId: number, gas: string): 
   const therapy: TherapyLine[] = model.therapy
     .filter((t) => t.wardId === wardId && t.gasCode === gas)
     .map((t) => {
-      const known = t.device in DEVICE_DEFAULTS;
+      const known = hasKey(DEVICE_DEFAULTS, t.device);
       const flow = t.flowLMin ?? model.deviceFlows.get(t.device) ?? (known ? DEVICE_DEFAULTS[t.device as OxygenDevice].flowLMin : 0);
       return {
         device: 'custom' as const,

@@ -1,8 +1,14 @@
 import type { RouteDef } from '../../http/route';
 import { db } from '../../db/db';
+import { Organisation } from '../../db/entities/organisation.entity';
 import { mailStatus } from '../../mail/mailer';
 
-/** GET /api/health: database and mail status; 503 while the database is unreachable. */
+/**
+ * GET /api/health: database and mail status; 503 while the database is unreachable or the app cannot
+ * read through its data layer. Besides `SELECT 1` it reads one row through a TypeORM repository, the
+ * path every screen takes: a process whose shared objects were corrupted (a polluted prototype makes
+ * every `find` throw) answers the database but serves nothing, and must not report ok.
+ */
 export function healthRoutes(): RouteDef[] {
   return [
     {
@@ -14,7 +20,12 @@ export function healthRoutes(): RouteDef[] {
         let database: { ok: boolean; latencyMs?: number; message?: string };
         try {
           await db().query('SELECT 1');
-          database = { ok: true, latencyMs: Date.now() - started };
+          try {
+            await readThroughRepository();
+            database = { ok: true, latencyMs: Date.now() - started };
+          } catch (e) {
+            database = { ok: false, message: `the database answers, but the app cannot read through its data layer: ${(e as Error).message}` };
+          }
         } catch (e) {
           database = { ok: false, message: (e as Error).message };
         }
@@ -25,4 +36,9 @@ export function healthRoutes(): RouteDef[] {
       },
     },
   ];
+}
+
+/** One small read the way services read (repository, find options, order): throws if that path is broken. */
+async function readThroughRepository(): Promise<void> {
+  await db().getRepository(Organisation).find({ select: { id: true }, order: { id: 'ASC' }, take: 1 });
 }

@@ -1,3 +1,4 @@
+import { lookup } from '@common/api/lookup';
 import { IMPORT_COLUMNS, type ImportKind, type ImportRowError } from '@common/schemas/usage.schema';
 import { GAS_CODES_CATALOGUE } from '@common/schemas/admin.schema';
 import { resolveLocalTimeUtcMs } from '@common/forecast/hour-index';
@@ -345,11 +346,11 @@ const unitKey = (u: string) => u.trim().toLowerCase().replace(/³/g, '3').replac
 export function tankUnitKind(unit: string, source: SupplySource | null): ReadingInput['kind'] | null {
   const k = unitKey(unit);
   if (source?.calibrationUnit && k === unitKey(source.calibrationUnit)) return 'calibration';
-  return TANK_UNITS[k] ?? null;
+  return lookup(TANK_UNITS, k) ?? null; // a unit cell of "constructor" is no unit
 }
 
 export function volumeUnitFactor(unit: string): number | null {
-  return VOLUME_UNITS[unitKey(unit)] ?? null;
+  return lookup(VOLUME_UNITS, unitKey(unit)) ?? null;
 }
 
 export function unitsAccepted(kind: ImportKind, source: SupplySource | null): string {

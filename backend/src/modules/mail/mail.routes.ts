@@ -1,5 +1,5 @@
 import { z } from 'zod';
-import { idParamSchema, listQuerySchema } from '@common/schemas/common.schema';
+import { idParamSchema, mailListQuerySchema } from '@common/schemas/common.schema';
 import type { Page } from '@common/schemas/common.schema';
 import type { MailMessageView, MailSummary } from '@common/schemas/mail.schema';
 import type { RouteDef } from '../../http/route';
@@ -19,11 +19,11 @@ export function mailRoutes(): RouteDef[] {
       path: '/api/mail',
       access: ['administrator'],
       handler: async (req) => {
-        const q = validate(listQuerySchema, req.query, 'query');
+        const q = validate(mailListQuerySchema, req.query, 'query');
         const qb = db().getRepository(MailMessage).createQueryBuilder('m').select(['m.id', 'm.receivedAt', 'm.mailFrom', 'm.mailTo', 'm.subject', 'm.sizeBytes']);
         if (q.q) qb.where('(m.subject LIKE :q OR m.mail_to LIKE :q OR m.mail_from LIKE :q)', { q: `%${q.q}%` });
-        const sortable: Record<string, string> = { receivedAt: 'm.received_at', subject: 'm.subject', to: 'm.mail_to', from: 'm.mail_from' };
-        const col = q.sort ? sortable[q.sort] : undefined;
+        const sortable = new Map<typeof q.sort, string>([['receivedAt', 'm.received_at'], ['subject', 'm.subject'], ['to', 'm.mail_to'], ['from', 'm.mail_from']]);
+        const col = q.sort ? sortable.get(q.sort) : undefined;
         if (col) qb.orderBy(col, q.dir === 'desc' ? 'DESC' : 'ASC').addOrderBy('m.id', 'DESC');
         else qb.orderBy('m.id', 'DESC');
         qb.skip((q.page - 1) * q.pageSize).take(q.pageSize);

@@ -1,3 +1,4 @@
+import { hasKey, lookup } from '@common/api/lookup';
 import { DateTime } from 'luxon';
 import { In, MoreThanOrEqual } from 'typeorm';
 import { consumptionBetweenReadings, coefficientOfVariation, dailyRates, demandCvFromDays, detectRefills, meterCurve, orderedSeries, refillThreshold, suggestCorrectionFactor, weeklyTotals, type ContentsPoint, type DayRate } from '@common/forecast/reconcile';
@@ -138,7 +139,7 @@ function reconcileWard(model: SiteModel, w: Ward, data: WardData, fromDate: stri
   const lines = wardDemandLines(model, w.id, 'O2');
   const modelled = meanPerDay(lines);
   const reports = data.reports.filter((r) => r.wardId === w.id);
-  const flowOf = (device: string) => model.deviceFlows.get(device) ?? DEVICE_DEFAULTS[device as OxygenDevice]?.flowLMin ?? 0;
+  const flowOf = (device: string) => model.deviceFlows.get(device) ?? lookup(DEVICE_DEFAULTS, device)?.flowLMin ?? 0;
   const leak = 1 + w.leakagePercent / 100;
   const rowsOf = (device: string) => model.therapy.filter((t) => t.wardId === w.id && t.gasCode === 'O2' && t.device === device);
   // Reported demand of a day: each device's modelled lines (their own flows, hours and weekdays) scaled
@@ -164,7 +165,7 @@ function reconcileWard(model: SiteModel, w: Ward, data: WardData, fromDate: stri
   };
   const reportedPerDay = perModelDay(reportedDaily);
   const modelPatients = new Map<string, number>();
-  for (const t of model.therapy) if (t.wardId === w.id && t.gasCode === 'O2' && t.device in DEVICE_DEFAULTS) modelPatients.set(t.device, (modelPatients.get(t.device) ?? 0) + t.patients);
+  for (const t of model.therapy) if (t.wardId === w.id && t.gasCode === 'O2' && hasKey(DEVICE_DEFAULTS, t.device)) modelPatients.set(t.device, (modelPatients.get(t.device) ?? 0) + t.patients);
   const devices = Object.keys(DEVICE_DEFAULTS)
     .map((device) => {
       const counts = reports.map((r) => r.devices.find((d) => d.device === device)?.patientsNow ?? 0);

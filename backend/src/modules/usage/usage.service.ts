@@ -1,3 +1,4 @@
+import { hasKey } from '@common/api/lookup';
 import { In, MoreThanOrEqual, type EntityManager } from 'typeorm';
 import { DateTime } from 'luxon';
 import type { UsageCylinderLine, UsageReportCreate, UsageReportUpdate } from '@common/schemas/usage.schema';
@@ -120,7 +121,7 @@ export async function openReport(actor: Actor, wardId: number, q: { date?: strin
   const therapy = await m.getRepository(TherapyLineRow).find({ where: { wardId, gasCode: 'O2' } });
   const flows = await m.getRepository(DeviceFlow).find({ where: { organisationId: actor.user.organisationId } });
   const modelPatients: Record<string, number> = {};
-  for (const t of therapy) if (t.device in DEVICE_DEFAULTS) modelPatients[t.device] = (modelPatients[t.device] ?? 0) + t.patients;
+  for (const t of therapy) if (hasKey(DEVICE_DEFAULTS, t.device)) modelPatients[t.device] = (modelPatients[t.device] ?? 0) + t.patients;
 
   const prev = previous ? presentReport(previous, lines, names) : null;
   const draft = {

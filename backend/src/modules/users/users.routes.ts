@@ -1,4 +1,4 @@
-import { idParamSchema, listQuerySchema } from '@common/schemas/common.schema';
+import { idParamSchema, userListQuerySchema } from '@common/schemas/common.schema';
 import { userCreateSchema, userUpdateSchema, userWardsSchema } from '@common/schemas/admin.schema';
 import type { RouteDef } from '../../http/route';
 import { actorOf } from '../../http/context';
@@ -8,7 +8,7 @@ import { keepSessionSignedIn } from '../auth/passport';
 
 export function userRoutes(): RouteDef[] {
   return [
-    { method: 'get', path: '/api/users', access: ['administrator'], handler: (req) => listUsers(actorOf(req), validate(listQuerySchema, req.query, 'query')) },
+    { method: 'get', path: '/api/users', access: ['administrator'], handler: (req) => listUsers(actorOf(req), validate(userListQuerySchema, req.query, 'query')) },
     { method: 'post', path: '/api/users', access: ['administrator'], handler: (req) => createUser(actorOf(req), validate(userCreateSchema, req.body, 'user')) },
     {
       method: 'patch',

@@ -1,5 +1,5 @@
 import { In } from 'typeorm';
-import type { ListQuery, Page } from '@common/schemas/common.schema';
+import type { Page, UserListQuery } from '@common/schemas/common.schema';
 import type { UserCreateInput, UserRow, UserUpdateInput } from '@common/schemas/admin.schema';
 import type { UserWardsInput } from '@common/schemas/admin.schema';
 import type { Role } from '@common/api/roles';
@@ -34,12 +34,12 @@ async function present(m: EntityManager, users: User[]): Promise<UserRow[]> {
   }));
 }
 
-const SORTABLE: Record<string, string> = { email: 'u.email', name: 'u.name', createdAt: 'u.created_at' };
+const SORTABLE = new Map<UserListQuery['sort'], string>([['email', 'u.email'], ['name', 'u.name'], ['createdAt', 'u.created_at']]);
 
-export async function listUsers(actor: Actor, q: ListQuery): Promise<Page<UserRow>> {
+export async function listUsers(actor: Actor, q: UserListQuery): Promise<Page<UserRow>> {
   const qb = db().getRepository(User).createQueryBuilder('u').where('u.organisation_id = :org', { org: actor.user.organisationId });
   if (q.q) qb.andWhere('(u.email LIKE :q OR u.name LIKE :q)', { q: `%${q.q}%` });
-  qb.orderBy(SORTABLE[q.sort ?? 'name'] ?? 'u.name', q.dir === 'desc' ? 'DESC' : 'ASC')
+  qb.orderBy(SORTABLE.get(q.sort ?? 'name') ?? 'u.name', q.dir === 'desc' ? 'DESC' : 'ASC')
     .skip((q.page - 1) * q.pageSize)
     .take(q.pageSize);
   const [users, total] = await qb.getManyAndCount();

@@ -1,3 +1,4 @@
+import { AUDIT_SORT_KEYS } from '@common/schemas/common.schema';
 import { useMemo, useState } from 'react';
 import { useQuery } from '@tanstack/react-query';
 import { createColumnHelper } from '@tanstack/react-table';
@@ -15,7 +16,7 @@ import { auditQueries, type AuditRow } from '../api/audit-api';
 import { AuditDiff } from './audit-diff';
 
 const col = createColumnHelper<AuditRow>();
-export const AUDIT_LIST_DEFAULTS = { pageSize: 50, sort: 'at', dir: 'desc' as const };
+export const AUDIT_LIST_DEFAULTS = { pageSize: 50, sort: 'at', dir: 'desc' as const, sortKeys: AUDIT_SORT_KEYS };
 export const AUDIT_EXTRAS = ['entity'] as const;
 
 const ENTITIES = ['session', 'user', 'password', 'organisation', 'site', 'cylinder_type', 'supplier', 'supply_source', 'source_reading', 'ward', 'therapy_lines', 'ward_feeds', 'scenario', 'scheduled_delivery', 'device_flows'];

@@ -1,3 +1,4 @@
+import { MAIL_SORT_KEYS } from '@common/schemas/common.schema';
 import { useMemo } from 'react';
 import { Link } from 'react-router-dom';
 import { useQuery } from '@tanstack/react-query';
@@ -14,7 +15,7 @@ import { EmptyState, ErrorState, LoadingState } from '@/components/ui/states';
 import { mailQueries, type MailSummary } from '../api/mail-api';
 
 const col = createColumnHelper<MailSummary>();
-export const MAIL_LIST_DEFAULTS = { pageSize: 25 };
+export const MAIL_LIST_DEFAULTS = { pageSize: 25, sortKeys: MAIL_SORT_KEYS };
 
 export function MailList() {
   const { params, setPage, setQuery } = useListParams(MAIL_LIST_DEFAULTS);

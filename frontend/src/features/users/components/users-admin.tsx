@@ -1,3 +1,4 @@
+import { USER_SORT_KEYS } from '@common/schemas/common.schema';
 import { useMemo, useState } from 'react';
 import { useQuery } from '@tanstack/react-query';
 import { createColumnHelper } from '@tanstack/react-table';
@@ -19,7 +20,7 @@ import { UserCreateForm, UserEditForm, type SiteOption } from './user-forms';
 import { UserWardsDialogBody } from './ward-grants';
 
 const col = createColumnHelper<UserRow>();
-export const USERS_LIST_DEFAULTS = { pageSize: 25, sort: 'name', dir: 'asc' as const };
+export const USERS_LIST_DEFAULTS = { pageSize: 25, sort: 'name', dir: 'asc' as const, sortKeys: USER_SORT_KEYS };
 
 export function UsersAdmin({ sites, currentUserId }: { sites: SiteOption[]; currentUserId: number }) {
   const { params, sorting, setSorting, setPage, setQuery } = useListParams(USERS_LIST_DEFAULTS);
