@@ -91,6 +91,24 @@ describe('supply sources and readings', () => {
     expect(r.body.contents).toBeCloseTo(4 * types.body.nominal.freeGasL, -1);
   });
 
+  it('a N2O cylinder store: in-use gauges are refused ("weigh the cylinder"), net weights are counted', async () => {
+    const types = await (await signedIn(app, org.users.administrator)).post('/api/cylinder-types', { gasCode: 'N2O', waterCapacityL: 10, fillPressureBar: 44, tareKg: 14, maxFillingRatioKgPerL: 0.75 });
+    expect(types.status).toBe(200);
+    const src = await fm.post(`/api/sites/${siteId}/sources`, { name: 'N2O store', type: 'cylinder_store', gasCode: 'N2O', cylinderTypeId: types.body.id, temperatureC: 15 });
+    expect(src.status).toBe(200);
+    const before = await count('source_reading', 'source_id = ?', [src.body.id]);
+    // 44 bar g at 15 °C is the vapour pressure of N2O (45.037 bar abs, saturation table in tests/reference): full or nearly empty alike
+    const refused = await fm.post(`/api/sources/${src.body.id}/readings`, { kind: 'store_count', full: 2, inUseGaugeBar: [44], takenAt: new Date().toISOString() });
+    expect(refused.status).toBe(400);
+    expect(refused.body.error.code).toBe('invalid_input');
+    expect(refused.body.error.message).toMatch(/weigh the cylinder: gross − tare/);
+    expect(await count('source_reading', 'source_id = ?', [src.body.id])).toBe(before);
+    const ok = await fm.post(`/api/sources/${src.body.id}/readings`, { kind: 'store_count', full: 2, inUseNetKg: [3], takenAt: new Date().toISOString() });
+    expect(ok.status).toBe(200);
+    // 2 × 7.5 kg (0.75 kg/L × 10 L) + 3 kg = 18 kg; N2O 1.872814 kg/m³ at 15 °C, 1.01325 bar (Lemmon & Span 2006, z-grid in tests/reference)
+    expect(ok.body.contents / ((18 / 1.872814) * 1000)).toBeCloseTo(1, 3);
+  });
+
   it('refuses bad readings with field messages and writes nothing', async () => {
     const src = await fm.post(`/api/sites/${siteId}/sources`, tank('Tank C'));
     const before = await count('source_reading', 'source_id = ?', [src.body.id]);

@@ -268,6 +268,42 @@ describe('calc forecast: bad input', () => {
   });
 });
 
+describe('calc forecast: liquefied gases are known by weight, not by gauge', () => {
+  const n2oStore = (source: Record<string, unknown>) => ({
+    start: '2027-01-04T00:00',
+    timezone: 'Europe/London',
+    horizon_days: 10,
+    source: { type: 'cylinders', gas: 'N2O', water_capacity_L: 10, fill_gauge_bar: 44, fill_temperature_C: 15, full: 4, ...source },
+    demand: [{ flow_L_min: 5 }],
+  });
+  const errorOf = (input: unknown): InvalidInputError => {
+    try {
+      forecastVerb(input);
+    } catch (e) {
+      expect(e).toBeInstanceOf(InvalidInputError);
+      return e as InvalidInputError;
+    }
+    throw new Error('expected InvalidInputError');
+  };
+
+  it('refuses a N2O store with no fill mass, and any in-use gauge reading, with "weigh the cylinder"', () => {
+    expect(errorOf(n2oStore({})).details[0].path).toBe('source.fill_kg');
+    const e = errorOf(n2oStore({ fill_kg: 7.5, in_use_gauge_bar: [40] }));
+    expect(e.message).toMatch(/weigh the cylinder: gross − tare/);
+    expect(e.details[0].path).toBe('source.in_use_gauge_bar.0');
+    // a manifold's bank gauges of a liquefied gas say nothing about contents either
+    const m = errorOf({ ...n2oStore({}), source: { type: 'manifold', gas: 'N2O', water_capacity_L: 10, fill_gauge_bar: 44, fill_kg: 7.5, cylinders_per_bank: 2, duty_bank_gauge_bar: 44, standby_bank_gauge_bar: 44 } });
+    expect(m.message).toMatch(/weigh/);
+  });
+
+  it('counts full cylinders by fill_kg and part-used ones by their net weight', () => {
+    // reference equation of state for N2O (Lemmon & Span, 2006), z-grid in tests/reference: 1.872814 kg/m³
+    // at 288.15 K, 1.01325 bar → 1000 / 1.872814 = 533.96 L of gas per kg; 4 × 7.5 kg + 2.5 kg = 32.5 kg
+    const out = run(n2oStore({ fill_kg: 7.5, in_use_net_kg: [2.5] }));
+    expect(Math.abs(out.contents_at_start / (32.5 * 533.96) - 1)).toBeLessThan(0.001);
+  });
+});
+
 describe('calc forecast: command line', () => {
   const repo = fileURLToPath(new URL('../../../', import.meta.url));
   const calc = (input: string) => spawnSync('node', ['--import', 'tsx', 'scripts/calc.ts', 'forecast'], { cwd: repo, input, encoding: 'utf8', timeout: 60_000 });

@@ -75,6 +75,11 @@ const cylinderFields = {
   order_up_to_cylinders: positive('order_up_to_cylinders').optional(),
   lead_time_hours: nonNegative('lead_time_hours').max(24 * 366, { error: 'lead_time_hours must be ≤ one year' }).default(0),
   reserve_cylinders: nonNegative('reserve_cylinders').optional(),
+  /**
+   * CO2 and N2O (liquefied): net gas of one full cylinder, kg (their gauge shows the vapour pressure,
+   * not the contents, so a full cylinder is known by its filling mass, not by fill_gauge_bar).
+   */
+  fill_kg: positive('fill_kg').max(1000, { error: 'fill_kg must be ≤ 1000 kg' }).optional(),
 };
 
 function checkReorderFields(ctx: z.RefinementCtx, absolute: number | undefined, days: number | undefined, percent: number | undefined, absPath: string): void {
@@ -99,6 +104,8 @@ export const cylinderSourceSchema = z
     ...cylinderFields,
     full: wholeCount('full'),
     in_use_gauge_bar: z.array(nonNegative('in-use gauge reading (bar)')).default([]),
+    /** CO2 and N2O: weighed net contents (gross − tare) of each part-used cylinder, kg. */
+    in_use_net_kg: z.array(nonNegative('in-use net weight (kg)').max(1000, { error: 'in-use net weight must be ≤ 1000 kg' })).default([]),
   })
   .superRefine((s, ctx) => checkCylinderReorder(ctx, s));
 

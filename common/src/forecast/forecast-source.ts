@@ -1,6 +1,6 @@
 import { InvalidInputError } from '../api/errors';
 import { compressedContents } from '../gas/contents';
-import type { GasCode } from '../gas/gases';
+import { isLiquefiedGas, type GasCode } from '../gas/gases';
 import { freeGasLitresPerKg, type ReferenceCode } from '../gas/reference-conditions';
 import { applyScenarios, buildHourlyDemand, type DemandLine } from './demand-lines';
 import { boundaryAtOrAfter, buildHourIndex, resolveLocalTimeUtcMs, type HourIndex } from './hour-index';
@@ -110,12 +110,17 @@ export function forecastSource(input: ForecastInput): SourceForecast {
     }
   } else {
     unit = 'L';
-    const perCyl = cylinderFreeGasL(src.gas, src.water_capacity_L, src.fill_gauge_bar, src.fill_temperature_C, input.reference, 'fill_gauge_bar');
+    const perCyl = fullCylinderFreeGasL(src, input.reference);
     const inUseT = src.in_use_temperature_C ?? src.fill_temperature_C;
     let inUse = 0;
     src.in_use_gauge_bar.forEach((g, k) => {
       inUse += cylinderFreeGasL(src.gas, src.water_capacity_L, g, inUseT, input.reference, `in_use_gauge_bar.${k}`);
     });
+    if (src.in_use_net_kg.length > 0) {
+      if (!isLiquefiedGas(src.gas)) throw new InvalidInputError('in_use_net_kg is for liquefied gases (CO2, N2O): give in_use_gauge_bar for this gas', [{ path: 'source.in_use_net_kg', message: 'for CO2 and N2O only' }]);
+      const lPerKg = withGasPaths('source', {}, () => freeGasLitresPerKg(src.gas, input.reference));
+      for (const kg of src.in_use_net_kg) inUse += kg * lPerKg;
+    }
     factors = { fullCylinderFreeGasL: perCyl };
     model = {
       contentsStart: src.full * perCyl + inUse,
@@ -169,6 +174,22 @@ function cylinderReorderLevel(
   return relativeLevel(src, perDay, src.order_up_to_cylinders ?? 0);
 }
 
+/**
+ * Free gas of one full cylinder, L at the reference. Compressed gases: at fill_gauge_bar and
+ * fill_temperature_C. CO2 and N2O: from fill_kg (their gauge shows the vapour pressure, not the contents).
+ */
+function fullCylinderFreeGasL(src: CylinderSourceInput | ManifoldSourceInput, reference: ReferenceCode): number {
+  if (isLiquefiedGas(src.gas)) {
+    if (src.fill_kg === undefined) {
+      throw new InvalidInputError(`${src.gas} is a liquefied gas: its gauge shows the vapour pressure, not the contents. Give fill_kg (net kg of a full cylinder) and weigh part-used cylinders (gross − tare) into in_use_net_kg`, [
+        { path: 'source.fill_kg', message: 'required for a liquefied gas (weigh the cylinder: gross − tare)' },
+      ]);
+    }
+    return src.fill_kg * withGasPaths('source', {}, () => freeGasLitresPerKg(src.gas, reference));
+  }
+  return cylinderFreeGasL(src.gas, src.water_capacity_L, src.fill_gauge_bar, src.fill_temperature_C, reference, 'fill_gauge_bar');
+}
+
 function forecastManifold(
   input: ForecastInput,
   src: ManifoldSourceInput,
@@ -176,7 +197,7 @@ function forecastManifold(
   demandL: Float64Array,
   boundaryOf: (at: string) => number,
 ): SourceForecast {
-  const perCyl = cylinderFreeGasL(src.gas, src.water_capacity_L, src.fill_gauge_bar, src.fill_temperature_C, input.reference, 'fill_gauge_bar');
+  const perCyl = fullCylinderFreeGasL(src, input.reference);
   const inUseT = src.in_use_temperature_C ?? src.fill_temperature_C;
   const residual = src.changeover_gauge_bar > 0 ? cylinderFreeGasL(src.gas, src.water_capacity_L, src.changeover_gauge_bar, inUseT, input.reference, 'changeover_gauge_bar') : 0;
   const bankL = (readings: number | number[], key: string) => {

@@ -74,6 +74,23 @@ describe('calc verbs in process', () => {
   });
 });
 
+describe('calc verbs: liquefied gases from a gauge', () => {
+  it('contents and duration refuse a N2O gauge reading with "weigh the cylinder" and accept one only with liquid_gone well below p_sat', () => {
+    // a full N2O cylinder at 15 °C reads about 44 bar g (vapour pressure 45.037 bar abs, saturation table in tests/reference)
+    const n2o = { gas: 'N2O', water_capacity_L: 10, gauge_bar: 44, temperature_C: 15 };
+    expect(() => gasCalcVerbs.contents(n2o)).toThrow(/weigh the cylinder: gross − tare/);
+    expect(() => gasCalcVerbs.duration({ ...n2o, flow_L_min: 5 })).toThrow(/weigh the cylinder: gross − tare/);
+    expect(() => gasCalcVerbs.contents({ ...n2o, liquid_gone: true })).toThrow(/liquid may still be present/);
+    try {
+      gasCalcVerbs.contents(n2o);
+    } catch (e) {
+      expect((e as InvalidInputError).details[0].path).toBe('gauge_bar');
+    }
+    const low = gasCalcVerbs.contents({ ...n2o, gauge_bar: 10, liquid_gone: true }) as any;
+    expect(low.mass_kg).toBeGreaterThan(0);
+  });
+});
+
 describe('calc command line', () => {
   it('z through the real command: results and per-item errors, exit 0', () => {
     const r = runCalc('z', JSON.stringify([{ gas: 'AR', temperature_C: -40, pressure_bar_abs: 300 }, { gas: 'N2O', temperature_C: 0, pressure_bar_abs: 40 }]));
@@ -92,5 +109,9 @@ describe('calc command line', () => {
     const badContents = runCalc('contents', JSON.stringify({ gas: 'O2', water_capacity_L: 10, gauge_bar: Number.MAX_VALUE, temperature_C: 15 }));
     expect(badContents.status).toBe(2);
     expect(badContents.body.error.details[0].path).toBe('gauge_bar');
+    const n2oGauge = runCalc('contents', JSON.stringify({ gas: 'N2O', water_capacity_L: 10, gauge_bar: 44, temperature_C: 15 }));
+    expect(n2oGauge.status).toBe(2);
+    expect(n2oGauge.body.error.code).toBe('invalid_input');
+    expect(n2oGauge.body.error.message).toMatch(/weigh the cylinder: gross − tare/);
   }, 60_000);
 });

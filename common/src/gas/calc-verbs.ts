@@ -26,6 +26,8 @@ const compressedSchema = z.object({
   temperature_C: num,
   atmospheric_bar: num.optional(),
   reference: referenceSchema.optional(),
+  /** CO2/N2O from a gauge: true only when the liquid is known to be gone (see contents.ts). */
+  liquid_gone: z.boolean().optional(),
 });
 
 const liquefiedSchema = z.object({
@@ -47,6 +49,7 @@ const pressureAtSchema = z.object({
   temperature_C: num,
   new_temperature_C: num,
   atmospheric_bar: num.optional(),
+  liquid_gone: z.boolean().optional(),
 });
 
 function isWeighed(item: unknown): boolean {
@@ -67,6 +70,7 @@ const FIELD_NAMES: Record<string, string> = {
   flowLMin: 'flow_L_min',
   reserveGaugeBar: 'reserve_gauge_bar',
   reserveKg: 'reserve_kg',
+  liquidGone: 'liquid_gone',
 };
 
 function renamePaths(e: InvalidInputError, prefix: string): InvalidInputError {
@@ -136,6 +140,7 @@ function contentsOf(item: unknown): Record<string, unknown> {
     temperatureC: v.temperature_C,
     atmosphericBar: v.atmospheric_bar,
     reference: v.reference,
+    liquidGone: v.liquid_gone,
   });
   return {
     moles: r.moles,
@@ -179,6 +184,7 @@ function durationOf(item: unknown): Record<string, unknown> {
       temperatureC: v.temperature_C,
       atmosphericBar: v.atmospheric_bar,
       reference: v.reference,
+      liquidGone: v.liquid_gone,
       flowLMin: extra.flow_L_min,
       reserveGaugeBar: extra.reserve_gauge_bar,
     });
@@ -214,6 +220,7 @@ const pressureAtVerb: CalcVerb = (input) =>
       temperatureC: v.temperature_C,
       newTemperatureC: v.new_temperature_C,
       atmosphericBar: v.atmospheric_bar,
+      liquidGone: v.liquid_gone,
     });
     return { pressure_bar_abs: r.pressureBarAbs, gauge_bar: r.gaugeBar, cautions: [...r.cautions, PLANNING_CAUTION] };
   });

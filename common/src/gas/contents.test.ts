@@ -276,3 +276,39 @@ describe('gas info', () => {
     expect(GAS_INFO.HE_O2_79.molarMassKgMol * 1000).toBeCloseTo(9.8816, 3);
   });
 });
+
+describe('liquefied gases read by a gauge', () => {
+  // A full N2O cylinder at 15 °C sits at its vapour pressure, 45.037 bar abs (saturation table in
+  // tests/reference, Lemmon & Span 2006), i.e. about 44 bar g: the gauge of a full and of a nearly
+  // empty cylinder read the same while liquid is left (the gauge "says nothing" about contents).
+  // 10 L at a 0.75 kg/L filling ratio holds 7.5 kg (anaesthesia revision notes: filling ratio 0.75 temperate);
+  // the vapour-only reading of the old engine gave about 1.3 kg.
+  const full = { gas: 'N2O' as const, waterCapacityL: 10, gaugeBar: 44, temperatureC: 15 };
+
+  it('refuses a gauge reading of CO2 or N2O while liquid may be present, telling the person to weigh', () => {
+    for (const input of [full, { ...full, gaugeBar: 5 }, { gas: 'CO2' as const, waterCapacityL: 10, gaugeBar: 49, temperatureC: 15 }]) {
+      expect(() => compressedContents(input)).toThrow(/weigh the cylinder: gross − tare/);
+      expect(() => cylinderDuration({ ...input, flowLMin: 5 })).toThrow(/weigh the cylinder: gross − tare/);
+      expect(() => pressureAtTemperature({ ...input, newTemperatureC: 20 })).toThrow(/weigh/);
+      expectInvalid(() => compressedContents(input), 'gaugeBar');
+    }
+  });
+
+  it('with the liquid stated gone, still refuses a reading near the vapour pressure (above 80 % of it)', () => {
+    // 0.8 × 45.037 = 36.03 bar abs = 35.0 bar g: 44 bar g and 36 bar g are refused, 34 bar g is accepted
+    expect(() => compressedContents({ ...full, liquidGone: true })).toThrow(/liquid may still be present/);
+    expect(() => compressedContents({ ...full, gaugeBar: 36, liquidGone: true })).toThrow(/liquid may still be present/);
+    expect(compressedContents({ ...full, gaugeBar: 34, liquidGone: true }).massKg).toBeGreaterThan(0);
+  });
+
+  it('with the liquid gone and a reading clearly below p_sat: vapour contents as the reference equation gives them', () => {
+    // reference equation of state for N2O (Lemmon & Span, 2006), z-grid in tests/reference:
+    // 288.15 K, 20 bar abs: ρ = 42.352778 kg/m³ → 10 L hold 0.42353 kg
+    const c = compressedContents({ gas: 'N2O', waterCapacityL: 10, pressureBarAbs: 20, temperatureC: 15, liquidGone: true });
+    expect(Math.abs(c.massKg / 0.42352778 - 1)).toBeLessThan(0.005);
+  });
+
+  it('above the critical temperature (N2O 36.4 °C, OpenAnesthesia; Lemmon & Span 2006: 309.52 K) a pressure reading is accepted', () => {
+    expect(compressedContents({ gas: 'N2O', waterCapacityL: 10, gaugeBar: 60, temperatureC: 40 }).massKg).toBeGreaterThan(0);
+  });
+});

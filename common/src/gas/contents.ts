@@ -31,6 +31,51 @@ export interface CompressedContentsInput {
   atmosphericBar?: number;
   /** Reference conditions of the free-gas volume (default 15C). */
   reference?: ReferenceCode;
+  /**
+   * CO2 and N2O only: the person states that the liquid is gone (the cylinder has been drawn past the
+   * point where its pressure starts to fall). Without it a gauge reading of a liquefied gas is refused.
+   */
+  liquidGone?: boolean;
+}
+
+/**
+ * A gauge reading of a liquefied gas (CO2, N2O) below its critical temperature is accepted only when the
+ * liquid is stated gone AND the absolute pressure is at most this share of the vapour pressure at the
+ * stated temperature. 0.8 × p_sat is about the vapour pressure 10 °C colder (N2O: 0.8 × 45.0 = 36.0 bar
+ * abs at 15 °C against p_sat(5 °C) ≈ 36.4 bar abs, Lemmon & Span 2006 ancillary), which covers a
+ * liquid cooled by drawing below the stated temperature and a gauge of class 2.5 read near the top of
+ * its scale. Between that and p_sat liquid may still be present and the gauge says nothing. Common
+ * practice is simply to weigh: the margin is the engine's own choice.
+ */
+export const LIQUEFIED_VAPOUR_ONLY_FRACTION = 0.8;
+
+export const WEIGH_LIQUEFIED_MESSAGE = 'weigh the cylinder: gross − tare';
+
+/**
+ * Refuses a pressure reading of CO2 or N2O unless it can only be vapour (see LIQUEFIED_VAPOUR_ONLY_FRACTION).
+ * Above the critical temperature there is one phase and the pressure does fix the contents.
+ */
+export function checkLiquefiedGaugeReading(gas: GasCode, temperatureK: number, pressureBarAbs: number, liquidGone: boolean | undefined, path: string): void {
+  if (!isLiquefiedGas(gas)) return;
+  const tc = criticalTemperatureK(gas);
+  if (!(temperatureK < tc)) return;
+  const ps = vapourPressureBarAbs(gas, temperatureK);
+  const name = GAS_INFO[gas].name;
+  if (liquidGone !== true) {
+    fail(
+      path,
+      `${WEIGH_LIQUEFIED_MESSAGE} (liquefied gas: while liquid is present the gauge shows the vapour pressure, not the contents)`,
+      `${name} is a liquefied gas: while any liquid is left the gauge shows the vapour pressure (${(ps - STANDARD_ATMOSPHERE_BAR).toFixed(1)} bar g at ${(temperatureK - 273.15).toFixed(1)} °C) whatever the contents, so a gauge reading cannot give them: ${WEIGH_LIQUEFIED_MESSAGE}. A gauge is accepted only with liquid_gone and a reading clearly below the vapour pressure.`,
+    );
+  }
+  const limit = LIQUEFIED_VAPOUR_ONLY_FRACTION * ps;
+  if (pressureBarAbs > limit) {
+    fail(
+      path,
+      `${WEIGH_LIQUEFIED_MESSAGE}: at or above ${limit.toFixed(1)} bar abs (${LIQUEFIED_VAPOUR_ONLY_FRACTION * 100} % of the vapour pressure) liquid may still be present`,
+      `${name} at ${pressureBarAbs.toFixed(1)} bar abs is too close to its vapour pressure (${ps.toFixed(1)} bar abs at ${(temperatureK - 273.15).toFixed(1)} °C) to be only vapour: liquid may still be present and the gauge says nothing about the contents. ${WEIGH_LIQUEFIED_MESSAGE}. A gauge is taken as vapour only at or below ${LIQUEFIED_VAPOUR_ONLY_FRACTION * 100} % of the vapour pressure (${limit.toFixed(1)} bar abs).`,
+    );
+  }
 }
 
 export interface CompressedContents {
@@ -94,6 +139,7 @@ function readCylinderState(input: CompressedContentsInput): CylinderState {
   requireFinite('temperatureC', input.temperatureC, 'Temperature');
   const temperatureK = input.temperatureC + 273.15;
   validateStateAt(gas, temperatureK, pressureBarAbs, 'temperatureC', hasGauge ? 'gaugeBar' : 'pressureBarAbs');
+  checkLiquefiedGaugeReading(gas, temperatureK, pressureBarAbs, input.liquidGone, hasGauge ? 'gaugeBar' : 'pressureBarAbs');
   return { gas, volumeM3: input.waterCapacityL / 1000, temperatureK, pressureBarAbs, atmosphericBar, reference: checkReference(input.reference) };
 }
 
@@ -181,6 +227,8 @@ function pressureOfContentsAt(gas: GasCode, molarDensity: number, temperatureK: 
 
 export interface PressureAtTemperatureInput {
   gas: GasCode;
+  /** CO2 and N2O: the liquid is stated gone (see CompressedContentsInput.liquidGone). */
+  liquidGone?: boolean;
   gaugeBar?: number;
   pressureBarAbs?: number;
   /** Temperature of the reading, °C. */

@@ -94,7 +94,7 @@ export const readingSchema = z.discriminatedUnion(
     z.object({ kind: z.literal('litres_liquid'), value: num('litres of liquid').min(0) }),
     z.object({ kind: z.literal('calibration'), value: num('gauge reading') }),
     z.object({ kind: z.literal('bank_gauges'), dutyBar: num('duty bank gauge').min(0).max(350), standbyBar: num('standby bank gauge').min(0).max(350), spareFull: num('spare cylinders').int().min(0).max(1000).default(0) }),
-    z.object({ kind: z.literal('store_count'), full: num('full cylinders').int().min(0).max(100_000), inUseGaugeBar: z.array(num('gauge').min(0).max(350)).max(1000).default([]), empty: num('empty cylinders').int().min(0).max(100_000).default(0) }),
+    z.object({ kind: z.literal('store_count'), full: num('full cylinders').int().min(0).max(100_000), inUseGaugeBar: z.array(num('gauge').min(0).max(350)).max(1000).default([]), inUseNetKg: z.array(num('net weight').min(0).max(1000)).max(1000).default([]), empty: num('empty cylinders').int().min(0).max(100_000).default(0) }),
   ],
   { error: 'choose how the reading was taken' },
 );

@@ -204,7 +204,15 @@ export function contentsOfReading(source: SupplySource, site: Site, cyl: Cylinde
     if (isLiquefiedGas(gas)) {
       const perFullKg = (cyl.maxFillingRatioKgPerL ?? 0.75) * cyl.waterCapacityL;
       const lPerKg = freeGasLitresPerKg(gas, reference);
-      if (r.kind === 'store_count') return (r.full * perFullKg + r.inUseGaugeBar.length * perFullKg * 0.5) * lPerKg; // in-use liquefied cylinders: counted half full (their gauge does not show contents)
+      if (r.kind === 'store_count') {
+        // while liquid is left the gauge shows the vapour pressure whatever the contents: part-used cylinders are weighed
+        if (r.inUseGaugeBar.length > 0) {
+          throw badRequest(`The gauge of ${gas} shows its vapour pressure, not the contents, while any liquid is left: weigh the cylinder: gross − tare, and enter the net weight of each part-used cylinder`, [
+            { path: 'inUseGaugeBar', message: 'weigh the cylinder: gross − tare' },
+          ]);
+        }
+        return (r.full * perFullKg + r.inUseNetKg.reduce((sum, kg) => sum + kg, 0)) * lPerKg;
+      }
       throw badRequest('The gauge of a liquefied gas shows vapour pressure, not contents: count full and in-use cylinders instead', [{ path: 'kind', message: 'use a store count' }]);
     }
     const perCyl = (gauge: number) => compressedContents({ gas, waterCapacityL: cyl.waterCapacityL, gaugeBar: gauge, temperatureC, atmosphericBar: site.atmosphericBar, reference }).freeGasL;
@@ -217,6 +225,7 @@ export function contentsOfReading(source: SupplySource, site: Site, cyl: Cylinde
       return n * (perCyl(r.dutyBar) + perCyl(r.standbyBar)) + r.spareFull * full;
     }
     if (r.kind === 'store_count') {
+      if (r.inUseNetKg.length > 0) throw badRequest('Net weights are for liquefied gases (CO2, N2O): give a gauge reading for each part-used cylinder', [{ path: 'inUseNetKg', message: 'gauge readings for this gas' }]);
       r.inUseGaugeBar.forEach((g, i) => {
         if (g > cyl.fillPressureBar * 1.35) throw badRequest(`${g} bar is far above this cylinder's ${cyl.fillPressureBar} bar fill`, [{ path: `inUseGaugeBar.${i}`, message: 'above the fill pressure' }]);
       });
