@@ -13,22 +13,32 @@ function runCalc(verb: string, stdin: string): { status: number | null; body: an
 }
 
 describe('calc verbs in process', () => {
-  it('z: one result per state, in order, with per-item errors', () => {
+  it('z: one result per state, in order; any bad item refuses the whole request, naming every bad item', () => {
     const out = gasCalcVerbs.z([
       { gas: 'O2', temperature_C: 15, pressure_bar_abs: 200 },
-      { gas: 'CO2', temperature_C: 15, pressure_bar_abs: 60 },
-      { gas: 'N2', temperature_C: 15 },
       { gas: 'HE', temperature_C: 15, pressure_bar_abs: 1.01325 },
     ]) as any[];
-    expect(out).toHaveLength(4);
+    expect(out).toHaveLength(2);
     // reference equation of state for O2 (Schmidt & Wagner, 1985), value from reference table (tests/reference): Z = 0.931150 at 288.15 K, 200 bar
     expect(Math.abs(out[0].Z / 0.93115 - 1)).toBeLessThan(0.001);
     expect(Object.keys(out[0]).sort()).toEqual(['Z', 'density_kg_m3', 'ideal_density_kg_m3', 'method', 'phase']);
-    expect(out[1].error.code).toBe('invalid_input');
-    expect(out[1].error.message).toMatch(/liquid/);
-    expect(out[2].error.details[0].path).toBe('pressure_bar_abs');
-    expect(out[3].phase).toBe('gas');
+    expect(out[1].phase).toBe('gas');
+    let error: InvalidInputError | null = null;
+    try {
+      gasCalcVerbs.z([
+        { gas: 'O2', temperature_C: 15, pressure_bar_abs: 200 },
+        // CO2 at 15 °C, 60 bar abs is liquid: vapour pressure 50.87 bar abs (saturation table in tests/reference)
+        { gas: 'CO2', temperature_C: 15, pressure_bar_abs: 60 },
+        { gas: 'N2', temperature_C: 15 },
+      ]);
+    } catch (e) {
+      error = e as InvalidInputError;
+    }
+    expect(error).toBeInstanceOf(InvalidInputError);
+    expect(error!.message).toMatch(/liquid/);
+    expect(error!.details.map((d) => d.path)).toEqual(['1.pressure_bar_abs', '2.pressure_bar_abs']);
     expect(() => gasCalcVerbs.z({ gas: 'O2' })).toThrow(InvalidInputError);
+    expect(() => gasCalcVerbs.z([])).toThrow(InvalidInputError);
   });
 
   it('contents: object in, object out; array in, array out; liquefied gases by weight', () => {
@@ -92,12 +102,16 @@ describe('calc verbs: liquefied gases from a gauge', () => {
 });
 
 describe('calc command line', () => {
-  it('z through the real command: results and per-item errors, exit 0', () => {
-    const r = runCalc('z', JSON.stringify([{ gas: 'AR', temperature_C: -40, pressure_bar_abs: 300 }, { gas: 'N2O', temperature_C: 0, pressure_bar_abs: 40 }]));
+  it('z through the real command: results exit 0; a bad item exits 2 with the error shape', () => {
+    const r = runCalc('z', JSON.stringify([{ gas: 'AR', temperature_C: -40, pressure_bar_abs: 300 }]));
     expect(r.status).toBe(0);
-    // reference equation of state for Ar (Tegeler, Span & Wagner, 1999), value from reference table (tests/reference): 233.15 K, 300 bar
-    expect(r.body[0].Z).toBeGreaterThan(0.8);
-    expect(r.body[1].error.code).toBe('invalid_input');
+    // reference equation of state for Ar (Tegeler, Span & Wagner, 1999), z-grid in tests/reference: Z = 0.889440897 at 233.15 K, 300 bar
+    expect(Math.abs(r.body[0].Z / 0.889440897 - 1)).toBeLessThan(0.001);
+    // N2O at 0 °C and 40 bar abs is liquid: vapour pressure 31.2 bar abs at 0 °C (Lemmon & Span 2006 ancillary)
+    const bad = runCalc('z', JSON.stringify([{ gas: 'AR', temperature_C: -40, pressure_bar_abs: 300 }, { gas: 'N2O', temperature_C: 0, pressure_bar_abs: 40 }]));
+    expect(bad.status).toBe(2);
+    expect(bad.body.error.code).toBe('invalid_input');
+    expect(bad.body.error.details[0].path).toBe('1.pressure_bar_abs');
   }, 60_000);
 
   it('bad input: exit 2 with the error shape', () => {

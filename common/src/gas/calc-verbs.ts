@@ -192,22 +192,37 @@ function durationOf(item: unknown): Record<string, unknown> {
   return { minutes: r.minutes, usable_free_gas_L: r.usableFreeGasL, reference: r.reference, cautions: [...r.cautions, PLANNING_CAUTION] };
 }
 
+/**
+ * z: one result per state, in order. Bad input is refused as a whole (exit 2 / 400, as the calc contract
+ * says for every verb): when any item fails, the error names every failing item by its index
+ * ("1.pressure_bar_abs"), so a script can mend them all at once.
+ */
 const zVerb: CalcVerb = (input) => {
   if (!Array.isArray(input)) {
     throw new InvalidInputError('Expected an array of {gas, temperature_C, pressure_bar_abs}', [{ path: '(root)', message: 'expected an array' }]);
   }
-  return input.map((item) => {
+  if (input.length === 0) throw new InvalidInputError('Empty array: give at least one state', [{ path: '(root)', message: 'empty array' }]);
+  const failures: InvalidInputError[] = [];
+  const out = input.map((item, i) => {
     try {
-      return withIndex(null, () => {
+      return withIndex(i, () => {
         const v = parseOrThrow(zItemSchema, item, 'state');
         const r = compressibility(v.gas, v.temperature_C + 273.15, v.pressure_bar_abs);
         return { Z: r.Z, density_kg_m3: r.densityKgM3, ideal_density_kg_m3: r.idealDensityKgM3, phase: r.phase, method: r.method };
       });
     } catch (e) {
-      if (e instanceof InvalidInputError) return { error: { code: e.code, message: e.message, details: e.details } };
-      return { error: { code: 'internal_error', message: (e as Error).message } };
+      if (e instanceof InvalidInputError) {
+        failures.push(e);
+        return null;
+      }
+      throw e;
     }
   });
+  if (failures.length === 1) throw failures[0];
+  if (failures.length > 1) {
+    throw new InvalidInputError(`${failures.length} of ${input.length} states are invalid: ${failures.map((f) => f.message).join('; ')}`, failures.flatMap((f) => f.details));
+  }
+  return out;
 };
 
 const pressureAtVerb: CalcVerb = (input) =>

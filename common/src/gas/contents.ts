@@ -5,7 +5,17 @@ import { REFERENCE_CONDITIONS, idealReferenceMolarVolumeLMol, isReferenceCode, r
 import { criticalTemperatureK, saturatedLiquidDensityKgM3, saturatedVapourDensityKgM3, vapourPressureBarAbs } from './saturation';
 import { mixtureCautions } from './mixture-cautions';
 import { STANDARD_ATMOSPHERE_BAR } from './units';
-import { fail, requireFinite, requireNonNegative, requirePositive } from './validate-input';
+import { fail, requireFinite, requireInRange, requireNonNegative, requirePositive } from './validate-input';
+
+/**
+ * Physically meaningful input ranges (beyond them the arithmetic overflows into Infinity or gives
+ * absurd figures): water capacity 0.01–5,000 L (the smallest medical cylinders hold ~0.2 L, a
+ * tube-trailer tube a few thousand L: common practice); flow 0.01–100,000 L/min (low-flow meters read
+ * down to a few hundredths of a L/min; a whole hospital draws a few thousand); weights up to 2,000 kg.
+ */
+export const WATER_CAPACITY_RANGE_L = { min: 0.01, max: 5000 } as const;
+export const FLOW_RANGE_L_MIN = { min: 0.01, max: 100_000 } as const;
+export const MAX_CYLINDER_MASS_KG = 2000;
 
 /**
  * Cylinder contents from gauge pressure (compressed gases) or weight (liquefied gases), durations
@@ -121,7 +131,7 @@ function checkReference(reference: unknown): ReferenceCode {
 
 function readCylinderState(input: CompressedContentsInput): CylinderState {
   const gas = checkGas(input.gas);
-  requirePositive('waterCapacityL', input.waterCapacityL, 'Water capacity');
+  requireInRange('waterCapacityL', input.waterCapacityL, WATER_CAPACITY_RANGE_L.min, WATER_CAPACITY_RANGE_L.max, 'L', 'Water capacity');
   const atmosphericBar = input.atmosphericBar ?? STANDARD_ATMOSPHERE_BAR;
   requirePositive('atmosphericBar', atmosphericBar, 'Atmospheric pressure');
   if (atmosphericBar < 0.5 || atmosphericBar > 1.1) {
@@ -305,7 +315,9 @@ export function liquefiedContents(input: LiquefiedContentsInput): LiquefiedConte
   if (!isLiquefiedGas(gas)) fail('gas', 'weighed contents apply to CO2 and N2O only', `${GAS_INFO[gas].name} is not a liquefied gas: use the pressure-based contents`);
   requirePositive('grossKg', input.grossKg, 'Gross weight');
   requirePositive('tareKg', input.tareKg, 'Tare weight');
-  requirePositive('waterCapacityL', input.waterCapacityL, 'Water capacity');
+  requireInRange('grossKg', input.grossKg, 0, MAX_CYLINDER_MASS_KG, 'kg', 'Gross weight');
+  requireInRange('tareKg', input.tareKg, 0, MAX_CYLINDER_MASS_KG, 'kg', 'Tare weight');
+  requireInRange('waterCapacityL', input.waterCapacityL, WATER_CAPACITY_RANGE_L.min, WATER_CAPACITY_RANGE_L.max, 'L', 'Water capacity');
   requireFinite('temperatureC', input.temperatureC, 'Temperature');
   if (input.temperatureC < LIQUEFIED_MIN_TEMPERATURE_C || input.temperatureC > LIQUEFIED_MAX_TEMPERATURE_C) {
     fail('temperatureC', `must be between ${LIQUEFIED_MIN_TEMPERATURE_C} and ${LIQUEFIED_MAX_TEMPERATURE_C} °C`, `Temperature ${input.temperatureC} °C is outside the supported range for weighed cylinders`);
@@ -397,10 +409,13 @@ export function cylinderDuration(
   input: (CompressedContentsInput | LiquefiedContentsInput) & DurationOptions,
 ): DurationResult {
   requirePositive('flowLMin', input.flowLMin, 'Flow');
+  requireInRange('flowLMin', input.flowLMin, FLOW_RANGE_L_MIN.min, FLOW_RANGE_L_MIN.max, 'L/min', 'Flow');
   const reserveGaugeBar = input.reserveGaugeBar ?? 0;
   requireNonNegative('reserveGaugeBar', reserveGaugeBar, 'Reserve pressure');
+  requireInRange('reserveGaugeBar', reserveGaugeBar, 0, MAX_PRESSURE_BAR_ABS, 'bar', 'Reserve pressure');
   const reserveKg = input.reserveKg ?? 0;
   requireNonNegative('reserveKg', reserveKg, 'Reserve mass');
+  requireInRange('reserveKg', reserveKg, 0, MAX_CYLINDER_MASS_KG, 'kg', 'Reserve mass');
   if ('grossKg' in input && input.grossKg !== undefined) {
     const c = liquefiedContents(input as LiquefiedContentsInput);
     const gas = input.gas as LiquefiedGasCode;
