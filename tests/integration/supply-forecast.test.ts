@@ -109,6 +109,20 @@ describe('supply sources and readings', () => {
     expect(ok.body.contents / ((18 / 1.872814) * 1000)).toBeCloseTo(1, 3);
   });
 
+  it('a 50:50 N2O/O2 store at −6 °C: the reading and the forecast method carry the separation caution', async () => {
+    const types = await (await signedIn(app, org.users.administrator)).post('/api/cylinder-types', { gasCode: 'N2O_O2_50', waterCapacityL: 10, fillPressureBar: 137 });
+    expect(types.status).toBe(200);
+    const src = await fm.post(`/api/sites/${siteId}/sources`, { name: 'Cold 50:50 store', type: 'cylinder_store', gasCode: 'N2O_O2_50', cylinderTypeId: types.body.id, temperatureC: -6 });
+    expect(src.status).toBe(200);
+    const r = await fm.post(`/api/sources/${src.body.id}/readings`, { kind: 'store_count', full: 3, inUseGaugeBar: [100], takenAt: new Date().toISOString() });
+    expect(r.status).toBe(200);
+    // N2O condenses out of the 50:50 mixture below about −5.5 to −7 °C (BMJ 1968;3:715; anaesthesia teaching notes)
+    expect(r.body.cautions.join(' ')).toMatch(/hypoxic hazard/);
+    const detail = await fm.get(`/api/sources/${src.body.id}?draws=0`);
+    expect(detail.status).toBe(200);
+    expect(detail.body.method.cautions.join(' ')).toMatch(/−5\.5 to −7 °C/);
+  });
+
   it('refuses bad readings with field messages and writes nothing', async () => {
     const src = await fm.post(`/api/sites/${siteId}/sources`, tank('Tank C'));
     const before = await count('source_reading', 'source_id = ?', [src.body.id]);

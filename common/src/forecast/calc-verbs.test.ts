@@ -304,6 +304,32 @@ describe('calc forecast: liquefied gases are known by weight, not by gauge', () 
   });
 });
 
+describe('calc forecast: the 50:50 N2O/O2 separation caution', () => {
+  const entonox = (source: Record<string, unknown>) => ({
+    start: '2027-01-04T00:00',
+    timezone: 'Europe/London',
+    horizon_days: 5,
+    source: { type: 'cylinders', gas: 'N2O_O2_50', water_capacity_L: 10, fill_gauge_bar: 137, fill_temperature_C: 15, full: 4, ...source },
+    demand: [{ flow_L_min: 5 }],
+  });
+  const cautionsOf = (input: unknown) => ((forecastVerb(input) as { cautions: string[] }).cautions ?? []).join(' ');
+
+  it('appears when the store or the in-use temperature is at or below −5.5 °C (sources: −5.5 to −7 °C; BMJ 1968;3:715)', () => {
+    expect(cautionsOf(entonox({ in_use_temperature_C: -5.5 }))).toMatch(/hypoxic hazard\)\. Before use/);
+    expect(cautionsOf(entonox({ fill_temperature_C: -7, in_use_temperature_C: 15 }))).toMatch(/store temperature/);
+    expect(cautionsOf(entonox({ in_use_temperature_C: 18 }))).toBe('');
+    // an oxygen store at −10 °C has no such caution
+    expect(cautionsOf({ ...entonox({ in_use_temperature_C: -10 }), source: { ...entonox({}).source, gas: 'O2', in_use_temperature_C: -10 } })).toBe('');
+  });
+
+  it('refuses a bulk_liquid source of a mixture (50:50, heliox)', () => {
+    for (const gas of ['N2O_O2_50', 'HE_O2_79']) {
+      const input = { ...EXAMPLE, source: { ...EXAMPLE.source, gas } };
+      expect(() => forecastVerb(input)).toThrow(/not held as bulk liquid/);
+    }
+  });
+});
+
 describe('calc forecast: command line', () => {
   const repo = fileURLToPath(new URL('../../../', import.meta.url));
   const calc = (input: string) => spawnSync('node', ['--import', 'tsx', 'scripts/calc.ts', 'forecast'], { cwd: repo, input, encoding: 'utf8', timeout: 60_000 });

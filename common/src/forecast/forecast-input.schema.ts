@@ -1,5 +1,6 @@
 import { z } from 'zod';
 import { GAS_CODES, type GasCode } from '../gas/gases';
+import { isPremixedMixture } from '../gas/mixture-cautions';
 import { REFERENCE_CONDITIONS, type ReferenceCode } from '../gas/reference-conditions';
 import { MAX_HORIZON_DAYS, isValidTimeZone, resolveLocalTimeUtcMs } from './hour-index';
 import { MAX_DRAWS } from './monte-carlo';
@@ -65,6 +66,8 @@ export const bulkLiquidSourceSchema = z
     reserve_kg: atMost(nonNegative('reserve_kg'), MAX_KG, 'reserve_kg').optional(),
   })
   .superRefine((s, ctx) => {
+    // a premixed gas cannot be stored as one liquid: its components boil off at different rates
+    if (isPremixedMixture(s.gas)) ctx.addIssue({ code: 'custom', path: ['gas'], message: 'mixtures (50:50 N2O/O2, heliox) are not held as bulk liquid: use cylinders or a manifold' });
     if (s.contents_kg > s.capacity_kg) ctx.addIssue({ code: 'custom', path: ['contents_kg'], message: `contents ${s.contents_kg} kg are above the capacity ${s.capacity_kg} kg` });
     checkReorderFields(ctx, s.reorder_level_kg, s.reorder_level_days, s.reorder_level_percent, 'reorder_level_kg');
     const upTo = s.order_up_to_kg ?? s.capacity_kg;

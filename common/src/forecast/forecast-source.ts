@@ -1,6 +1,7 @@
 import { InvalidInputError } from '../api/errors';
 import { compressedContents } from '../gas/contents';
 import { isLiquefiedGas, type GasCode } from '../gas/gases';
+import { mixtureCautions } from '../gas/mixture-cautions';
 import { freeGasLitresPerKg, type ReferenceCode } from '../gas/reference-conditions';
 import { applyScenarios, buildHourlyDemand, type DemandLine } from './demand-lines';
 import { boundaryAtOrAfter, buildHourIndex, resolveLocalTimeUtcMs, type HourIndex } from './hour-index';
@@ -33,6 +34,11 @@ export interface SourceForecast {
   bands: HoursToEmptyBands | null;
   /** Manifold events (changeovers, bank replacements), elapsed hours; empty for other sources. */
   manifoldEvents: ManifoldEvent[];
+  /**
+   * Cautions that travel with the forecast: the 50:50 N2O/O2 separation caution when the fill (store)
+   * or in-use temperature is at or below the separation threshold, or below the storage minimum.
+   */
+  cautions: string[];
   /** Conversion factors used, for the method panel. */
   factors: { freeGasLitresPerKg?: number; fullCylinderFreeGasL?: number; residualPerCylinderL?: number };
 }
@@ -151,6 +157,7 @@ export function forecastSource(input: ForecastInput): SourceForecast {
     firstRisk: result.firstRisk,
     bands,
     manifoldEvents: [],
+    cautions: src.type === 'bulk_liquid' ? [] : temperatureCautions(src),
     factors,
   };
 }
@@ -172,6 +179,14 @@ function cylinderReorderLevel(
     return l === null ? null : l / perCylL;
   };
   return relativeLevel(src, perDay, src.order_up_to_cylinders ?? 0);
+}
+
+/** Mixture cautions for the store (fill) and in-use temperatures of a cylinder source, the colder first. */
+function temperatureCautions(src: CylinderSourceInput | ManifoldSourceInput): string[] {
+  const store = src.fill_temperature_C;
+  const inUse = src.in_use_temperature_C ?? store;
+  const colder = inUse < store ? { t: inUse, where: 'The in-use temperature' } : { t: store, where: 'The store temperature' };
+  return mixtureCautions(src.gas, colder.t, colder.where);
 }
 
 /**
@@ -268,6 +283,7 @@ function forecastManifold(
     firstRisk,
     bands,
     manifoldEvents: result.events,
+    cautions: temperatureCautions(src),
     factors: { fullCylinderFreeGasL: perCyl, residualPerCylinderL: residual },
   };
 }

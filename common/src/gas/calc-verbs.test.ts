@@ -21,7 +21,7 @@ describe('calc verbs in process', () => {
     expect(out).toHaveLength(2);
     // reference equation of state for O2 (Schmidt & Wagner, 1985), value from reference table (tests/reference): Z = 0.931150 at 288.15 K, 200 bar
     expect(Math.abs(out[0].Z / 0.93115 - 1)).toBeLessThan(0.001);
-    expect(Object.keys(out[0]).sort()).toEqual(['Z', 'density_kg_m3', 'ideal_density_kg_m3', 'method', 'phase']);
+    expect(Object.keys(out[0]).sort()).toEqual(['Z', 'cautions', 'density_kg_m3', 'ideal_density_kg_m3', 'method', 'phase']);
     expect(out[1].phase).toBe('gas');
     let error: InvalidInputError | null = null;
     try {

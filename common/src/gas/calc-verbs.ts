@@ -5,7 +5,7 @@ import { GAS_CODES, isLiquefiedGas, type GasCode, type LiquefiedGasCode } from '
 import { compressibility } from './eos';
 import { REFERENCE_CODES, type ReferenceCode } from './reference-conditions';
 import { compressedContents, cylinderDuration, liquefiedContents, pressureAtTemperature } from './contents';
-import { PLANNING_CAUTION } from './mixture-cautions';
+import { PLANNING_CAUTION, mixtureCautions } from './mixture-cautions';
 
 /**
  * Calc verbs of the gas module (`npm run --silent calc -- VERB`, JSON in, JSON out). Field names
@@ -208,7 +208,7 @@ const zVerb: CalcVerb = (input) => {
       return withIndex(i, () => {
         const v = parseOrThrow(zItemSchema, item, 'state');
         const r = compressibility(v.gas, v.temperature_C + 273.15, v.pressure_bar_abs);
-        return { Z: r.Z, density_kg_m3: r.densityKgM3, ideal_density_kg_m3: r.idealDensityKgM3, phase: r.phase, method: r.method };
+        return { Z: r.Z, density_kg_m3: r.densityKgM3, ideal_density_kg_m3: r.idealDensityKgM3, phase: r.phase, method: r.method, cautions: mixtureCautions(v.gas, v.temperature_C) };
       });
     } catch (e) {
       if (e instanceof InvalidInputError) {

@@ -122,7 +122,9 @@ describe('compressed-gas contents', () => {
   });
 
   it('carries the 50:50 nitrous oxide/oxygen separation caution when cold', () => {
-    // domain facts §5: below about −6 °C N2O condenses out (hypoxic hazard); store above 10 °C; ≥ 24 h flat at ≥ 5 °C, invert
+    // Bracken, Broughton & Hill, BMJ 1968;3:715, and anaesthesia teaching notes: N2O condenses out of the 50:50
+    // mixture below about −5.5 to −7 °C (hypoxic hazard); store above 10 °C; ≥ 24 h flat at ≥ 5 °C and invert
+    // (sports-medicine gas guidance)
     const cold = compressedContents({ gas: 'N2O_O2_50', waterCapacityL: 10, gaugeBar: 137, temperatureC: -10 });
     expect(cold.cautions.join(' ')).toMatch(/hypoxic/);
     expect(cold.cautions.join(' ')).toMatch(/24 hours/);
@@ -130,6 +132,15 @@ describe('compressed-gas contents', () => {
     expect(compressedContents({ gas: 'N2O_O2_50', waterCapacityL: 10, gaugeBar: 137, temperatureC: 5 }).cautions.join(' ')).toMatch(/above 10 °C/);
     expect(compressedContents({ gas: 'N2O_O2_50', waterCapacityL: 10, gaugeBar: 137, temperatureC: 20 }).cautions).toEqual([]);
     expect(compressedContents({ gas: 'O2', waterCapacityL: 10, gaugeBar: 137, temperatureC: -10 }).cautions).toEqual([]);
+  });
+
+  it('the separation threshold is inclusive, at the warmest published onset (−5.5 °C), and states the sources’ range', () => {
+    const at = compressedContents({ gas: 'N2O_O2_50', waterCapacityL: 10, gaugeBar: 137, temperatureC: -5.5 });
+    expect(at.cautions.join(' ')).toMatch(/hypoxic hazard\)\. Before use/);
+    expect(at.cautions.join(' ')).toMatch(/−5\.5 to −7 °C/);
+    expect(compressedContents({ gas: 'N2O_O2_50', waterCapacityL: 10, gaugeBar: 137, temperatureC: -6 }).cautions.join(' ')).toMatch(/24 hours/);
+    // the reading taken cold and asked about at a warm temperature still carries the caution
+    expect(pressureAtTemperature({ gas: 'N2O_O2_50', gaugeBar: 120, temperatureC: -8, newTemperatureC: 20 }).cautions.join(' ')).toMatch(/24 hours/);
   });
 
   it('rejects NaN, non-positive absolute pressure, bad volumes and temperatures outside the range', () => {

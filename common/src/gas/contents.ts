@@ -264,7 +264,8 @@ export function pressureAtTemperature(input: PressureAtTemperatureInput): { pres
   }
   const rho = molarDensityMolM3(s.gas, s.temperatureK, s.pressureBarAbs);
   const pressureBarAbs = pressureOfContentsAt(s.gas, rho, newTemperatureK);
-  const cautions = mixtureCautions(s.gas, input.newTemperatureC);
+  // the reading itself may have been taken cold: the colder of the two temperatures decides
+  const cautions = mixtureCautions(s.gas, Math.min(input.temperatureC, input.newTemperatureC));
   if (pressureBarAbs > MAX_PRESSURE_BAR_ABS) cautions.push(beyondRangeCaution(pressureBarAbs));
   return { pressureBarAbs, gaugeBar: pressureBarAbs - s.atmosphericBar, cautions };
 }

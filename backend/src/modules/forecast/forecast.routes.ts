@@ -145,6 +145,7 @@ async function sourceDetail(actor: Actor, id: number, q: { scenario?: number; dr
     readings: readings.map((r) => presentReading(r, names)),
     method: {
       caution: FORECAST_CAUTION,
+      cautions: f?.cautions ?? [],
       basis: o.basis,
       reference: REFERENCE_CONDITIONS[reference].label,
       startedFrom: o.startUtc,

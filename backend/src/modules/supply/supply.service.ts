@@ -2,6 +2,7 @@ import { In, type EntityManager } from 'typeorm';
 import { DateTime } from 'luxon';
 import type { DeliveryInput, ReadingInput, ScenarioInput, SourceInput, TherapyLineInput, WardInput } from '@common/schemas/supply.schema';
 import { compressedContents } from '@common/gas/contents';
+import { mixtureCautions } from '@common/gas/mixture-cautions';
 import { levelPercentToKg, loxLitresToKg, contentsFromCalibrationTable } from '@common/gas/liquid-oxygen';
 import { freeGasLitresPerKg, type ReferenceCode } from '@common/gas/reference-conditions';
 import { isLiquefiedGas, type GasCode } from '@common/gas/gases';
@@ -252,7 +253,9 @@ export async function addReading(actor: Actor, sourceId: number, input: ReadingI
     const saved = await m.getRepository(SourceReading).save(m.getRepository(SourceReading).create({ sourceId, takenAt, kind, value, detailJson: detail, contents, method, note, takenByUserId: actor.user.id }));
     await recordAudit(m, whoOf(actor), { action: 'create', entity: 'source_reading', entityId: saved.id, after: presentReading(saved) });
     await bumpSiteVersion(m, source.siteId);
-    return presentReading(saved, new Map([[actor.user.id, actor.user.name]]));
+    // a 50:50 N2O/O2 reading taken in a cold store: the contents assume a mixture that may have separated
+    const cautions = mixtureCautions(source.gasCode as GasCode, source.temperatureC ?? site.storeTemperatureC, 'The temperature of this reading');
+    return { ...presentReading(saved, new Map([[actor.user.id, actor.user.name]])), cautions };
   });
 }
 

@@ -121,6 +121,8 @@ export interface SourceDetail {
   readings: Reading[];
   method: {
     caution: string;
+    /** Cautions of this forecast (e.g. the 50:50 N2O/O2 separation caution for a cold store). */
+    cautions?: string[];
     basis: { used: ForecastBasis; message: string; modelledLPerDay: number; measuredLPerDay: number | null };
     reference: string;
     startedFrom: string | null;

@@ -17,6 +17,11 @@ export function MethodPanel({ detail }: { detail: SourceDetail }) {
         <Alert tone="warn" title="Planning estimate only">
           {method.caution}
         </Alert>
+        {(method.cautions ?? []).map((c) => (
+          <Alert key={c} tone="critical" title="Caution">
+            {c}
+          </Alert>
+        ))}
         <dl className="grid gap-3 text-sm sm:grid-cols-2">
           <div>
             <dt className="text-fg-muted">Demand basis</dt>
