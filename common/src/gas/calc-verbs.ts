@@ -189,7 +189,7 @@ function durationOf(item: unknown): Record<string, unknown> {
       reserveGaugeBar: extra.reserve_gauge_bar,
     });
   }
-  return { minutes: r.minutes, usable_free_gas_L: r.usableFreeGasL, reference: r.reference, cautions: [...r.cautions, PLANNING_CAUTION] };
+  return { minutes: r.minutes, usable_free_gas_L: r.usableFreeGasL, reference: r.reference, reserve_gauge_bar: r.reserveGaugeBar, reserve_basis: r.reserveBasis, cautions: [...r.cautions, PLANNING_CAUTION] };
 }
 
 /**

@@ -193,12 +193,25 @@ describe('cylinder duration', () => {
     // 19 min keeping a ¼ residual (57.5 bar). The real-gas contents of oxygen are ~7 % larger at these pressures.
     const ideal = compressedContents({ gas: 'O2', waterCapacityL: 2, gaugeBar: 115, temperatureC: 15 }).idealFreeGasL;
     expect(ideal / 6).toBeCloseTo(37.8, 1);
-    const d = cylinderDuration({ gas: 'O2', waterCapacityL: 2, gaugeBar: 115, temperatureC: 15, flowLMin: 6 });
+    // the worked example runs to empty: reserve 0 given explicitly (the default is now a stated residual)
+    const d = cylinderDuration({ gas: 'O2', waterCapacityL: 2, gaugeBar: 115, temperatureC: 15, flowLMin: 6, reserveGaugeBar: 0 });
     expect(d.minutes).toBeGreaterThan(38);
     expect(d.minutes).toBeLessThan(38 * 1.1);
     const kept = cylinderDuration({ gas: 'O2', waterCapacityL: 2, gaugeBar: 115, temperatureC: 15, flowLMin: 6, reserveGaugeBar: 57.5 });
     expect(kept.minutes).toBeGreaterThan(19);
     expect(kept.minutes).toBeLessThan(19 * 1.1);
+  });
+
+  it('with no reserve given, duration keeps the stated 200 psi (13.8 bar) residual and says so', () => {
+    // US EMS oxygen-cylinder guidance: ~200 psi residual subtracted in duration sums. Hand calculation, ideal gas:
+    // 2 L × (115 − 13.79) bar / 1.01325 bar = 199.8 L at 15 °C → 33.3 min at 6 L/min; oxygen's real-gas
+    // contents are a few % larger at these pressures (Schmidt & Wagner 1985, z-grid in tests/reference).
+    const d = cylinderDuration({ gas: 'O2', waterCapacityL: 2, gaugeBar: 115, temperatureC: 15, flowLMin: 6 });
+    expect(d.reserveGaugeBar).toBeCloseTo(13.79, 2);
+    expect(d.reserveBasis).toMatch(/200 psi/);
+    expect(d.cautions.join(' ')).toMatch(/reserve of 13\.8 bar g/);
+    expect(d.minutes).toBeGreaterThan(33.3);
+    expect(d.minutes).toBeLessThan(33.3 * 1.08);
   });
 
   it('worked example WE-1: (2000 − 200 psi) × 0.16 L/psi at 0.5 L/min ≈ 576 min', () => {

@@ -384,10 +384,26 @@ export function liquefiedContents(input: LiquefiedContentsInput): LiquefiedConte
   };
 }
 
+/**
+ * Residual a compressed-gas cylinder is changed at when none is given, bar(g): 200 psi = 13.8 bar, the
+ * residual US EMS oxygen-cylinder guidance subtracts in duration sums (about 10 % of a 137–200 bar fill).
+ * No standard sets one (UK sports-medicine guidance changes at a quarter full): editable, and stated
+ * beside every result that uses it.
+ */
+export const DEFAULT_RESERVE_GAUGE_BAR = 200 * 0.0689475729;
+export const DEFAULT_RESERVE_SOURCE = '200 psi (13.8 bar) residual, as US EMS oxygen-cylinder guidance subtracts in duration sums';
+
+/**
+ * Residual of a cylinder type when none is set: 10 % of the nominal fill pressure (US EMS guidance: about
+ * 200 psi of a 2,000–2,200 psi fill). Common practice, editable per cylinder type.
+ */
+export const DEFAULT_RESIDUAL_FRACTION_OF_FILL = 0.1;
+export const DEFAULT_RESIDUAL_SOURCE = 'default 10 % of the fill pressure (US EMS oxygen-cylinder guidance: about 200 psi of a 2,000–2,200 psi fill; common practice)';
+
 export interface DurationOptions {
   /** Flow of free gas at the same reference conditions, L/min. */
   flowLMin: number;
-  /** Pressure left in the cylinder when it is changed, bar(g) (default 0). */
+  /** Pressure left in the cylinder when it is changed, bar(g) (default DEFAULT_RESERVE_GAUGE_BAR, stated in the result). */
   reserveGaugeBar?: number;
   /** Liquefied gases: mass kept in the cylinder, kg (default 0). */
   reserveKg?: number;
@@ -398,6 +414,9 @@ export interface DurationResult {
   usableFreeGasL: number;
   reference: ReferenceCode;
   cautions: string[];
+  /** Compressed gases: the reserve used, bar(g), and where it came from (given, or the stated default). */
+  reserveGaugeBar: number;
+  reserveBasis: string;
 }
 
 /**
@@ -411,13 +430,17 @@ export function cylinderDuration(
 ): DurationResult {
   requirePositive('flowLMin', input.flowLMin, 'Flow');
   requireInRange('flowLMin', input.flowLMin, FLOW_RANGE_L_MIN.min, FLOW_RANGE_L_MIN.max, 'L/min', 'Flow');
-  const reserveGaugeBar = input.reserveGaugeBar ?? 0;
+  const weighed = 'grossKg' in input && input.grossKg !== undefined;
+  // liquefied gases: the reserve is a mass (reserveKg) and the gas left at atmospheric pressure
+  const reserveGiven = input.reserveGaugeBar !== undefined;
+  const reserveGaugeBar = input.reserveGaugeBar ?? (weighed ? 0 : DEFAULT_RESERVE_GAUGE_BAR);
+  const reserveBasis = reserveGiven ? 'reserve as given' : weighed ? 'no reserve mass given: run until the gas left is at atmospheric pressure' : `no reserve given: ${DEFAULT_RESERVE_SOURCE}`;
   requireNonNegative('reserveGaugeBar', reserveGaugeBar, 'Reserve pressure');
   requireInRange('reserveGaugeBar', reserveGaugeBar, 0, MAX_PRESSURE_BAR_ABS, 'bar', 'Reserve pressure');
   const reserveKg = input.reserveKg ?? 0;
   requireNonNegative('reserveKg', reserveKg, 'Reserve mass');
   requireInRange('reserveKg', reserveKg, 0, MAX_CYLINDER_MASS_KG, 'kg', 'Reserve mass');
-  if ('grossKg' in input && input.grossKg !== undefined) {
+  if (weighed) {
     const c = liquefiedContents(input as LiquefiedContentsInput);
     const gas = input.gas as LiquefiedGasCode;
     const temperatureK = input.temperatureC + 273.15;
@@ -435,7 +458,7 @@ export function cylinderDuration(
     const retainedKg = (input.waterCapacityL / 1000) * molarDensityMolM3(gas, temperatureK, reserveAbs) * M + reserveKg;
     const usableKg = Math.max(0, c.massKg - retainedKg);
     const usableFreeGasL = (usableKg / M) * referenceMolarVolumeLMol(gas, c.reference);
-    return { minutes: usableFreeGasL / input.flowLMin, usableFreeGasL, reference: c.reference, cautions };
+    return { minutes: usableFreeGasL / input.flowLMin, usableFreeGasL, reference: c.reference, cautions, reserveGaugeBar, reserveBasis };
   }
   const ci = input as CompressedContentsInput;
   const s = readCylinderState(ci);
@@ -445,5 +468,6 @@ export function cylinderDuration(
   else validateStateAt(s.gas, s.temperatureK, reserveAbs, 'temperatureC', 'reserveGaugeBar');
   const usableMoles = deliveredMoles(s, s.pressureBarAbs, reserveAbs);
   const usableFreeGasL = usableMoles * referenceMolarVolumeLMol(s.gas, s.reference);
-  return { minutes: usableFreeGasL / input.flowLMin, usableFreeGasL, reference: s.reference, cautions };
+  if (!reserveGiven) cautions.push(`Duration to a reserve of ${reserveGaugeBar.toFixed(1)} bar g (${DEFAULT_RESERVE_SOURCE}); give your own reserve to change it.`);
+  return { minutes: usableFreeGasL / input.flowLMin, usableFreeGasL, reference: s.reference, cautions, reserveGaugeBar, reserveBasis };
 }
