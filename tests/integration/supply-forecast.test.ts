@@ -123,6 +123,25 @@ describe('supply sources and readings', () => {
     expect(detail.body.method.cautions.join(' ')).toMatch(/−5\.5 to −7 °C/);
   });
 
+  it('a cylinder store is forecast to its cylinder type’s residual (default 10 % of fill, stated in the method)', async () => {
+    const admin = await signedIn(app, org.users.administrator);
+    const types = await admin.post('/api/cylinder-types', { gasCode: 'O2', waterCapacityL: 10, fillPressureBar: 230 });
+    expect(types.status).toBe(200);
+    // default: 10 % of the fill pressure (US EMS guidance keeps about 200 psi of a 2,000–2,200 psi fill; common practice)
+    expect(types.body.residual.gaugeBar).toBeCloseTo(23, 9);
+    expect(types.body.residual.basis).toMatch(/10 % of the fill pressure/);
+    const src = await fm.post(`/api/sites/${siteId}/sources`, { name: 'O2 store R', type: 'cylinder_store', gasCode: 'O2', cylinderTypeId: types.body.id, temperatureC: 15 });
+    await fm.post(`/api/sources/${src.body.id}/readings`, { kind: 'store_count', full: 2, takenAt: new Date().toISOString() });
+    const detail = await fm.get(`/api/sources/${src.body.id}?draws=0`);
+    expect(detail.body.method.residual.gaugeBar).toBeCloseTo(23, 9);
+    const defaultContents = detail.body.outlook.contents;
+    expect(defaultContents).toBeLessThan(2 * types.body.nominal.freeGasL);
+    const edited = await admin.put(`/api/cylinder-types/${types.body.id}`, { gasCode: 'O2', waterCapacityL: 10, fillPressureBar: 230, residualGaugeBar: 50 });
+    expect(edited.status).toBe(200);
+    expect(edited.body.residual.basis).toMatch(/set for this cylinder type/);
+    expect((await admin.put(`/api/cylinder-types/${types.body.id}`, { gasCode: 'O2', waterCapacityL: 10, fillPressureBar: 230, residualGaugeBar: 230 })).status).toBe(400);
+  });
+
   it('refuses bad readings with field messages and writes nothing', async () => {
     const src = await fm.post(`/api/sites/${siteId}/sources`, tank('Tank C'));
     const before = await count('source_reading', 'source_id = ?', [src.body.id]);

@@ -164,6 +164,7 @@ describe('calc forecast: analytic cases', () => {
       source: {
         type: 'cylinders', gas: 'O2', water_capacity_L: 47, fill_gauge_bar: 137, fill_temperature_C: 15,
         full: 10, in_use_gauge_bar: [], reorder_level_cylinders: 4, order_up_to_cylinders: 12, lead_time_hours: 24,
+        residual_gauge_bar: 0, // HTM's nominal contents are to empty
       },
       demand: [{ flow_L_min: 10 }],
     });
@@ -327,6 +328,31 @@ describe('calc forecast: the 50:50 N2O/O2 separation caution', () => {
       const input = { ...EXAMPLE, source: { ...EXAMPLE.source, gas } };
       expect(() => forecastVerb(input)).toThrow(/not held as bulk liquid/);
     }
+  });
+});
+
+describe('calc forecast: cylinders are changed at a stated residual, not drained flat', () => {
+  it('defaults to 10 % of the fill pressure, says so, and counts only the gas above it', () => {
+    const input = (residual?: number) => ({
+      start: '2027-01-04T00:00',
+      timezone: 'Europe/London',
+      horizon_days: 5,
+      source: { type: 'cylinders', gas: 'O2', water_capacity_L: 50, fill_gauge_bar: 200, fill_temperature_C: 15, full: 4, in_use_gauge_bar: [], ...(residual === undefined ? {} : { residual_gauge_bar: residual }) },
+      demand: [{ flow_L_min: 10 }],
+    });
+    const flat = forecastVerb(input(0)) as Out & { residual: { gauge_bar: number; basis: string } };
+    const kept = forecastVerb(input()) as Out & { residual: { gauge_bar: number; basis: string } };
+    expect(kept.residual.gauge_bar).toBe(20);
+    expect(kept.residual.basis).toMatch(/10 % of the fill pressure/);
+    // Hand calculation with Z of oxygen at 288.15 K from the z-grid in tests/reference (Schmidt & Wagner 1985):
+    // Z(20 bar) = 0.9854, Z(1.01325 bar) ≈ 0.9993. Gas a 50 L cylinder holds between 21.01 and 1.01 bar abs:
+    // 50 × (21.013/0.9856 − 1.013/0.9993) / 1.01325 × 0.9993 ≈ 1,001 L of free gas at 15 °C, 1.01325 bar.
+    const perCylDrop = (flat.contents_at_start - kept.contents_at_start) / 4;
+    expect(Math.abs(perCylDrop / 1001 - 1)).toBeLessThan(0.01);
+  });
+
+  it('refuses a residual at or above the fill pressure', () => {
+    expect(() => forecastVerb({ start: '2027-01-04T00:00', timezone: 'Europe/London', source: { type: 'cylinders', gas: 'O2', water_capacity_L: 50, fill_gauge_bar: 200, full: 1, residual_gauge_bar: 200 } })).toThrow(InvalidInputError);
   });
 });
 

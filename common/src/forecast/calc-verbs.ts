@@ -58,6 +58,7 @@ export function presentForecast(f: SourceForecast, draws: number): Record<string
       draws_outlasting_horizon: f.bands.drawsOutlastingHorizon,
     };
   }
+  if (f.residual) out.residual = { gauge_bar: round(f.residual.gaugeBar, 4), basis: f.residual.basis };
   out.cautions = f.cautions;
   out.caution = FORECAST_CAUTION;
   return out;

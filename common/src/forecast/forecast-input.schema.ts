@@ -116,11 +116,19 @@ export const cylinderSourceSchema = z
     type: z.literal('cylinders'),
     ...cylinderFields,
     full: wholeCount('full'),
+    /**
+     * Gauge pressure at which a cylinder is changed (gas left behind), bar(g). Default: 10 % of
+     * fill_gauge_bar (US EMS guidance keeps about 200 psi of a 2,000–2,200 psi fill; common practice).
+     */
+    residual_gauge_bar: atMost(nonNegative('residual_gauge_bar'), 350, 'residual_gauge_bar').optional(),
     in_use_gauge_bar: z.array(atMost(nonNegative('in-use gauge reading (bar)'), 350, 'in-use gauge reading (bar)')).max(10_000).default([]),
     /** CO2 and N2O: weighed net contents (gross − tare) of each part-used cylinder, kg. */
     in_use_net_kg: z.array(nonNegative('in-use net weight (kg)').max(1000, { error: 'in-use net weight must be ≤ 1000 kg' })).default([]),
   })
-  .superRefine((s, ctx) => checkCylinderReorder(ctx, s));
+  .superRefine((s, ctx) => {
+    checkCylinderReorder(ctx, s);
+    if (s.residual_gauge_bar !== undefined && s.residual_gauge_bar >= s.fill_gauge_bar) ctx.addIssue({ code: 'custom', path: ['residual_gauge_bar'], message: 'must be below the fill pressure' });
+  });
 
 const bankGauge = atMost(nonNegative('gauge reading (bar)'), 350, 'gauge reading (bar)');
 const bankReadings = z.union([bankGauge, z.array(bankGauge).min(1)]);

@@ -1,5 +1,5 @@
 import { InvalidInputError } from '../api/errors';
-import { compressedContents } from '../gas/contents';
+import { DEFAULT_RESIDUAL_FRACTION_OF_FILL, DEFAULT_RESIDUAL_SOURCE, compressedContents } from '../gas/contents';
 import { isLiquefiedGas, type GasCode } from '../gas/gases';
 import { mixtureCautions } from '../gas/mixture-cautions';
 import { freeGasLitresPerKg, type ReferenceCode } from '../gas/reference-conditions';
@@ -39,8 +39,10 @@ export interface SourceForecast {
    * or in-use temperature is at or below the separation threshold, or below the storage minimum.
    */
   cautions: string[];
+  /** Cylinder stores: the gauge pressure each cylinder is changed at and where it came from; null otherwise. */
+  residual: { gaugeBar: number; basis: string } | null;
   /** Conversion factors used, for the method panel. */
-  factors: { freeGasLitresPerKg?: number; fullCylinderFreeGasL?: number; residualPerCylinderL?: number };
+  factors: { freeGasLitresPerKg?: number; fullCylinderFreeGasL?: number; residualPerCylinderL?: number; usablePerCylinderL?: number };
 }
 
 /** Re-labels the gas engine's field paths with the forecast request's. */
@@ -93,6 +95,7 @@ export function forecastSource(input: ForecastInput): SourceForecast {
   if (src.type === 'manifold') return forecastManifold(input, src, index, demandL, boundaryOf);
 
   let model: DepletionModel;
+  let residual: SourceForecast['residual'] = null;
   let unit: 'kg' | 'L';
   let factors: SourceForecast['factors'];
   if (src.type === 'bulk_liquid') {
@@ -116,18 +119,28 @@ export function forecastSource(input: ForecastInput): SourceForecast {
     }
   } else {
     unit = 'L';
-    const perCyl = fullCylinderFreeGasL(src, input.reference);
+    const fullL = fullCylinderFreeGasL(src, input.reference);
     const inUseT = src.in_use_temperature_C ?? src.fill_temperature_C;
+    // each cylinder is changed at its residual, not drawn flat: what stays behind is not stock
+    const liquefied = isLiquefiedGas(src.gas);
+    const residualBar = liquefied ? 0 : (src.residual_gauge_bar ?? DEFAULT_RESIDUAL_FRACTION_OF_FILL * src.fill_gauge_bar);
+    residual = {
+      gaugeBar: residualBar,
+      basis: liquefied ? 'liquefied gas: drawn until the liquid is gone (no residual)' : src.residual_gauge_bar !== undefined ? 'residual as given' : DEFAULT_RESIDUAL_SOURCE,
+    };
+    const residualL = residualBar > 0 ? cylinderFreeGasL(src.gas, src.water_capacity_L, residualBar, inUseT, input.reference, 'residual_gauge_bar') : 0;
+    const perCyl = fullL - residualL;
+    if (!(perCyl > 0)) throw new InvalidInputError('The residual leaves no usable gas in a full cylinder', [{ path: 'source.residual_gauge_bar', message: 'must be well below the fill pressure' }]);
     let inUse = 0;
     src.in_use_gauge_bar.forEach((g, k) => {
-      inUse += cylinderFreeGasL(src.gas, src.water_capacity_L, g, inUseT, input.reference, `in_use_gauge_bar.${k}`);
+      inUse += Math.max(0, cylinderFreeGasL(src.gas, src.water_capacity_L, g, inUseT, input.reference, `in_use_gauge_bar.${k}`) - residualL);
     });
     if (src.in_use_net_kg.length > 0) {
       if (!isLiquefiedGas(src.gas)) throw new InvalidInputError('in_use_net_kg is for liquefied gases (CO2, N2O): give in_use_gauge_bar for this gas', [{ path: 'source.in_use_net_kg', message: 'for CO2 and N2O only' }]);
       const lPerKg = withGasPaths('source', {}, () => freeGasLitresPerKg(src.gas, input.reference));
       for (const kg of src.in_use_net_kg) inUse += kg * lPerKg;
     }
-    factors = { fullCylinderFreeGasL: perCyl };
+    factors = { fullCylinderFreeGasL: fullL, residualPerCylinderL: residualL, usablePerCylinderL: perCyl };
     model = {
       contentsStart: src.full * perCyl + inUse,
       capacity: Infinity,
@@ -158,6 +171,7 @@ export function forecastSource(input: ForecastInput): SourceForecast {
     bands,
     manifoldEvents: [],
     cautions: src.type === 'bulk_liquid' ? [] : temperatureCautions(src),
+    residual,
     factors,
   };
 }
@@ -284,6 +298,7 @@ function forecastManifold(
     bands,
     manifoldEvents: result.events,
     cautions: temperatureCautions(src),
+    residual: { gaugeBar: src.changeover_gauge_bar, basis: 'the manifold’s changeover pressure' },
     factors: { fullCylinderFreeGasL: perCyl, residualPerCylinderL: residual },
   };
 }

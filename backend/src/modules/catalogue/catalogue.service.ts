@@ -1,6 +1,7 @@
 import { In, type EntityManager } from 'typeorm';
 import type { CylinderTypeInput, SupplierInput } from '@common/schemas/admin.schema';
 import { cylinderTypeName, nominalContents } from '@common/catalogue/cylinder-type';
+import { DEFAULT_RESIDUAL_FRACTION_OF_FILL, DEFAULT_RESIDUAL_SOURCE } from '@common/gas/contents';
 import { db } from '../../db/db';
 import { CylinderType, Gas, Supplier, SupplierPrice } from '../../db/entities/catalogue.entity';
 import type { Actor } from '../../http/context';
@@ -21,6 +22,9 @@ export function presentCylinderType(c: CylinderType) {
     fillPressureBar: c.fillPressureBar,
     tareKg: c.tareKg,
     maxFillingRatioKgPerL: c.maxFillingRatioKgPerL,
+    residualGaugeBar: c.residualGaugeBar ?? null,
+    /** The residual the forecasts use: the type's own, else 10 % of the fill, with where it comes from. */
+    residual: c.residualGaugeBar != null ? { gaugeBar: c.residualGaugeBar, basis: 'set for this cylinder type' } : { gaugeBar: DEFAULT_RESIDUAL_FRACTION_OF_FILL * c.fillPressureBar, basis: DEFAULT_RESIDUAL_SOURCE },
     material: c.material,
     valveNotes: c.valveNotes,
     active: c.active,
@@ -52,7 +56,7 @@ export async function createCylinderType(actor: Actor, input: CylinderTypeInput)
   return db().transaction(async (m) => {
     await assertUniqueType(m, actor, input);
     const repo = m.getRepository(CylinderType);
-    const saved = await repo.save(repo.create({ ...input, tareKg: input.tareKg ?? null, maxFillingRatioKgPerL: input.maxFillingRatioKgPerL ?? null, organisationId: actor.user.organisationId }));
+    const saved = await repo.save(repo.create({ ...input, tareKg: input.tareKg ?? null, maxFillingRatioKgPerL: input.maxFillingRatioKgPerL ?? null, residualGaugeBar: input.residualGaugeBar ?? null, organisationId: actor.user.organisationId }));
     const row = presentCylinderType(saved);
     await recordAudit(m, whoOf(actor), { action: 'create', entity: 'cylinder_type', entityId: String(saved.id), after: row });
     return row;
@@ -63,7 +67,7 @@ export async function updateCylinderType(actor: Actor, id: number, input: Cylind
   return db().transaction(async (m) => {
     const before = presentCylinderType(await cylinderTypeInOrg(m, actor, id));
     await assertUniqueType(m, actor, input, id);
-    await m.getRepository(CylinderType).update({ id }, { ...input, tareKg: input.tareKg ?? null, maxFillingRatioKgPerL: input.maxFillingRatioKgPerL ?? null });
+    await m.getRepository(CylinderType).update({ id }, { ...input, tareKg: input.tareKg ?? null, maxFillingRatioKgPerL: input.maxFillingRatioKgPerL ?? null, residualGaugeBar: input.residualGaugeBar ?? null });
     const after = presentCylinderType(await cylinderTypeInOrg(m, actor, id));
     await recordAudit(m, whoOf(actor), { action: 'update', entity: 'cylinder_type', entityId: String(id), before, after });
     return after;

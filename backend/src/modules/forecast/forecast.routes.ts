@@ -116,7 +116,7 @@ async function sourceDetail(actor: Actor, id: number, q: { scenario?: number; dr
         p90: f.bands.p90 !== null && Number.isFinite(f.bands.p90) ? new Date(startMs + f.bands.p90 * MS_H).toISOString() : null,
       }
     : null;
-  const perCyl = f?.factors.fullCylinderFreeGasL;
+  const perCyl = f?.factors.usablePerCylinderL ?? f?.factors.fullCylinderFreeGasL;
   const dailyLoss = f && f.daysOfStockAtStart ? f.contentsStart / f.daysOfStockAtStart : null;
   let reorderLevel: number | null = null;
   if (s.reorderMode !== 'none' && s.reorderLevel !== null) {
@@ -151,7 +151,8 @@ async function sourceDetail(actor: Actor, id: number, q: { scenario?: number; dr
       startedFrom: o.startUtc,
       leadTimeHours: o.leadTimeHours,
       freeGasLitresPerKg: f?.factors.freeGasLitresPerKg ?? null,
-      fullCylinderFreeGasL: perCyl ?? null,
+      fullCylinderFreeGasL: f?.factors.fullCylinderFreeGasL ?? null,
+      residual: f?.residual ?? null,
       demandLines: lines.map((l) => ({ label: l.label ?? '', flowLMin: l.flow_L_min, hours: l.hours ?? null, weekdays: l.weekdays ?? null })),
       text: [
         'Hour-by-hour projection in the site’s time zone from the latest reading: each hour removes the demand of the wards this source feeds (therapy lines × device flows, plus leakage)',

@@ -253,7 +253,7 @@ export function buildForecastInput(model: SiteModel, s: SupplySource, opts: Fore
       raw = {
         ...common,
         deliveries: deliveries.filter((d) => 'cylinders' in d),
-        source: { type: 'cylinders', ...cylinderCommon, full: Number(detail.full ?? 0), in_use_gauge_bar: (detail.inUseGaugeBar as number[] | undefined) ?? [] },
+        source: { type: 'cylinders', ...cylinderCommon, full: Number(detail.full ?? 0), in_use_gauge_bar: (detail.inUseGaugeBar as number[] | undefined) ?? [], ...(cyl.residualGaugeBar != null ? { residual_gauge_bar: cyl.residualGaugeBar } : {}) },
       };
     }
   }

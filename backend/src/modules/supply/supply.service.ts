@@ -212,7 +212,7 @@ export function contentsOfReading(source: SupplySource, site: Site, cyl: Cylinde
             { path: 'inUseGaugeBar', message: 'weigh the cylinder: gross − tare' },
           ]);
         }
-        return (r.full * perFullKg + r.inUseNetKg.reduce((sum, kg) => sum + kg, 0)) * lPerKg;
+        return (r.full * perFullKg + (r.inUseNetKg ?? []).reduce((sum, kg) => sum + kg, 0)) * lPerKg;
       }
       throw badRequest('The gauge of a liquefied gas shows vapour pressure, not contents: count full and in-use cylinders instead', [{ path: 'kind', message: 'use a store count' }]);
     }
@@ -226,7 +226,7 @@ export function contentsOfReading(source: SupplySource, site: Site, cyl: Cylinde
       return n * (perCyl(r.dutyBar) + perCyl(r.standbyBar)) + r.spareFull * full;
     }
     if (r.kind === 'store_count') {
-      if (r.inUseNetKg.length > 0) throw badRequest('Net weights are for liquefied gases (CO2, N2O): give a gauge reading for each part-used cylinder', [{ path: 'inUseNetKg', message: 'gauge readings for this gas' }]);
+      if ((r.inUseNetKg ?? []).length > 0) throw badRequest('Net weights are for liquefied gases (CO2, N2O): give a gauge reading for each part-used cylinder', [{ path: 'inUseNetKg', message: 'gauge readings for this gas' }]);
       r.inUseGaugeBar.forEach((g, i) => {
         if (g > cyl.fillPressureBar * 1.35) throw badRequest(`${g} bar is far above this cylinder's ${cyl.fillPressureBar} bar fill`, [{ path: `inUseGaugeBar.${i}`, message: 'above the fill pressure' }]);
       });

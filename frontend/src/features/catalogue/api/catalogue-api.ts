@@ -18,6 +18,8 @@ export interface CylinderType {
   fillPressureBar: number;
   tareKg: number | null;
   maxFillingRatioKgPerL: number | null;
+  residualGaugeBar?: number | null;
+  residual?: { gaugeBar: number; basis: string };
   material: string;
   valveNotes: string;
   active: boolean;

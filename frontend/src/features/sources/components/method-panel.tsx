@@ -56,6 +56,13 @@ export function MethodPanel({ detail }: { detail: SourceDetail }) {
                   : '–'}
             </dd>
           </div>
+          {method.residual && (
+            <div>
+              <dt className="text-fg-muted">Each cylinder is changed at</dt>
+              <dd className="font-bold tabular">{formatNumber(method.residual.gaugeBar, 1)} bar g</dd>
+              <dd>{method.residual.basis}; the gas left behind is not counted as stock.</dd>
+            </div>
+          )}
           <div>
             <dt className="text-fg-muted">Starts from</dt>
             <dd>{method.startedFrom ? `the reading of ${formatDateTime(method.startedFrom, site.timeZone)} (hour start)` : 'no reading yet'}</dd>
