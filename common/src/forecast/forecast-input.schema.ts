@@ -3,7 +3,7 @@ import { GAS_CODES, type GasCode } from '../gas/gases';
 import { isPremixedMixture } from '../gas/mixture-cautions';
 import { REFERENCE_CONDITIONS, type ReferenceCode } from '../gas/reference-conditions';
 import { MAX_HORIZON_DAYS, isValidTimeZone, resolveLocalTimeUtcMs } from './hour-index';
-import { MAX_DRAWS } from './monte-carlo';
+import { DEFAULT_DEMAND_PERSISTENCE, MAX_DEMAND_PERSISTENCE, MAX_DRAWS } from './monte-carlo';
 
 /**
  * The forecast request: one schema for the calc verb, the API and the form (types via z.infer).
@@ -179,6 +179,8 @@ export const forecastInputSchema = z
     deliveries: z.array(forecastDeliverySchema).default([]),
     draws: z.number().int({ error: 'draws must be a whole number' }).min(0, { error: 'draws must be ≥ 0' }).max(MAX_DRAWS, { error: `draws must be at most ${MAX_DRAWS}` }).default(0),
     demand_cv: nonNegative('demand_cv').max(5, { error: 'demand_cv must be ≤ 5' }).default(0.2),
+    /** Day-to-day persistence φ of the Monte Carlo day multipliers (AR(1)); 0 = independent days. */
+    demand_persistence: nonNegative('demand_persistence').max(MAX_DEMAND_PERSISTENCE, { error: `demand_persistence must be ≤ ${MAX_DEMAND_PERSISTENCE}` }).default(DEFAULT_DEMAND_PERSISTENCE),
     seed: z.number().int({ error: 'seed must be a whole number' }).default(1),
   })
   .superRefine((v, ctx) => {

@@ -6,9 +6,13 @@ import { freeGasLitresPerKg, type ReferenceCode } from '../gas/reference-conditi
 import { applyScenarios, buildHourlyDemand, type DemandLine } from './demand-lines';
 import { boundaryAtOrAfter, buildHourIndex, resolveLocalTimeUtcMs, type HourIndex } from './hour-index';
 import { projectManifold, type ManifoldEvent } from './manifold';
-import { estimateHoursToEmptyBands, fillLognormalDayMultipliers, mulberry32, percentileOfSorted, type HoursToEmptyBands } from './monte-carlo';
+import { estimateHoursToEmptyBands, fillPersistentDayMultipliers, mulberry32, percentileOfSorted, type HoursToEmptyBands } from './monte-carlo';
 import { daysOfStock, projectDepletion, type DepletionModel, type DepletionOrder, type ForecastRisk } from './project-depletion';
 import type { CylinderSourceInput, ForecastInput, ManifoldSourceInput } from './forecast-input.schema';
+
+/** The Monte Carlo model in words, shown with every band. */
+export const MONTE_CARLO_MODEL_TEXT =
+  'The band is the 10th–90th percentile of the empty time over seeded Monte Carlo draws: each local day’s demand is the hour-by-hour forecast times a lognormal day factor (mean 1, coefficient of variation demand_cv), and the day factors persist from one day to the next as a first-order autoregressive process (correlation demand_persistence from one day to the next, fitted from measured daily use where 14 days exist), so busy spells last several days as real surges do.';
 
 /** Shown with every forecast figure. */
 export const FORECAST_CAUTION =
@@ -39,6 +43,8 @@ export interface SourceForecast {
    * or in-use temperature is at or below the separation threshold, or below the storage minimum.
    */
   cautions: string[];
+  /** The Monte Carlo settings behind `bands` (null when no draws were asked for). */
+  monteCarlo: { demandCv: number; persistence: number } | null;
   /** Cylinder stores: the gauge pressure each cylinder is changed at and where it came from; null otherwise. */
   residual: { gaugeBar: number; basis: string } | null;
   /** Conversion factors used, for the method panel. */
@@ -155,7 +161,7 @@ export function forecastSource(input: ForecastInput): SourceForecast {
     }
   }
   const result = projectDepletion(model);
-  const bands = input.draws > 0 ? estimateHoursToEmptyBands(model, index.dayOfRun, index.days, { draws: input.draws, demandCv: input.demand_cv, seed: input.seed }) : null;
+  const bands = input.draws > 0 ? estimateHoursToEmptyBands(model, index.dayOfRun, index.days, { draws: input.draws, demandCv: input.demand_cv, seed: input.seed, persistence: input.demand_persistence }) : null;
   return {
     index,
     unit,
@@ -172,6 +178,7 @@ export function forecastSource(input: ForecastInput): SourceForecast {
     manifoldEvents: [],
     cautions: src.type === 'bulk_liquid' ? [] : temperatureCautions(src),
     residual,
+    monteCarlo: bands ? { demandCv: input.demand_cv, persistence: input.demand_persistence } : null,
     factors,
   };
 }
@@ -265,7 +272,7 @@ function forecastManifold(
     const hs = new Float64Array(input.draws);
     let outlasting = 0;
     for (let k = 0; k < input.draws; k++) {
-      fillLognormalDayMultipliers(rng, input.demand_cv, mult);
+      fillPersistentDayMultipliers(rng, input.demand_cv, input.demand_persistence, mult);
       const h = projectManifold({ ...base, reorder }, { dayMultiplier: mult, dayOfRun: index.dayOfRun, stopAtEmpty: true }).hoursToEmpty;
       hs[k] = h === null ? Infinity : h;
       if (h === null) outlasting++;
@@ -299,6 +306,7 @@ function forecastManifold(
     manifoldEvents: result.events,
     cautions: temperatureCautions(src),
     residual: { gaugeBar: src.changeover_gauge_bar, basis: 'the manifold’s changeover pressure' },
+    monteCarlo: bands ? { demandCv: input.demand_cv, persistence: input.demand_persistence } : null,
     factors: { fullCylinderFreeGasL: perCyl, residualPerCylinderL: residual },
   };
 }

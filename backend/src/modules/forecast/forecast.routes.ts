@@ -158,7 +158,7 @@ async function sourceDetail(actor: Actor, id: number, q: { scenario?: number; dr
         'Hour-by-hour projection in the site’s time zone from the latest reading: each hour removes the demand of the wards this source feeds (therapy lines × device flows, plus leakage)',
         s.type === 'bulk_liquid' ? 'A bulk tank loses the larger of demand and its normal evaporation (evaporated gas feeds the pipeline; only the excess vents).' : 'Cylinders count in free gas at the reference conditions, from the real-gas equation of state at the fill pressure and the gauge readings.',
         'When contents cross the reorder level an order is placed; it arrives after the lead time and fills to the order-up-to level.',
-        `The band is the 10th–90th percentile of the empty time over Monte Carlo draws of day-to-day demand (coefficient of variation ${(o.input?.demand_cv ?? 0.2).toFixed(2)}${measuredDemandCv(model, s).measured ? ', measured from the last three weeks of readings' : ', a default until seven whole days of readings exist'}).`,
+        `The band is the 10th–90th percentile of the empty time over Monte Carlo draws of day-to-day demand (coefficient of variation ${(o.input?.demand_cv ?? 0.2).toFixed(2)}${measuredDemandCv(model, s).measured ? ', measured from the last three weeks of readings' : ', a default until seven whole days of readings exist'}). Busy and quiet days come in runs: each day’s factor carries ${(o.input?.demand_persistence ?? 0).toFixed(2)} of the day before (a first-order autoregressive model${measuredDemandCv(model, s).persistenceMeasured ? ', fitted from the measured daily use' : ', a default until 14 whole days of readings exist'}).`,
       ],
     },
   };
