@@ -142,6 +142,22 @@ describe('supply sources and readings', () => {
     expect((await admin.put(`/api/cylinder-types/${types.body.id}`, { gasCode: 'O2', waterCapacityL: 10, fillPressureBar: 230, residualGaugeBar: 230 })).status).toBe(400);
   });
 
+  it('litres of liquid oxygen are converted at the saturated-liquid density of the tank’s working pressure', async () => {
+    const src = await fm.post(`/api/sites/${siteId}/sources`, tank('Tank L', { operatingPressureBar: 9 }));
+    expect(src.status).toBe(200);
+    expect(src.body.operatingPressureBar).toBe(9);
+    const r = await fm.post(`/api/sources/${src.body.id}/readings`, { kind: 'litres_liquid', value: 1000, takenAt: new Date().toISOString() });
+    expect(r.status).toBe(200);
+    // warm liquid in a working tank: ≈ 974 kg/m³ at about 120 K, 10 bar (liquid-oxygen reference page), not the
+    // 1,141 kg/m³ of the normal boiling point (which would overstate the stock by 17 %)
+    expect(Math.abs(r.body.contents / 974 - 1)).toBeLessThan(0.005);
+    const byDefault = await fm.post(`/api/sites/${siteId}/sources`, tank('Tank L2'));
+    const r2 = await fm.post(`/api/sources/${byDefault.body.id}/readings`, { kind: 'litres_liquid', value: 1000, takenAt: new Date().toISOString() });
+    // the 7 bar g default lies between 10 bar abs (≈ 974 kg/m³) and the boiling point (1,141 kg/m³)
+    expect(r2.body.contents).toBeGreaterThan(974);
+    expect(r2.body.contents).toBeLessThan(1141 * 0.9);
+  });
+
   it('refuses bad readings with field messages and writes nothing', async () => {
     const src = await fm.post(`/api/sites/${siteId}/sources`, tank('Tank C'));
     const before = await count('source_reading', 'source_id = ?', [src.body.id]);

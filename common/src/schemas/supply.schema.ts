@@ -37,6 +37,8 @@ export const sourceSchema = z
     supplierId: z.number().int().positive().nullable().default(null),
     capacityKg: num('capacity').positive('must be above 0').max(200_000).nullable().default(null),
     evaporationPercentPerDay: num('evaporation').min(0).max(10, 'above 10 %/day is not a working tank').nullable().default(null),
+    /** Bulk liquid: working pressure of the tank, bar(g); empty = 7 bar g (the usual UK relief setting). */
+    operatingPressureBar: num('operating pressure').min(0, 'must be ≥ 0 bar g').max(45, 'above 45 bar g is not a liquid tank').nullable().default(null),
     vaporiserM3H: num('vaporiser rating').positive().max(10_000).nullable().default(null),
     vaporiserDerating: num('derating').gt(0, 'between 0 and 1').max(1, 'between 0 and 1').nullable().default(null),
     minLevelAlarmPercent: num('alarm level').min(0).max(100).nullable().default(null),

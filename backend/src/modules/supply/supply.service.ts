@@ -3,7 +3,7 @@ import { DateTime } from 'luxon';
 import type { DeliveryInput, ReadingInput, ScenarioInput, SourceInput, TherapyLineInput, WardInput } from '@common/schemas/supply.schema';
 import { compressedContents } from '@common/gas/contents';
 import { mixtureCautions } from '@common/gas/mixture-cautions';
-import { levelPercentToKg, loxLitresToKg, contentsFromCalibrationTable } from '@common/gas/liquid-oxygen';
+import { DEFAULT_TANK_OPERATING_GAUGE_BAR, levelPercentToKg, loxDensityAtTankPressureKgPerL, loxLitresToKg, contentsFromCalibrationTable } from '@common/gas/liquid-oxygen';
 import { freeGasLitresPerKg, type ReferenceCode } from '@common/gas/reference-conditions';
 import { isLiquefiedGas, type GasCode } from '@common/gas/gases';
 import { InvalidInputError } from '@common/api/errors';
@@ -39,6 +39,7 @@ export function presentSource(s: SupplySource) {
     cylindersPerBank: s.cylindersPerBank,
     regulatorLMin: s.regulatorLMin,
     changeoverGaugeBar: s.changeoverGaugeBar,
+    operatingPressureBar: s.operatingPressureBar ?? null,
     temperatureC: s.temperatureC,
     backsUp: s.backsUpJson ? (JSON.parse(s.backsUpJson) as number[]) : [],
     reorderMode: s.reorderMode,
@@ -191,7 +192,8 @@ export function contentsOfReading(source: SupplySource, site: Site, cyl: Cylinde
       else if (r.kind === 'kg') kg = r.value;
       else if (r.kind === 'litres_liquid') {
         if (source.gasCode !== 'O2') throw badRequest('Litres of liquid are converted for liquid oxygen only: enter kg or % for this tank', [{ path: 'kind', message: 'use kg or %' }]);
-        kg = loxLitresToKg(r.value);
+        // at the saturated-liquid density of the tank's working pressure, not the boiling-point density
+        kg = loxLitresToKg(r.value, loxDensityAtTankPressureKgPerL(source.operatingPressureBar ?? DEFAULT_TANK_OPERATING_GAUGE_BAR, site.atmosphericBar));
       } else if (r.kind === 'calibration') {
         if (!source.calibrationJson) throw badRequest('This tank has no calibration table: enter %, kg or litres', [{ path: 'kind', message: 'no calibration table' }]);
         kg = contentsFromCalibrationTable(JSON.parse(source.calibrationJson), r.value);

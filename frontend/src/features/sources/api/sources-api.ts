@@ -26,6 +26,8 @@ export interface Source {
   cylindersPerBank: number | null;
   regulatorLMin: number | null;
   changeoverGaugeBar: number | null;
+  /** Bulk liquid: working pressure, bar(g); null = the 7 bar g default. */
+  operatingPressureBar?: number | null;
   temperatureC: number | null;
   backsUp: number[];
   reorderMode: 'none' | 'days' | 'percent' | 'amount';

@@ -4,6 +4,7 @@ import { Alert } from '@/components/ui/alert';
 import { Card, CardBody, CardHeader } from '@/components/ui/card';
 import type { SourceDetail } from '../api/sources-api';
 import { BASIS_LABEL } from '../lib/source-labels';
+import { DEFAULT_TANK_OPERATING_GAUGE_BAR, DEFAULT_TANK_OPERATING_SOURCE, loxDensityAtTankPressureKgPerL } from '@common/gas/liquid-oxygen';
 
 /** How the forecast was made: its inputs, conversions, demand lines and the caution that goes with it. */
 export function MethodPanel({ detail }: { detail: SourceDetail }) {
@@ -56,6 +57,15 @@ export function MethodPanel({ detail }: { detail: SourceDetail }) {
                   : '–'}
             </dd>
           </div>
+          {source.type === 'bulk_liquid' && source.gasCode === 'O2' && (
+            <div>
+              <dt className="text-fg-muted">Litres of liquid converted at</dt>
+              <dd className="font-bold tabular">{loxDensityAtTankPressureKgPerL(source.operatingPressureBar ?? DEFAULT_TANK_OPERATING_GAUGE_BAR).toFixed(3)} kg/L</dd>
+              <dd>
+                saturated liquid oxygen at {source.operatingPressureBar ?? DEFAULT_TANK_OPERATING_GAUGE_BAR} bar g ({source.operatingPressureBar == null ? DEFAULT_TANK_OPERATING_SOURCE : 'the tank’s working pressure'}), from the reference equation of state (Schmidt &amp; Wagner 1985)
+              </dd>
+            </div>
+          )}
           {method.residual && (
             <div>
               <dt className="text-fg-muted">Each cylinder is changed at</dt>

@@ -1,7 +1,7 @@
 import { useState } from 'react';
 import { useFieldArray, useForm, useWatch } from 'react-hook-form';
 import { readingInputSchema, READING_METHODS } from '@common/schemas/supply.schema';
-import { loxLitresToKg } from '@common/gas/liquid-oxygen';
+import { DEFAULT_TANK_OPERATING_GAUGE_BAR, loxDensityAtTankPressureKgPerL, loxLitresToKg } from '@common/gas/liquid-oxygen';
 import { isLiquefiedGas } from '@common/gas/gases';
 import { bodyResolver } from '@/lib/body-resolver';
 import { applyServerErrors } from '@/lib/form-errors';
@@ -126,7 +126,11 @@ export function ReadingForm({ detail, onSaved }: { detail: SourceDetail; onSaved
   let preview: string | null = null;
   if (source.type === 'bulk_liquid' && Number.isFinite(value) && value >= 0) {
     if (kind === 'level_percent' && source.capacityKg) preview = `≈ ${formatKg((source.capacityKg * value) / 100)} of ${formatKg(source.capacityKg)}`;
-    if (kind === 'litres_liquid') preview = `≈ ${formatKg(loxLitresToKg(value))} of liquid oxygen`;
+    if (kind === 'litres_liquid') {
+      const pressure = source.operatingPressureBar ?? DEFAULT_TANK_OPERATING_GAUGE_BAR;
+      const density = loxDensityAtTankPressureKgPerL(pressure);
+      preview = `≈ ${formatKg(loxLitresToKg(value, density))} of liquid oxygen at ${density.toFixed(3)} kg/L (saturated liquid at ${pressure} bar g${source.operatingPressureBar == null ? ', the default working pressure' : ''})`;
+    }
   }
   const takenAtError = e.takenAt ? (/ISO|offset/i.test(e.takenAt.message ?? '') ? 'enter the date and time the reading was taken, at the site' : e.takenAt.message) : undefined;
 
