@@ -46,7 +46,7 @@ describe('calc verbs in process', () => {
     for (const key of ['moles', 'mass_kg', 'free_gas_L', 'ideal_free_gas_L', 'Z', 'equivalent_gauge_bar_at_reference_temperature']) {
       expect(typeof one[key]).toBe('number');
     }
-    expect(one.free_gas_L / one.ideal_free_gas_L).toBeCloseTo(1.07, 2); // domain facts §1: real ≈ ×1.07 ideal for O2 at 200 bar
+    expect(one.free_gas_L / one.ideal_free_gas_L).toBeCloseTo(1.07, 2); // real ≈ ×1.07 ideal for O2 at 200 bar (EU distributor page; the z-grid's Z = 0.9311 at 288.15 K, 200 bar agrees)
     const many = gasCalcVerbs.contents([
       { gas: 'AIR', water_capacity_L: 50, pressure_bar_abs: 201, temperature_C: 21, reference: '21C' },
       { gas: 'N2O', gross_kg: 20, tare_kg: 15, water_capacity_L: 10, temperature_C: 15 },
@@ -56,7 +56,7 @@ describe('calc verbs in process', () => {
     expect(many[1].filling_ratio_kg_per_L).toBe(0.5);
     // saturation table in tests/reference: N2O vapour pressure 45.037 bar abs at 288.15 K
     expect(many[1].vapour_pressure_bar_abs).toBeCloseTo(45.04, 1);
-    expect(many[1].free_gas_L / (5 * 534)).toBeCloseTo(1, 2); // domain facts §1: 534 L/kg at 15 °C
+    expect(many[1].free_gas_L / (5 * 534)).toBeCloseTo(1, 2); // 534 L/kg at 15 °C: 1000 / 1.872814 kg/m³ (N2O, Lemmon & Span 2006, z-grid in tests/reference)
   });
 
   it('duration: minutes and usable free gas, with the reserve', () => {

@@ -30,7 +30,7 @@ describe('compressed-gas contents', () => {
   });
 
   it('a 10 L cylinder at 200 bar(g) and 15 °C: real free gas is ×1.07 the ideal for O2, ×0.96 for N2, ×0.91 for He', () => {
-    // domain facts §1 (EU distributor page; consistent with the reference table (tests/reference)): 50 L × 200 bar = 10 m³ ideal;
+    // EU distributor page (consistent with the z-grid in tests/reference): 50 L × 200 bar = 10 m³ ideal;
     // real ≈ ×1.07 (O2), ×0.96 (N2), ×0.91 (He)
     const ratio = (gas: GasCode) => {
       const c = compressedContents({ gas, waterCapacityL: 10, gaugeBar: 200, temperatureC: 15 });
@@ -44,13 +44,13 @@ describe('compressed-gas contents', () => {
   });
 
   it('47 L at 137 bar holds about 6,800 L of oxygen', () => {
-    // HTM 02-01 Part A Table 22 (via a secondary source, domain facts §1): 47 L at 137 bar ≈ 6,800 L O2
+    // HTM 02-01 Part A Table 22 (as quoted in a 2018 military-hospital cylinder calculation): 47 L at 137 bar ≈ 6,800 L O2
     const c = compressedContents({ gas: 'O2', waterCapacityL: 47, gaugeBar: 137, temperatureC: 15 });
     expect(Math.abs(c.freeGasL / 6800 - 1)).toBeLessThan(0.02);
   });
 
   it('states the free gas on the requested reference basis', () => {
-    // domain facts §1: 0 °C gives 5.2 % fewer litres than 15 °C; 21.1 °C gives 2.1 % more (computed in the research)
+    // hand calculation, ideal gas: 273.15/288.15 = 0.948 (0 °C gives 5.2 % fewer litres than 15 °C); 294.26/288.15 = 1.021 (2.1 % more)
     const base = { gas: 'O2' as const, waterCapacityL: 10, gaugeBar: 200, temperatureC: 15 };
     const at15 = compressedContents(base).freeGasL;
     expect(compressedContents({ ...base, reference: '0C' }).freeGasL / at15 - 1).toBeCloseTo(-0.052, 3);
@@ -105,7 +105,7 @@ describe('compressed-gas contents', () => {
   });
 
   it('a reading taken warm overstates the contents at 15 °C by about 7 % at 35 °C', () => {
-    // domain facts WE-2 (computed): read at 35 °C, 115 bar(g) overstates 15 °C contents by about 7 % (288.15/308.15, ideal gas)
+    // hand calculation (worked example WE-2): read at 35 °C, 115 bar(g) overstates 15 °C contents by about 7 % (288.15/308.15, ideal gas)
     const warm = compressedContents({ gas: 'O2', waterCapacityL: 2, gaugeBar: 115, temperatureC: 35 });
     const cool = compressedContents({ gas: 'O2', waterCapacityL: 2, gaugeBar: 115, temperatureC: 15 });
     const overstatement = cool.moles / warm.moles - 1;
@@ -178,7 +178,7 @@ describe('cylinder duration', () => {
   });
 
   it('worked example WE-2: a 460 L / 230 bar cylinder at 115 bar gives about 38 min at 6 L/min, 19 min keeping a quarter', () => {
-    // domain facts WE-2 (computed with the ideal gas): 460 L/230 bar ⇒ 2 L water capacity; 115 bar ⇒ ~230 L; 38 min at 6 L/min;
+    // hand calculation with the ideal gas (worked example WE-2): 460 L/230 bar ⇒ 2 L water capacity; 115 bar ⇒ ~230 L; 38 min at 6 L/min;
     // 19 min keeping a ¼ residual (57.5 bar). The real-gas contents of oxygen are ~7 % larger at these pressures.
     const ideal = compressedContents({ gas: 'O2', waterCapacityL: 2, gaugeBar: 115, temperatureC: 15 }).idealFreeGasL;
     expect(ideal / 6).toBeCloseTo(37.8, 1);
@@ -204,8 +204,8 @@ describe('cylinder duration', () => {
   });
 
   it('worked example WE-1: (2000 − 200 psi) × 0.16 L/psi at 0.5 L/min ≈ 576 min', () => {
-    // domain facts WE-1 (EMS guidance): 0.16 L/psi at 2000 psi, 200 psi residual, 0.5 L/min: 288 L, 576 min.
-    // The 0.16 L/psi cylinder holds ~350 L at 2200 psig (domain facts §1, US contents); 2.2 L of water capacity
+    // US EMS oxygen-cylinder guidance (worked example WE-1): 0.16 L/psi at 2000 psi, 200 psi residual, 0.5 L/min: 288 L, 576 min.
+    // The 0.16 L/psi cylinder holds ~350 L at 2200 psig (US contents tables, HFM Magazine); 2.2 L of water capacity
     // does that for oxygen at 70 °F (this engine: 351 L), so the engine's real-gas minutes should land near 576.
     const psi = 0.0689475729;
     const full = compressedContents({ gas: 'O2', waterCapacityL: 2.2, gaugeBar: 2200 * psi, temperatureC: 21.1, reference: '21C' });
@@ -217,7 +217,7 @@ describe('cylinder duration', () => {
   it('liquefied gases: weighed mass less what stays behind and the reserve mass', () => {
     const base = { gas: 'N2O' as const, grossKg: 20, tareKg: 15, waterCapacityL: 10, temperatureC: 15, flowLMin: 10 };
     const d = cylinderDuration(base);
-    // domain facts §1: N2O gives 534 L of gas per kg at 15 °C, 1 atm
+    // N2O gives 534 L of gas per kg at 15 °C, 1 atm: 1000 / 1.872814 kg/m³ (Lemmon & Span 2006, z-grid in tests/reference)
     expect(d.usableFreeGasL / (5 * 534)).toBeCloseTo(1, 2);
     const withReserve = cylinderDuration({ ...base, reserveKg: 1 });
     expect(d.usableFreeGasL - withReserve.usableFreeGasL).toBeCloseTo(534, -1);
@@ -243,7 +243,7 @@ describe('liquefied-gas contents (CO2, N2O)', () => {
     expect(c.fillingRatioKgPerL).toBe(0.75);
     expect(c.liquidPresent).toBe(true);
     expect(Math.abs(c.vapourPressureBarAbs! / row.vapourPressureBarAbs - 1)).toBeLessThan(0.005);
-    // domain facts §1: CO2 534 L per kg at 15 °C, 546 at 21.1 °C (computed, agrees with the reference table)
+    // CO2 534 L per kg at 15 °C (1000 / 1.871850 kg/m³, Span & Wagner 1996, z-grid in tests/reference), 546 at 21.1 °C
     expect(c.freeGasL / (7.5 * 534)).toBeCloseTo(1, 2);
     const us = liquefiedContents({ gas: 'CO2', grossKg: 22.5, tareKg: 15, waterCapacityL: 10, temperatureC: 15, reference: '21C' });
     expect(us.freeGasL / (7.5 * 546)).toBeCloseTo(1, 2);
@@ -258,7 +258,7 @@ describe('liquefied-gas contents (CO2, N2O)', () => {
   });
 
   it('has no vapour pressure above the critical temperature and warns', () => {
-    // critical temperature of N2O 36.4 °C (domain facts §1; Lemmon & Span 2006: 309.52 K)
+    // critical temperature of N2O 36.4 °C (OpenAnesthesia; Lemmon & Span 2006: 309.52 K)
     const c = liquefiedContents({ gas: 'N2O', grossKg: 20, tareKg: 15, waterCapacityL: 10, temperatureC: 40 });
     expect(c.vapourPressureBarAbs).toBeNull();
     expect(c.liquidPresent).toBe(false);

@@ -237,7 +237,8 @@ describe('mixtures (GERG-2008 multi-fluid model)', () => {
 
 describe('Peng–Robinson (1976) comparison model', () => {
   it('reproduces the worked illustration for helium and is 2–7 % off the reference at −40 °C, 300 bar', () => {
-    // domain facts §4: PR gives 1.060 for helium at 15 °C, 200 bar (computed in the research, illustration)
+    // Peng & Robinson (1976) with the critical constants of helium gives about 1.060 at 15 °C, 200 bar, against 1.0970 from the
+    // helium reference equation (z-grid in tests/reference): an illustration of the cubic's error, hand-evaluated
     expect(pengRobinsonZ('HE', 288.15, 200)).toBeCloseTo(1.06, 2);
     // reference README (tests/reference): plain PR is 3–6 % off Z at 300 bar and −40 °C for O2, N2, air and Ar
     for (const gas of ['O2', 'N2', 'AIR', 'AR'] as const) {

@@ -15,21 +15,22 @@ import {
 
 describe('liquid oxygen', () => {
   it('uses the boiling-point liquid density of 1.141 kg/L', () => {
-    // domain facts §2 (encyclopedia): LOX at the normal boiling point (90.19 K) is 1.141 kg/L
+    // encyclopedia value for liquid oxygen: 1.141 kg/L at the normal boiling point (90.19 K)
     expect(LOX_DENSITY_KG_PER_L).toBeCloseTo(1.141, 3);
     expect(loxLitresToKg(1000)).toBeCloseTo(1141.2, 0);
     expect(kgToLoxLitres(loxLitresToKg(123.4))).toBeCloseTo(123.4, 10);
   });
 
   it('gives about 842 L of gas per litre of liquid at 15 °C, 860 L at 21.1 °C and 798 L at 0 °C', () => {
-    // domain facts §2 (computed; the reference-table densities agree): 798 L (0 °C), 842 L (15 °C), 860 L (21.1 °C)
+    // hand calculation from the reference densities of oxygen gas at 1.01325 bar (reference README in tests/reference:
+    // 1.35436 kg/m³ at 15 °C, 1.32615 at 21.11 °C; 1.429 at 0 °C, NIST): 1141.17 / ρ → 798 L (0 °C), 842 L (15 °C), 860 L (21.1 °C)
     expect(Math.abs(loxLitresToFreeGasL(1, '15C') / 842 - 1)).toBeLessThan(0.002);
     expect(Math.abs(loxLitresToFreeGasL(1, '21C') / 860 - 1)).toBeLessThan(0.002);
     expect(Math.abs(loxLitresToFreeGasL(1, '0C') / 798 - 1)).toBeLessThan(0.002);
   });
 
   it('worked example WE-4: 120,600 L of gas a day is about 143 L of liquid', () => {
-    // domain facts WE-4 (computed): 120,600 L/day = 143 L LOX/day at 842 L/L
+    // hand calculation: 120,600 L/day ÷ 842 L of gas per L of liquid (15 °C, above) = 143 L LOX/day
     expect(freeGasLToLoxLitres(120600, '15C')).toBeCloseTo(143, 0);
   });
 
