@@ -167,6 +167,7 @@ function toPipeSpec(p: PipeFields, pathPrefix: string): Omit<PipeRunSpec, 'gas'>
   }
   return {
     innerDiameterMm,
+    innerDiameterFromTubeTable: p.tube !== undefined,
     lengthM: p.length_m,
     fittingsAllowancePercent: p.fittings_allowance_percent,
     fittingsEquivalentLengthM: p.fittings_equivalent_length_m,
@@ -218,6 +219,7 @@ function pressureDropVerb(input: unknown): unknown {
     allowed_drop_kPa: r(res.allowedDropKPa),
     outlet_pressure_kPa_gauge: r(res.outletPressureKPaGauge),
     within_allowance: res.withinAllowance,
+    verdict_note: res.verdictNote,
     utilisation: r(res.utilisation),
     method: 'Darcy–Weisbach; friction factor Colebrook–White (iterative) or Swamee–Jain 1976; real-gas density from the gas engine at the mean line pressure',
     assumptions: res.assumptions,

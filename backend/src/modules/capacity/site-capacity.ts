@@ -187,6 +187,7 @@ function pipeSpecOf(run: PipeRunData, site: SiteCapacityInput['site']): Omit<Pip
   const ref = REFERENCE_CONDITIONS[site.referenceCode];
   return {
     innerDiameterMm: tube.innerDiameterMm,
+    innerDiameterFromTubeTable: true,
     lengthM: run.lengthM,
     fittingsAllowancePercent: run.fittingsAllowancePercent,
     linePressureKPaGauge: run.linePressureKPa,
@@ -229,6 +230,7 @@ function checkPipeRun(run: PipeRunData, gas: CapacityGasCode, flowLMin: number, 
     lineDensityKgM3: null,
     lineZ: null,
     assumptions: [],
+    verdictNote: null,
     error: null,
     limiting: false,
   };
@@ -254,6 +256,7 @@ function checkPipeRun(run: PipeRunData, gas: CapacityGasCode, flowLMin: number, 
         lineDensityKgM3: round(drop.lineDensityKgM3),
         lineZ: round(drop.lineZ, 8),
         assumptions: drop.assumptions,
+        verdictNote: drop.verdictNote,
       },
       limit,
     };
