@@ -107,6 +107,31 @@ describe('calc verbs: liquefied gases from a gauge', () => {
   });
 });
 
+describe('calc verbs: mixture Z is shown with a range', () => {
+  it('contents, z and duration of 50:50 N2O/O2 and heliox carry a Z range, free-gas and minutes ranges; pure gases none', () => {
+    // Second method: Peng & Robinson (1976, Ind. Eng. Chem. Fundam. 15:59), k_ij = 0, corrected by its pure-component error.
+    // Plain Peng–Robinson is 2.5–6 % off Z at cylinder pressures (tests/reference README), so the two methods differ by
+    // a few per cent at 137–200 bar: the range must be open (not zero) and stay within about 12 %.
+    for (const [gas, gauge] of [['N2O_O2_50', 137], ['HE_O2_79', 200]] as const) {
+      const c = gasCalcVerbs.contents({ gas, water_capacity_L: 10, gauge_bar: gauge, temperature_C: 15 }) as any;
+      expect(c.Z_range.low).toBeLessThanOrEqual(c.Z);
+      expect(c.Z_range.high).toBeGreaterThanOrEqual(c.Z);
+      expect(c.Z_range.high / c.Z_range.low - 1).toBeGreaterThan(0.01);
+      expect(c.Z_range.high / c.Z_range.low - 1).toBeLessThan(0.12);
+      expect(c.Z_range.method).toMatch(/Peng–Robinson/);
+      expect(c.free_gas_L_range.low).toBeLessThanOrEqual(c.free_gas_L);
+      expect(c.free_gas_L_range.high).toBeGreaterThanOrEqual(c.free_gas_L);
+      const d = gasCalcVerbs.duration({ gas, water_capacity_L: 10, gauge_bar: gauge, temperature_C: 15, flow_L_min: 10 }) as any;
+      expect(d.minutes_range.low).toBeLessThanOrEqual(d.minutes);
+      expect(d.minutes_range.high).toBeGreaterThanOrEqual(d.minutes);
+      const [zr] = gasCalcVerbs.z([{ gas, temperature_C: 15, pressure_bar_abs: gauge + 1.01325 }]) as any[];
+      expect(zr.Z_range.high).toBeGreaterThan(zr.Z_range.low);
+    }
+    const o2 = gasCalcVerbs.contents({ gas: 'O2', water_capacity_L: 10, gauge_bar: 200, temperature_C: 15 }) as any;
+    expect(o2.Z_range).toBeUndefined();
+  });
+});
+
 describe('calc command line', () => {
   it('z through the real command: results exit 0; a bad item exits 2 with the error shape', () => {
     const r = runCalc('z', JSON.stringify([{ gas: 'AR', temperature_C: -40, pressure_bar_abs: 300 }]));

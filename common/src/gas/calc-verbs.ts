@@ -6,6 +6,23 @@ import { compressibility } from './eos';
 import { REFERENCE_CODES, type ReferenceCode } from './reference-conditions';
 import { compressedContents, cylinderDuration, liquefiedContents, pressureAtTemperature } from './contents';
 import { PLANNING_CAUTION, mixtureCautions } from './mixture-cautions';
+import { mixtureZRange } from './mixture-uncertainty';
+
+/** Z range fields of a mixture result (absent for pure gases): see mixture-uncertainty.ts. */
+function zRangeFields(gas: GasCode, temperatureC: number, pressureBarAbs: number): Record<string, unknown> {
+  const r = mixtureZRange(gas, temperatureC + 273.15, pressureBarAbs);
+  return r ? { Z_range: { low: r.low, high: r.high, method: r.method } } : {};
+}
+
+/**
+ * A quantity proportional to 1/Z at the cylinder pressure (free gas, minutes) carried across a mixture's
+ * Z range: [q·Z/high, q·Z/low]. The gas left at the reserve is at near-ideal pressure, so this slightly
+ * overstates the spread (errs wide).
+ */
+function scaledRange(q: number, z: number, gas: GasCode, temperatureC: number, pressureBarAbs: number): { low: number; high: number } | null {
+  const r = mixtureZRange(gas, temperatureC + 273.15, pressureBarAbs);
+  return r ? { low: (q * z) / r.high, high: (q * z) / r.low } : null;
+}
 
 /**
  * Calc verbs of the gas module (`npm run --silent calc -- VERB`, JSON in, JSON out). Field names
@@ -153,6 +170,11 @@ function contentsOf(item: unknown): Record<string, unknown> {
     gauge_bar: r.gaugeBar,
     reference: r.reference,
     method: r.method,
+    ...zRangeFields(v.gas, v.temperature_C, r.pressureBarAbs),
+    ...(() => {
+      const fr = scaledRange(r.freeGasL, r.Z, v.gas, v.temperature_C, r.pressureBarAbs);
+      return fr ? { free_gas_L_range: fr } : {};
+    })(),
     cautions: [...r.cautions, PLANNING_CAUTION],
   };
 }
@@ -189,7 +211,19 @@ function durationOf(item: unknown): Record<string, unknown> {
       reserveGaugeBar: extra.reserve_gauge_bar,
     });
   }
-  return { minutes: r.minutes, usable_free_gas_L: r.usableFreeGasL, reference: r.reference, reserve_gauge_bar: r.reserveGaugeBar, reserve_basis: r.reserveBasis, cautions: [...r.cautions, PLANNING_CAUTION] };
+  let ranges: Record<string, unknown> = {};
+  if (!isWeighed(item)) {
+    const v = parseOrThrow(compressedSchema, item, 'cylinder');
+    const atm = v.atmospheric_bar ?? 1.01325;
+    const pAbs = v.pressure_bar_abs ?? (v.gauge_bar ?? 0) + atm;
+    if (r.usableFreeGasL > 0 && pAbs > 0) {
+      const zNow = compressibility(v.gas, v.temperature_C + 273.15, pAbs).Z;
+      const u = scaledRange(r.usableFreeGasL, zNow, v.gas, v.temperature_C, pAbs);
+      const m = scaledRange(r.minutes, zNow, v.gas, v.temperature_C, pAbs);
+      if (u && m) ranges = { usable_free_gas_L_range: u, minutes_range: m, Z_range_method: mixtureZRange(v.gas, v.temperature_C + 273.15, pAbs)!.method };
+    }
+  }
+  return { minutes: r.minutes, usable_free_gas_L: r.usableFreeGasL, ...ranges, reference: r.reference, reserve_gauge_bar: r.reserveGaugeBar, reserve_basis: r.reserveBasis, cautions: [...r.cautions, PLANNING_CAUTION] };
 }
 
 /**
@@ -208,7 +242,7 @@ const zVerb: CalcVerb = (input) => {
       return withIndex(i, () => {
         const v = parseOrThrow(zItemSchema, item, 'state');
         const r = compressibility(v.gas, v.temperature_C + 273.15, v.pressure_bar_abs);
-        return { Z: r.Z, density_kg_m3: r.densityKgM3, ideal_density_kg_m3: r.idealDensityKgM3, phase: r.phase, method: r.method, cautions: mixtureCautions(v.gas, v.temperature_C) };
+        return { Z: r.Z, density_kg_m3: r.densityKgM3, ideal_density_kg_m3: r.idealDensityKgM3, phase: r.phase, method: r.method, ...zRangeFields(v.gas, v.temperature_C, v.pressure_bar_abs), cautions: mixtureCautions(v.gas, v.temperature_C) };
       });
     } catch (e) {
       if (e instanceof InvalidInputError) {
