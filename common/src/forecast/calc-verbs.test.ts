@@ -323,6 +323,18 @@ describe('calc forecast: the 50:50 N2O/O2 separation caution', () => {
     expect(cautionsOf({ ...entonox({ in_use_temperature_C: -10 }), source: { ...entonox({}).source, gas: 'O2', in_use_temperature_C: -10 } })).toBe('');
   });
 
+  it('a mixture store carries its hours to empty across the mixture Z range (Peng–Robinson 1976 as the second method)', () => {
+    const out = forecastVerb(entonox({ in_use_temperature_C: 18, residual_gauge_bar: 0 })) as Out & { hours_to_empty_range: { low: number; high: number; method: string } };
+    // 4 × 10 L at 137 bar g ≈ 4 × 1,900 L of free gas at 5 L/min: about 25 h, inside the 5-day horizon
+    expect(out.hours_to_empty).not.toBeNull();
+    expect(out.hours_to_empty_range.low).toBeLessThanOrEqual(out.hours_to_empty!);
+    expect(out.hours_to_empty_range.high).toBeGreaterThanOrEqual(out.hours_to_empty!);
+    expect(out.hours_to_empty_range.high - out.hours_to_empty_range.low).toBeGreaterThan(0);
+    expect(out.hours_to_empty_range.method).toMatch(/Peng–Robinson/);
+    const o2 = forecastVerb({ ...entonox({}), source: { ...entonox({}).source, gas: 'O2' } }) as Record<string, unknown>;
+    expect(o2.hours_to_empty_range).toBeUndefined();
+  });
+
   it('refuses a bulk_liquid source of a mixture (50:50, heliox)', () => {
     for (const gas of ['N2O_O2_50', 'HE_O2_79']) {
       const input = { ...EXAMPLE, source: { ...EXAMPLE.source, gas } };

@@ -61,6 +61,10 @@ export function presentForecast(f: SourceForecast, draws: number): Record<string
       model: MONTE_CARLO_MODEL_TEXT,
     };
   }
+  if (f.hoursToEmptyRange) {
+    const h = f.hoursToEmptyRange;
+    out.hours_to_empty_range = { low: h.low === null ? null : round(h.low, 4), high: h.high === null ? null : round(h.high, 4), method: h.method };
+  }
   if (f.residual) out.residual = { gauge_bar: round(f.residual.gaugeBar, 4), basis: f.residual.basis };
   out.cautions = f.cautions;
   out.caution = FORECAST_CAUTION;

@@ -2,6 +2,7 @@ import { InvalidInputError } from '../api/errors';
 import { DEFAULT_RESIDUAL_FRACTION_OF_FILL, DEFAULT_RESIDUAL_SOURCE, compressedContents } from '../gas/contents';
 import { isLiquefiedGas, type GasCode } from '../gas/gases';
 import { mixtureCautions } from '../gas/mixture-cautions';
+import { mixtureZRange } from '../gas/mixture-uncertainty';
 import { freeGasLitresPerKg, type ReferenceCode } from '../gas/reference-conditions';
 import { applyScenarios, buildHourlyDemand, type DemandLine } from './demand-lines';
 import { boundaryAtOrAfter, buildHourIndex, resolveLocalTimeUtcMs, type HourIndex } from './hour-index';
@@ -43,6 +44,11 @@ export interface SourceForecast {
    * or in-use temperature is at or below the separation threshold, or below the storage minimum.
    */
   cautions: string[];
+  /**
+   * Mixture cylinder stores: hours to empty across the mixture's Z range at the fill state (null = runs
+   * beyond the horizon), with the method; null for pure gases, bulk tanks and manifolds.
+   */
+  hoursToEmptyRange: { low: number | null; high: number | null; method: string } | null;
   /** The Monte Carlo settings behind `bands` (null when no draws were asked for). */
   monteCarlo: { demandCv: number; persistence: number } | null;
   /** Cylinder stores: the gauge pressure each cylinder is changed at and where it came from; null otherwise. */
@@ -161,6 +167,25 @@ export function forecastSource(input: ForecastInput): SourceForecast {
     }
   }
   const result = projectDepletion(model);
+  // mixtures: the hours to empty across the Z range of a full cylinder (contents scale as 1/Z)
+  let hoursToEmptyRange: SourceForecast['hoursToEmptyRange'] = null;
+  if (src.type !== 'bulk_liquid' && !isLiquefiedGas(src.gas)) {
+    const zr = mixtureZRange(src.gas, src.fill_temperature_C + 273.15, src.fill_gauge_bar + 1.01325);
+    if (zr) {
+      const z = (zr.low === zr.secondMethodZ ? zr.high : zr.low);
+      const run = (f: number) => {
+        const scaled: DepletionModel = {
+          ...model,
+          contentsStart: model.contentsStart * f,
+          deliveries: model.deliveries?.map((d) => ({ ...d, amount: d.amount * f })),
+          reserveLevel: model.reserveLevel === undefined ? undefined : model.reserveLevel * f,
+          reorder: model.reorder ? { ...model.reorder, level: model.reorder.level * f, orderUpTo: model.reorder.orderUpTo * f, lotSize: model.reorder.lotSize * f } : undefined,
+        };
+        return projectDepletion(scaled).hoursToEmpty;
+      };
+      hoursToEmptyRange = { low: run(z / zr.high), high: run(z / zr.low), method: zr.method };
+    }
+  }
   const bands = input.draws > 0 ? estimateHoursToEmptyBands(model, index.dayOfRun, index.days, { draws: input.draws, demandCv: input.demand_cv, seed: input.seed, persistence: input.demand_persistence }) : null;
   return {
     index,
@@ -178,6 +203,7 @@ export function forecastSource(input: ForecastInput): SourceForecast {
     manifoldEvents: [],
     cautions: src.type === 'bulk_liquid' ? [] : temperatureCautions(src),
     residual,
+    hoursToEmptyRange,
     monteCarlo: bands ? { demandCv: input.demand_cv, persistence: input.demand_persistence } : null,
     factors,
   };
@@ -306,6 +332,7 @@ function forecastManifold(
     manifoldEvents: result.events,
     cautions: temperatureCautions(src),
     residual: { gaugeBar: src.changeover_gauge_bar, basis: 'the manifold’s changeover pressure' },
+    hoursToEmptyRange: null,
     monteCarlo: bands ? { demandCv: input.demand_cv, persistence: input.demand_persistence } : null,
     factors: { fullCylinderFreeGasL: perCyl, residualPerCylinderL: residual },
   };

@@ -277,6 +277,11 @@ function Results({ r, fillPressureBar, shownAbove }: { r: CompressedCheck | Liqu
             )}
           </p>
           <p className="mt-2 text-sm">Usable: {volume(r.usableFreeGasL, u.us)} free gas.</p>
+          {r.kind === 'compressed' && r.minutesRange && !noGas && (
+            <p className="mt-1 text-sm text-warn">
+              Mixture estimate: between {formatDurationMinutes(r.minutesRange.low)} and {formatDurationMinutes(r.minutesRange.high)} ({r.minutesRange.method}).
+            </p>
+          )}
         </CardBody>
       </Card>
 

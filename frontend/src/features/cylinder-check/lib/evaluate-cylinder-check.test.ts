@@ -130,3 +130,16 @@ describe('temperatureCautions', () => {
     expect(temperatureCautions('O2', '-20', metric)).toEqual([]);
   });
 });
+
+describe('evaluateCylinderCheck, mixtures', () => {
+  it('shows the minutes of a 50:50 N2O/O2 cylinder with a range from a second method; none for oxygen', () => {
+    // second method: Peng & Robinson (1976) with its pure-component error taken out (see mixture-uncertainty.ts)
+    const r = ok(evaluateCylinderCheck(values({ gasCode: 'N2O_O2_50', gauge: '137', reserve: '0' }), metric));
+    if (r.kind !== 'compressed' || !r.minutesRange) throw new Error('expected a compressed result with a range');
+    expect(r.minutesRange.low).toBeLessThanOrEqual(r.minutes);
+    expect(r.minutesRange.high).toBeGreaterThanOrEqual(r.minutes);
+    expect(r.minutesRange.high).toBeGreaterThan(r.minutesRange.low);
+    const o2 = ok(evaluateCylinderCheck(values({ gauge: '137' }), metric));
+    expect(o2.kind === 'compressed' && o2.minutesRange).toBe(null);
+  });
+});

@@ -3,6 +3,7 @@ import { DEFAULT_RESERVE_GAUGE_BAR, DEFAULT_RESERVE_SOURCE, compressedContents, 
 import { methodFor } from '@common/gas/equations';
 import { GAS_INFO, MAX_PRESSURE_BAR_ABS, isGasCode, isLiquefiedGas, type GasCode, type LiquefiedGasCode } from '@common/gas/gases';
 import { mixtureCautions } from '@common/gas/mixture-cautions';
+import { mixtureZRange } from '@common/gas/mixture-uncertainty';
 import { REFERENCE_CONDITIONS, isReferenceCode, type ReferenceCode } from '@common/gas/reference-conditions';
 import { BAR_PER_PSI, celsiusToFahrenheit, fahrenheitToCelsius } from '@common/gas/units';
 
@@ -73,6 +74,8 @@ export interface CompressedCheck extends Common {
   reserveBar: number;
   /** Where the reserve came from when the default was used (blank field), else null. */
   reserveBasis: string | null;
+  /** Mixtures: minutes across the Z range of the mixture (mixture-uncertainty.ts), with the method; else null. */
+  minutesRange: { low: number; high: number; method: string } | null;
   /** Gauge pressure the same contents show at the reference temperature, site unit. */
   equivalentGauge: number;
   chart: ChartPoint[];
@@ -234,6 +237,11 @@ export function evaluateCylinderCheck(values: CheckValues, site: CheckSite): Che
         contents,
         reserveBar,
         reserveBasis: reserveDefaulted ? DEFAULT_RESERVE_SOURCE : null,
+        minutesRange: (() => {
+          const zr = mixtureZRange(gas, temperatureC + 273.15, contents.pressureBarAbs);
+          if (!zr || !(duration.minutes > 0)) return null;
+          return { low: (duration.minutes * contents.Z) / zr.high, high: (duration.minutes * contents.Z) / zr.low, method: zr.method };
+        })(),
         equivalentGauge: fromBar(contents.equivalentGaugeBarAtReferenceTemperature),
         chart: contentsCurve({ gas, waterCapacityL, temperatureC, atmosphericBar: units.atmosphericBar, reference: units.reference }, toBar(roundUp(fromBar(Math.max(gaugeBar, 200)), units.us ? 500 : 50)), fromBar),
       },
