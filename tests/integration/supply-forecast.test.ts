@@ -91,6 +91,73 @@ describe('supply sources and readings', () => {
     expect(r.body.contents).toBeCloseTo(4 * types.body.nominal.freeGasL, -1);
   });
 
+  it('a N2O cylinder store: in-use gauges are refused ("weigh the cylinder"), net weights are counted', async () => {
+    const types = await (await signedIn(app, org.users.administrator)).post('/api/cylinder-types', { gasCode: 'N2O', waterCapacityL: 10, fillPressureBar: 44, tareKg: 14, maxFillingRatioKgPerL: 0.75 });
+    expect(types.status).toBe(200);
+    const src = await fm.post(`/api/sites/${siteId}/sources`, { name: 'N2O store', type: 'cylinder_store', gasCode: 'N2O', cylinderTypeId: types.body.id, temperatureC: 15 });
+    expect(src.status).toBe(200);
+    const before = await count('source_reading', 'source_id = ?', [src.body.id]);
+    // 44 bar g at 15 °C is the vapour pressure of N2O (45.037 bar abs, saturation table in tests/reference): full or nearly empty alike
+    const refused = await fm.post(`/api/sources/${src.body.id}/readings`, { kind: 'store_count', full: 2, inUseGaugeBar: [44], takenAt: new Date().toISOString() });
+    expect(refused.status).toBe(400);
+    expect(refused.body.error.code).toBe('invalid_input');
+    expect(refused.body.error.message).toMatch(/weigh the cylinder: gross − tare/);
+    expect(await count('source_reading', 'source_id = ?', [src.body.id])).toBe(before);
+    const ok = await fm.post(`/api/sources/${src.body.id}/readings`, { kind: 'store_count', full: 2, inUseNetKg: [3], takenAt: new Date().toISOString() });
+    expect(ok.status).toBe(200);
+    // 2 × 7.5 kg (0.75 kg/L × 10 L) + 3 kg = 18 kg; N2O 1.872814 kg/m³ at 15 °C, 1.01325 bar (Lemmon & Span 2006, z-grid in tests/reference)
+    expect(ok.body.contents / ((18 / 1.872814) * 1000)).toBeCloseTo(1, 3);
+  });
+
+  it('a 50:50 N2O/O2 store at −6 °C: the reading and the forecast method carry the separation caution', async () => {
+    const types = await (await signedIn(app, org.users.administrator)).post('/api/cylinder-types', { gasCode: 'N2O_O2_50', waterCapacityL: 10, fillPressureBar: 137 });
+    expect(types.status).toBe(200);
+    const src = await fm.post(`/api/sites/${siteId}/sources`, { name: 'Cold 50:50 store', type: 'cylinder_store', gasCode: 'N2O_O2_50', cylinderTypeId: types.body.id, temperatureC: -6 });
+    expect(src.status).toBe(200);
+    const r = await fm.post(`/api/sources/${src.body.id}/readings`, { kind: 'store_count', full: 3, inUseGaugeBar: [100], takenAt: new Date().toISOString() });
+    expect(r.status).toBe(200);
+    // N2O condenses out of the 50:50 mixture below about −5.5 to −7 °C (BMJ 1968;3:715; anaesthesia teaching notes)
+    expect(r.body.cautions.join(' ')).toMatch(/hypoxic hazard/);
+    const detail = await fm.get(`/api/sources/${src.body.id}?draws=0`);
+    expect(detail.status).toBe(200);
+    expect(detail.body.method.cautions.join(' ')).toMatch(/−5\.5 to −7 °C/);
+  });
+
+  it('a cylinder store is forecast to its cylinder type’s residual (default 10 % of fill, stated in the method)', async () => {
+    const admin = await signedIn(app, org.users.administrator);
+    const types = await admin.post('/api/cylinder-types', { gasCode: 'O2', waterCapacityL: 10, fillPressureBar: 230 });
+    expect(types.status).toBe(200);
+    // default: 10 % of the fill pressure (US EMS guidance keeps about 200 psi of a 2,000–2,200 psi fill; common practice)
+    expect(types.body.residual.gaugeBar).toBeCloseTo(23, 9);
+    expect(types.body.residual.basis).toMatch(/10 % of the fill pressure/);
+    const src = await fm.post(`/api/sites/${siteId}/sources`, { name: 'O2 store R', type: 'cylinder_store', gasCode: 'O2', cylinderTypeId: types.body.id, temperatureC: 15 });
+    await fm.post(`/api/sources/${src.body.id}/readings`, { kind: 'store_count', full: 2, takenAt: new Date().toISOString() });
+    const detail = await fm.get(`/api/sources/${src.body.id}?draws=0`);
+    expect(detail.body.method.residual.gaugeBar).toBeCloseTo(23, 9);
+    const defaultContents = detail.body.outlook.contents;
+    expect(defaultContents).toBeLessThan(2 * types.body.nominal.freeGasL);
+    const edited = await admin.put(`/api/cylinder-types/${types.body.id}`, { gasCode: 'O2', waterCapacityL: 10, fillPressureBar: 230, residualGaugeBar: 50 });
+    expect(edited.status).toBe(200);
+    expect(edited.body.residual.basis).toMatch(/set for this cylinder type/);
+    expect((await admin.put(`/api/cylinder-types/${types.body.id}`, { gasCode: 'O2', waterCapacityL: 10, fillPressureBar: 230, residualGaugeBar: 230 })).status).toBe(400);
+  });
+
+  it('litres of liquid oxygen are converted at the saturated-liquid density of the tank’s working pressure', async () => {
+    const src = await fm.post(`/api/sites/${siteId}/sources`, tank('Tank L', { operatingPressureBar: 9 }));
+    expect(src.status).toBe(200);
+    expect(src.body.operatingPressureBar).toBe(9);
+    const r = await fm.post(`/api/sources/${src.body.id}/readings`, { kind: 'litres_liquid', value: 1000, takenAt: new Date().toISOString() });
+    expect(r.status).toBe(200);
+    // warm liquid in a working tank: ≈ 974 kg/m³ at about 120 K, 10 bar (liquid-oxygen reference page), not the
+    // 1,141 kg/m³ of the normal boiling point (which would overstate the stock by 17 %)
+    expect(Math.abs(r.body.contents / 974 - 1)).toBeLessThan(0.005);
+    const byDefault = await fm.post(`/api/sites/${siteId}/sources`, tank('Tank L2'));
+    const r2 = await fm.post(`/api/sources/${byDefault.body.id}/readings`, { kind: 'litres_liquid', value: 1000, takenAt: new Date().toISOString() });
+    // the 7 bar g default lies between 10 bar abs (≈ 974 kg/m³) and the boiling point (1,141 kg/m³)
+    expect(r2.body.contents).toBeGreaterThan(974);
+    expect(r2.body.contents).toBeLessThan(1141 * 0.9);
+  });
+
   it('refuses bad readings with field messages and writes nothing', async () => {
     const src = await fm.post(`/api/sites/${siteId}/sources`, tank('Tank C'));
     const before = await count('source_reading', 'source_id = ?', [src.body.id]);

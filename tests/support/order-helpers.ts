@@ -53,7 +53,7 @@ export async function cylinderStore(ds: DataSource, org: TestOrg, siteId: number
   );
   const cylinderType =
     (await ds.getRepository(CylinderType).findOneBy({ organisationId: org.organisationId, gasCode: 'O2', waterCapacityL: 10, fillPressureBar: 200 })) ??
-    (await ds.getRepository(CylinderType).save(ds.getRepository(CylinderType).create({ organisationId: org.organisationId, gasCode: 'O2', waterCapacityL: 10, fillPressureBar: 200, tareKg: null, maxFillingRatioKgPerL: null, material: 'steel', valveNotes: '', active: true })));
+    (await ds.getRepository(CylinderType).save(ds.getRepository(CylinderType).create({ organisationId: org.organisationId, gasCode: 'O2', waterCapacityL: 10, fillPressureBar: 200, tareKg: null, maxFillingRatioKgPerL: null, residualGaugeBar: 0 /* drawn to empty: the order arithmetic of the tests counts whole-cylinder contents */, material: 'steel', valveNotes: '', active: true })));
   await ds.getRepository(SupplierPrice).insert({ supplierId: supplier.id, cylinderTypeId: cylinderType.id, gasCode: null, unit: 'cylinder', priceMinor });
   const source = await ds.getRepository(SupplySource).save(
     ds.getRepository(SupplySource).create({ siteId, name: `Store ${tag}`, type: 'cylinder_store', gasCode: 'O2', supplierId: supplier.id, cylinderTypeId: cylinderType.id, temperatureC: 15, reorderMode: 'amount', reorderLevel: 10, orderUpTo: 30, forecastBasis: 'model', modelCorrectionFactor: 1, notes: '', active: true }),

@@ -1,7 +1,16 @@
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
 import { InvalidInputError } from '../api/errors';
-import { calcVerbs } from './verbs';
+import { calcVerbs as guardedVerbs, finiteOrRefused } from './verbs';
+import { gasCalcVerbs } from '../gas/calc-verbs';
+import { forecastCalcVerbs } from '../forecast/calc-verbs';
+import { capacityCalcVerbs } from '../capacity/calc-verbs';
+
+/**
+ * The verbs without the last guard of verbs.ts (which refuses any non-finite answer): the properties
+ * below check that the input bounds alone keep every answer finite.
+ */
+const calcVerbs: Record<string, (input: unknown) => unknown> = { ...gasCalcVerbs, ...forecastCalcVerbs, ...capacityCalcVerbs };
 
 /**
  * Property-based checks over every calc verb (the contract of `npm run calc` and POST /api/calc/VERB):
@@ -48,7 +57,7 @@ const EXAMPLES: Record<string, unknown> = {
   'simultaneous-use': { outlets: 20, use_probability: 0.1, confidence: 0.95, flow_per_outlet_L_min: 10 },
 };
 
-const RUNS = 100; // per generator, so about 200 inputs per verb
+const RUNS = Number(process.env.CALC_PROPERTY_RUNS ?? 100); // per generator, so about 200 inputs per verb
 
 type Path = (string | number)[];
 
@@ -80,12 +89,23 @@ const nearMiss = fc.oneof(
   fc.constant(null),
   fc.double({ noNaN: true, noDefaultInfinity: true }),
   fc.integer(),
-  fc.constantFrom(0, -0, -1, 1e-300, 1e300, Number.MAX_SAFE_INTEGER, 2 ** 31 - 1, -273.15, -274, 1e6),
+  fc.constantFrom(0, -0, -1, 1e-300, 1e300, 1e308, -1e308, Number.MAX_VALUE, Number.MIN_VALUE, Number.MAX_SAFE_INTEGER, 2 ** 31 - 1, -273.15, -274, 1e6),
   fc.string({ maxLength: 12 }),
   fc.constantFrom('', '200', 'O2', 'AIR', 'CO2', 'N2O', 'HE', 'VAC', '2027-02-30T00:00', 'Mars/Olympus', '__proto__', 'constructor', 'toString'),
   fc.boolean(),
   fc.jsonValue({ maxDepth: 2 }),
 );
+
+/**
+ * Every number anywhere in an answer, with its path, that is not finite (NaN and ±Infinity become
+ * `null` in JSON, so the check runs on the answer itself, before serialisation).
+ */
+function nonFiniteNumbers(value: unknown, path = ''): string[] {
+  if (typeof value === 'number') return Number.isFinite(value) ? [] : [`${path || '(root)'} = ${value}`];
+  if (value === null || typeof value !== 'object') return [];
+  const entries: [string | number, unknown][] = Array.isArray(value) ? value.map((v, i) => [i, v]) : Object.entries(value);
+  return entries.flatMap(([k, v]) => nonFiniteNumbers(v, path ? `${path}.${k}` : String(k)));
+}
 
 function findInternalError(value: unknown): boolean {
   if (value === null || typeof value !== 'object') return false;
@@ -108,11 +128,47 @@ function check(verb: string, input: unknown): void {
   const text = JSON.stringify(out);
   expect(typeof text, `${verb} answered with something that is not JSON`).toBe('string');
   expect(findInternalError(out), `${verb} reported an internal error for ${JSON.stringify(input)}: ${text.slice(0, 400)}`).toBe(false);
+  expect(nonFiniteNumbers(out), `${verb} answered with a number that is not finite for ${JSON.stringify(input)}`).toEqual([]);
+  expect(findPerItemError(out), `${verb} answered (exit 0) with an error inside its answer for ${JSON.stringify(input)}: ${text.slice(0, 400)}`).toBe(false);
 }
+
+/** An `error` object inside an answer: bad input must be refused as a whole (exit 2 / 400), not answered. */
+function findPerItemError(value: unknown): boolean {
+  if (value === null || typeof value !== 'object') return false;
+  if (Object.hasOwn(value, 'error')) return true;
+  return Object.values(value).some(findPerItemError);
+}
+
+describe('calc verbs: extreme inputs found by mutation are refused, not answered with null or absurd figures', () => {
+  const refuses = (verb: string, input: unknown, path: string) => {
+    let error: unknown = null;
+    try {
+      calcVerbs[verb](input);
+    } catch (e) {
+      error = e;
+    }
+    expect(error, `${verb} answered ${JSON.stringify(input)}`).toBeInstanceOf(InvalidInputError);
+    expect((error as InvalidInputError).details.map((d) => d.path)).toContain(path);
+  };
+  it('a 1e308 L cylinder, a 1e-300 L/min flow, a 1e-300 mm bore', () => {
+    refuses('contents', { gas: 'O2', water_capacity_L: 1e308, gauge_bar: 200, temperature_C: 15 }, 'water_capacity_L');
+    refuses('duration', { gas: 'O2', water_capacity_L: 10, gauge_bar: 200, temperature_C: 15, flow_L_min: 1e-300 }, 'flow_L_min');
+    refuses('pressure-drop', { gas: 'O2', flow_L_min: 500, inner_diameter_mm: 1e-300, length_m: 50 }, 'inner_diameter_mm');
+    refuses('manifold-sizing', { flow_L_min: 201, hours_per_day: 10, cylinder_free_gas_L: 1e308 }, 'cylinder_free_gas_L');
+    refuses('reserve-check', { design_flow_L_min: 1e-300, average_daily_consumption_L: 120600 }, 'design_flow_L_min');
+  });
+
+  it('the verb table refuses an answer that is not finite (the last guard)', () => {
+    expect(() => finiteOrRefused(() => ({ a: [1, Infinity] }))(null)).toThrow(InvalidInputError);
+    expect(() => finiteOrRefused(() => ({ a: Number.NaN }))(null)).toThrow(/not a finite number \(a\)/);
+    expect(finiteOrRefused(() => ({ a: [1, null] }))(null)).toEqual({ a: [1, null] });
+    expect(Object.keys(guardedVerbs).sort()).toEqual(Object.keys(calcVerbs).sort());
+  });
+});
 
 describe('calc verbs under arbitrary input (property-based)', () => {
   it('has a worked example for every verb of the verb table', () => {
-    expect(Object.keys(EXAMPLES).sort()).toEqual(Object.keys(calcVerbs).sort());
+    expect(Object.keys(EXAMPLES).sort()).toEqual(Object.keys(guardedVerbs).sort());
   });
 
   for (const verb of Object.keys(calcVerbs).sort()) {

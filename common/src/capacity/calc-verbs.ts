@@ -23,8 +23,38 @@ export const CAPACITY_CAUTION =
 const r = (x: number, digits = 6) => (Number.isFinite(x) ? Math.round(x * 10 ** digits) / 10 ** digits : x);
 const finiteOrNull = (x: number) => (Number.isFinite(x) ? r(x) : null);
 
-const positiveNumber = (what: string) => z.number({ error: `${what} is required (a number)` }).positive(`${what} must be greater than zero`);
-const nonNegativeNumber = (what: string) => z.number({ error: `${what} must be a number` }).nonnegative(`${what} must not be negative`);
+/**
+ * Physically meaningful ranges of the capacity inputs (beyond them the arithmetic overflows or
+ * underflows into null or absurd figures). Each field takes the bound of its kind; common practice:
+ * the largest hospital sites draw a few tens of thousands of L/min, tanks hold at most ~100 t.
+ */
+const BOUNDS: Record<string, { min?: number; max: number; positiveMin?: number }> = {
+  flow: { max: 1e6, positiveMin: 0.01 }, // L/min (1,000 m³/min); a positive flow is at least 0.01 L/min
+  volume: { max: 1e10, positiveMin: 0.01 }, // L of free gas (10 million m³)
+  rating_m3_h: { max: 1e5, positiveMin: 1e-3 },
+  length_m: { min: 0.01, max: 10_000 },
+  inner_diameter_mm: { min: 1, max: 1000 },
+  fittings_allowance_percent: { max: 1000 },
+  fittings_equivalent_length_m: { max: 10_000 },
+  line_pressure_kPa_gauge: { max: 5000 },
+  atmospheric_pressure_bar_abs: { min: 0.5, max: 1.1 },
+  temperature_K: { min: 200, max: 400 },
+  reference_pressure_bar_abs: { min: 0.5, max: 1.1 },
+  allowed_drop_kPa: { min: 0.001, max: 5000 },
+  roughness_mm: { max: 10 },
+  viscosity_Pa_s: { min: 1e-7, max: 1e-3 },
+  days: { max: 3660, positiveMin: 1e-3 },
+  flow_per_patient_L_min: { max: 1000, positiveMin: 0.01 },
+};
+function bounded(schema: z.ZodNumber, what: string, kind: keyof typeof BOUNDS | undefined, positive = false): z.ZodNumber {
+  const b = kind === undefined ? { max: 1e9, positiveMin: 1e-6 } : BOUNDS[kind];
+  let out = schema.max(b.max, `${what} must be at most ${b.max}`);
+  const min = b.min ?? (positive ? b.positiveMin : undefined);
+  if (min !== undefined) out = out.min(min, `${what} must be at least ${min}`);
+  return out;
+}
+const positiveNumber = (what: string, kind?: keyof typeof BOUNDS) => bounded(z.number({ error: `${what} is required (a number)` }).positive(`${what} must be greater than zero`), what, kind, true);
+const nonNegativeNumber = (what: string, kind?: keyof typeof BOUNDS) => bounded(z.number({ error: `${what} must be a number` }).nonnegative(`${what} must not be negative`), what, kind);
 
 // ---------------------------------------------------------------------------------------------
 // design-flow
@@ -42,7 +72,8 @@ const designFlowInputSchema = z
           terminal_units: z
             .number({ error: 'terminal_units is required (a whole number ≥ 1)' })
             .int('terminal_units must be a whole number')
-            .positive('terminal_units must be at least 1'),
+            .positive('terminal_units must be at least 1')
+            .max(100_000, 'terminal_units must be at most 100,000'),
         }),
       )
       .min(1, 'give at least one zone'),
@@ -100,19 +131,19 @@ function diversityRulesVerb(input: unknown): unknown {
 
 const pipeFields = {
   tube: z.string().optional(),
-  inner_diameter_mm: positiveNumber('inner_diameter_mm').optional(),
-  length_m: positiveNumber('length_m (the pipe length)'),
-  fittings_allowance_percent: nonNegativeNumber('fittings_allowance_percent').optional(),
-  fittings_equivalent_length_m: nonNegativeNumber('fittings_equivalent_length_m').optional(),
-  line_pressure_kPa_gauge: positiveNumber('line_pressure_kPa_gauge').optional(),
-  atmospheric_pressure_bar_abs: positiveNumber('atmospheric_pressure_bar_abs').optional(),
-  gas_temperature_K: positiveNumber('gas_temperature_K').optional(),
-  reference_temperature_K: positiveNumber('reference_temperature_K').optional(),
-  reference_pressure_bar_abs: positiveNumber('reference_pressure_bar_abs').optional(),
-  allowed_drop_kPa: positiveNumber('allowed_drop_kPa').optional(),
-  roughness_mm: nonNegativeNumber('roughness_mm').optional(),
+  inner_diameter_mm: positiveNumber('inner_diameter_mm', 'inner_diameter_mm').optional(),
+  length_m: positiveNumber('length_m (the pipe length)', 'length_m'),
+  fittings_allowance_percent: nonNegativeNumber('fittings_allowance_percent', 'fittings_allowance_percent').optional(),
+  fittings_equivalent_length_m: nonNegativeNumber('fittings_equivalent_length_m', 'fittings_equivalent_length_m').optional(),
+  line_pressure_kPa_gauge: positiveNumber('line_pressure_kPa_gauge', 'line_pressure_kPa_gauge').optional(),
+  atmospheric_pressure_bar_abs: positiveNumber('atmospheric_pressure_bar_abs', 'atmospheric_pressure_bar_abs').optional(),
+  gas_temperature_K: positiveNumber('gas_temperature_K', 'temperature_K').optional(),
+  reference_temperature_K: positiveNumber('reference_temperature_K', 'temperature_K').optional(),
+  reference_pressure_bar_abs: positiveNumber('reference_pressure_bar_abs', 'reference_pressure_bar_abs').optional(),
+  allowed_drop_kPa: positiveNumber('allowed_drop_kPa', 'allowed_drop_kPa').optional(),
+  roughness_mm: nonNegativeNumber('roughness_mm', 'roughness_mm').optional(),
   correlation: z.enum(['colebrook_white', 'swamee_jain']).optional(),
-  viscosity_Pa_s: positiveNumber('viscosity_Pa_s').optional(),
+  viscosity_Pa_s: positiveNumber('viscosity_Pa_s', 'viscosity_Pa_s').optional(),
 };
 type PipeFields = z.infer<z.ZodObject<typeof pipeFields>>;
 
@@ -135,6 +166,7 @@ function toPipeSpec(p: PipeFields, pathPrefix: string): Omit<PipeRunSpec, 'gas'>
   }
   return {
     innerDiameterMm,
+    innerDiameterFromTubeTable: p.tube !== undefined,
     lengthM: p.length_m,
     fittingsAllowancePercent: p.fittings_allowance_percent,
     fittingsEquivalentLengthM: p.fittings_equivalent_length_m,
@@ -159,7 +191,7 @@ function pipelineGas(gas: CapacityGasCode, path: string): GasCode {
   return gas;
 }
 
-const pressureDropInputSchema = z.object({ gas: capacityGasCodeSchema, flow_L_min: nonNegativeNumber('flow_L_min'), ...pipeFields });
+const pressureDropInputSchema = z.object({ gas: capacityGasCodeSchema, flow_L_min: nonNegativeNumber('flow_L_min', 'flow'), ...pipeFields });
 
 function pressureDropVerb(input: unknown): unknown {
   const v = parseOrThrow(pressureDropInputSchema, input, 'pressure-drop input');
@@ -186,6 +218,7 @@ function pressureDropVerb(input: unknown): unknown {
     allowed_drop_kPa: r(res.allowedDropKPa),
     outlet_pressure_kPa_gauge: r(res.outletPressureKPaGauge),
     within_allowance: res.withinAllowance,
+    verdict_note: res.verdictNote,
     utilisation: r(res.utilisation),
     method: 'Darcy–Weisbach; friction factor Colebrook–White (iterative) or Swamee–Jain 1976; real-gas density from the gas engine at the mean line pressure',
     assumptions: res.assumptions,
@@ -197,11 +230,11 @@ function pressureDropVerb(input: unknown): unknown {
 // headroom
 
 const limitSchema = z.discriminatedUnion('kind', [
-  z.object({ kind: z.enum(['manifold_regulator', 'other']), name: z.string().min(1), capacity_L_min: positiveNumber('capacity_L_min') }),
+  z.object({ kind: z.enum(['manifold_regulator', 'other']), name: z.string().min(1), capacity_L_min: positiveNumber('capacity_L_min', 'flow') }),
   z.object({
     kind: z.literal('vaporiser'),
     name: z.string().min(1),
-    rating_m3_h: positiveNumber('rating_m3_h'),
+    rating_m3_h: positiveNumber('rating_m3_h', 'rating_m3_h'),
     derating_factor: z.number().gt(0, 'derating_factor must be greater than zero').max(1, 'derating_factor must be at most 1').optional(),
   }),
   z.object({ kind: z.literal('pipe_run'), name: z.string().min(1), ...pipeFields }),
@@ -210,13 +243,13 @@ type LimitInput = z.infer<typeof limitSchema>;
 
 const headroomInputSchema = z.object({
   gas: capacityGasCodeSchema,
-  flow_per_patient_L_min: positiveNumber('flow_per_patient_L_min'),
+  flow_per_patient_L_min: positiveNumber('flow_per_patient_L_min', 'flow_per_patient_L_min'),
   site: z.object({
-    current_flow_L_min: nonNegativeNumber('site.current_flow_L_min').optional(),
+    current_flow_L_min: nonNegativeNumber('site.current_flow_L_min', 'flow').optional(),
     limits: z.array(limitSchema).min(1, 'give at least one site limit (regulator, vaporiser or main pipe run)'),
   }),
   zones: z
-    .array(z.object({ name: z.string().min(1), current_flow_L_min: nonNegativeNumber('current_flow_L_min'), limits: z.array(limitSchema).default([]) }))
+    .array(z.object({ name: z.string().min(1), current_flow_L_min: nonNegativeNumber('current_flow_L_min', 'flow'), limits: z.array(limitSchema).default([]) }))
     .default([]),
 });
 
@@ -277,14 +310,14 @@ function headroomVerb(input: unknown): unknown {
 // manifold-sizing, reserve-check
 
 const manifoldInputSchema = z.object({
-  flow_L_min: positiveNumber('flow_L_min'),
+  flow_L_min: positiveNumber('flow_L_min', 'flow'),
   hours_per_day: positiveNumber('hours_per_day').max(24, 'hours_per_day must be at most 24'),
-  cylinder_free_gas_L: positiveNumber('cylinder_free_gas_L'),
-  days_on_manifold: positiveNumber('days_on_manifold').optional(),
+  cylinder_free_gas_L: positiveNumber('cylinder_free_gas_L', 'volume'),
+  days_on_manifold: positiveNumber('days_on_manifold', 'days').optional(),
   days_per_week: positiveNumber('days_per_week').max(7, 'days_per_week must be at most 7').optional(),
-  bank_sizes: z.array(z.number().int().positive()).min(1).optional(),
+  bank_sizes: z.array(z.number().int().positive().max(1000, 'a bank of more than 1,000 cylinders?')).min(1).optional(),
   /** design flow for the 4-hour secondary supply, if different from flow_L_min */
-  design_flow_L_min: positiveNumber('design_flow_L_min').optional(),
+  design_flow_L_min: positiveNumber('design_flow_L_min', 'flow').optional(),
 });
 
 function manifoldSizingVerb(input: unknown): unknown {
@@ -322,10 +355,10 @@ function manifoldSizingVerb(input: unknown): unknown {
 
 const reserveInputSchema = z
   .object({
-    design_flow_L_min: positiveNumber('design_flow_L_min').optional(),
-    average_daily_consumption_L: positiveNumber('average_daily_consumption_L').optional(),
-    reserve_free_gas_L: nonNegativeNumber('reserve_free_gas_L').optional(),
-    cylinder_free_gas_L: positiveNumber('cylinder_free_gas_L').optional(),
+    design_flow_L_min: positiveNumber('design_flow_L_min', 'flow').optional(),
+    average_daily_consumption_L: positiveNumber('average_daily_consumption_L', 'volume').optional(),
+    reserve_free_gas_L: nonNegativeNumber('reserve_free_gas_L', 'volume').optional(),
+    cylinder_free_gas_L: positiveNumber('cylinder_free_gas_L', 'volume').optional(),
   })
   .refine((v) => v.design_flow_L_min !== undefined || v.average_daily_consumption_L !== undefined, {
     path: ['design_flow_L_min'],
@@ -354,10 +387,10 @@ function reserveCheckVerb(input: unknown): unknown {
 // simultaneous-use
 
 const simultaneousInputSchema = z.object({
-  outlets: z.number({ error: 'outlets is required' }).int('outlets must be a whole number').positive('outlets must be at least 1'),
+  outlets: z.number({ error: 'outlets is required' }).int('outlets must be a whole number').positive('outlets must be at least 1').max(100_000, 'outlets must be at most 100,000'),
   use_probability: z.number({ error: 'use_probability is required' }).min(0, 'use_probability must be ≥ 0').max(1, 'use_probability must be ≤ 1'),
   confidence: z.number({ error: 'confidence is required' }).gt(0, 'confidence must be > 0').max(1, 'confidence must be ≤ 1'),
-  flow_per_outlet_L_min: positiveNumber('flow_per_outlet_L_min'),
+  flow_per_outlet_L_min: positiveNumber('flow_per_outlet_L_min', 'flow_per_patient_L_min'),
 });
 
 function simultaneousUseVerb(input: unknown): unknown {

@@ -164,8 +164,9 @@ export function computeDesignFlow(gas: CapacityGasCode, zones: ZoneInput[], rule
     usedSourceIds.add(rule.source);
     const zone: ZoneDesignFlow = { ...flow, name: z.name, department: z.department, count: z.terminalUnits };
     if (!rule.verified) {
-      zone.warning = UNVERIFIED_WARNING;
-      warnings.add(`${gas} ${z.department} rule: ${UNVERIFIED_WARNING}`);
+      const text = ruleSet.sources.find((x) => x.id === rule.source)?.unverified_warning ?? UNVERIFIED_WARNING;
+      zone.warning = text;
+      warnings.add(`${gas} ${z.department} rule: ${text}`);
     }
     return zone;
   });

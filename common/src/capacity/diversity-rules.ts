@@ -115,8 +115,11 @@ export type GasRules = z.infer<typeof gasRulesSchema>;
 export const ruleSourceSchema = z.object({
   id: z.string().min(1),
   citation: z.string().min(1),
+  /** true only when the figures were checked against the standard's own table (a quotation elsewhere is not enough) */
   verified: z.boolean(),
   note: z.string().optional(),
+  /** What a screen shows beside a rule of this source when it is unverified (default UNVERIFIED_WARNING). */
+  unverified_warning: z.string().max(200).optional(),
 });
 export type RuleSource = z.infer<typeof ruleSourceSchema>;
 
@@ -156,8 +159,13 @@ export type DiversityRuleSet = z.infer<typeof diversityRuleSetSchema>;
 /** The input form of a rule set (defaults such as `counts` may be left out). */
 export type DiversityRuleSetInput = z.input<typeof diversityRuleSetSchema>;
 
-/** The text a screen must show beside a rule with `verified: false`. */
+/**
+ * The text a screen must show beside a rule with `verified: false` ("verified" means checked against the
+ * standard's own table), unless its source gives its own `unverified_warning`.
+ */
 export const UNVERIFIED_WARNING = 'from memory, not verified';
+/** Shown beside rules quoted from a secondary source (a supplier's page), not the standard itself. */
+export const QUOTED_WARNING = 'quoted from a supplier page, not verified against the standard';
 
 const FROM_MEMORY_NOTE = `Recalled, not checked against the published table: the screen must show "${UNVERIFIED_WARNING}". Editable default only.`;
 
@@ -336,15 +344,16 @@ export const DEFAULT_RULE_SET: DiversityRuleSetInput = {
 /** Rule set "gb50751": GB 50751-2012 oxygen formulas as quoted. */
 export const GB50751_RULE_SET: DiversityRuleSetInput = {
   id: 'gb50751',
-  name: 'GB 50751-2012 (oxygen)',
+  name: 'GB 50751-2012 (oxygen, as quoted; not verified)',
   description:
     'Oxygen design flows per GB 50751-2012 (Code for design of medical gas engineering), as quoted. Planning estimate only: defer to local codes and the supplier.',
   sources: [
     {
       id: 'gb-50751-2012',
       citation: 'GB 50751-2012 Code for design of medical gas engineering, oxygen flow formulas (as quoted on a supplier page)',
-      verified: true,
-      note: 'Quoted in a secondary source; cite the official edition.',
+      verified: false,
+      note: 'Quoted on a supplier page, not checked against the standard’s own table: check the official edition before relying on it.',
+      unverified_warning: QUOTED_WARNING,
     },
   ],
   gases: {
@@ -357,7 +366,7 @@ export const GB50751_RULE_SET: DiversityRuleSetInput = {
           diversity: 0.15,
           counts: 'bed',
           source: 'gb-50751-2012',
-          verified: true,
+          verified: false,
           note: 'Wards: 10 + 6·(beds − 1)·15 %.',
         },
         critical_care: {
@@ -367,7 +376,7 @@ export const GB50751_RULE_SET: DiversityRuleSetInput = {
           diversity: 1,
           counts: 'bed',
           source: 'gb-50751-2012',
-          verified: true,
+          verified: false,
           note: 'ICU: 10 + 6·(beds − 1)·100 %.',
         },
         theatre: {
@@ -377,7 +386,7 @@ export const GB50751_RULE_SET: DiversityRuleSetInput = {
           diversity: 0.75,
           counts: 'room',
           source: 'gb-50751-2012',
-          verified: true,
+          verified: false,
           note: 'Operating rooms: 100 + 10·(rooms − 1)·75 %.',
         },
         hyperbaric: {
@@ -387,7 +396,7 @@ export const GB50751_RULE_SET: DiversityRuleSetInput = {
           diversity: 1,
           counts: 'occupant',
           source: 'gb-50751-2012',
-          verified: true,
+          verified: false,
           note: 'Hyperbaric chamber: 25 L/min per occupant.',
         },
       },

@@ -62,7 +62,7 @@ export const PURE_GAS_VISCOSITY: Record<'O2' | 'N2' | 'AIR' | 'AR' | 'HE' | 'CO2
   CO2: { viscosityPaS: 14.7e-6, molarMassGMol: 44.01 },
   N2O: { viscosityPaS: 14.6e-6, molarMassGMol: 44.013 },
 };
-export const VISCOSITY_SOURCE = 'dynamic viscosities near 20 °C: typical handbook values, from memory; mixtures by Wilke (1950)';
+export const VISCOSITY_SOURCE = 'dynamic viscosities at 20 °C: typical handbook values, from memory, carried to the gas temperature by Sutherland’s law (constants from memory); mixtures by Wilke (1950)';
 
 type PureViscosityGas = keyof typeof PURE_GAS_VISCOSITY;
 
@@ -78,8 +78,11 @@ export const MIXTURE_MOLE_FRACTIONS: Record<'N2O_O2_50' | 'HE_O2_79' | 'HE_O2_80
  * @param moleFractions mole fraction per component (sum 1)
  * @returns Pa·s
  */
-export function computeWilkeViscosityPaS(moleFractions: Partial<Record<PureViscosityGas, number>>): number {
-  const parts = Object.entries(moleFractions).map(([g, x]) => ({ x: x!, ...PURE_GAS_VISCOSITY[g as PureViscosityGas] }));
+export function computeWilkeViscosityPaS(moleFractions: Partial<Record<PureViscosityGas, number>>, viscosityOf?: (gas: PureViscosityGas) => number): number {
+  const parts = Object.entries(moleFractions).map(([g, x]) => {
+    const base = PURE_GAS_VISCOSITY[g as PureViscosityGas];
+    return { x: x!, molarMassGMol: base.molarMassGMol, viscosityPaS: viscosityOf ? viscosityOf(g as PureViscosityGas) : base.viscosityPaS };
+  });
   let mu = 0;
   for (const i of parts) {
     let denom = 0;
@@ -94,10 +97,31 @@ export function computeWilkeViscosityPaS(moleFractions: Partial<Record<PureVisco
   return mu;
 }
 
-/** Dynamic viscosity near 20 °C of any pipeline gas the engine knows, Pa·s. */
-export function lookupViscosityPaS(gas: string): number {
-  if (hasKey(PURE_GAS_VISCOSITY, gas)) return PURE_GAS_VISCOSITY[gas as PureViscosityGas].viscosityPaS;
-  if (hasKey(MIXTURE_MOLE_FRACTIONS, gas)) return computeWilkeViscosityPaS(MIXTURE_MOLE_FRACTIONS[gas as keyof typeof MIXTURE_MOLE_FRACTIONS]);
+/**
+ * Sutherland constants, K (Sutherland 1893: μ(T) = μ₀·(T/T₀)^1.5·(T₀ + S)/(T + S)): typical handbook
+ * values, from memory; good to a few per cent over −40 to +60 °C.
+ */
+export const SUTHERLAND_CONSTANT_K: Record<PureViscosityGas, number> = { O2: 127, N2: 111, AIR: 120, AR: 144, HE: 79.4, CO2: 240, N2O: 260 };
+const VISCOSITY_TABLE_TEMPERATURE_K = 293.15;
+
+/** A pure gas's viscosity at T by Sutherland's law from the 20 °C table value, Pa·s. */
+function viscosityAt(gas: PureViscosityGas, temperatureK: number): number {
+  const t0 = VISCOSITY_TABLE_TEMPERATURE_K;
+  const sC = SUTHERLAND_CONSTANT_K[gas];
+  return PURE_GAS_VISCOSITY[gas].viscosityPaS * Math.pow(temperatureK / t0, 1.5) * ((t0 + sC) / (temperatureK + sC));
+}
+
+/**
+ * Dynamic viscosity of any pipeline gas the engine knows at the gas temperature, Pa·s: the 20 °C table
+ * value carried to T by Sutherland's law; mixtures by Wilke (1950) from the components at T.
+ * @param temperatureK gas temperature, K (default 293.15)
+ */
+export function lookupViscosityPaS(gas: string, temperatureK = VISCOSITY_TABLE_TEMPERATURE_K): number {
+  if (hasKey(PURE_GAS_VISCOSITY, gas)) return viscosityAt(gas as PureViscosityGas, temperatureK);
+  if (hasKey(MIXTURE_MOLE_FRACTIONS, gas)) {
+    const fractions = MIXTURE_MOLE_FRACTIONS[gas as keyof typeof MIXTURE_MOLE_FRACTIONS];
+    return computeWilkeViscosityPaS(fractions, (g) => viscosityAt(g, temperatureK));
+  }
   throw new InvalidInputError(`No viscosity is known for "${gas}"; give viscosity_Pa_s`, [{ path: 'gas', message: 'no viscosity for this gas' }]);
 }
 

@@ -1,7 +1,7 @@
 import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
 import { InvalidInputError } from '../api/errors';
-import { computeDarcyPressureDrop } from './pipe-hydraulics';
+import { computeDarcyPressureDrop, lookupViscosityPaS } from './pipe-hydraulics';
 import { computePipeRunCapacityLMin, computePipeRunPressureDrop, type PipeRunSpec } from './pipe-run';
 
 // Reference multiparameter EOS values (reference table in tests/reference z-grid.csv): gas,T_K,p_bar_abs,Z,rho_kg_m3,phase
@@ -82,5 +82,25 @@ describe('pipe run with real-gas density from the gas engine', () => {
     expect(() => computePipeRunPressureDrop({ ...o2Run, lengthM: 0 }, 100)).toThrow(InvalidInputError);
     expect(() => computePipeRunPressureDrop({ ...o2Run, innerDiameterMm: 0 }, 100)).toThrow(InvalidInputError);
     expect(() => computePipeRunPressureDrop({ ...o2Run, linePressureKPaGauge: 0 }, 100)).toThrow(InvalidInputError);
+  });
+});
+
+describe('from-memory defaults and the gas temperature', () => {
+  it('viscosity follows the gas temperature (air: 17.2 µPa·s at 0 °C, CRC Handbook value, from memory)', () => {
+    expect(lookupViscosityPaS('AIR', 273.15) / 17.2e-6).toBeCloseTo(1, 1);
+    expect(Math.abs(lookupViscosityPaS('AIR', 273.15) / 17.2e-6 - 1)).toBeLessThan(0.02);
+    expect(lookupViscosityPaS('O2', 233.15)).toBeLessThan(lookupViscosityPaS('O2', 293.15));
+    expect(lookupViscosityPaS('N2O_O2_50', 253.15)).toBeLessThan(lookupViscosityPaS('N2O_O2_50', 293.15));
+  });
+
+  it('a verdict resting on from-memory defaults says so next to it; one from given figures does not', () => {
+    const byDefault = computePipeRunPressureDrop({ gas: 'O2', innerDiameterMm: 20.2, innerDiameterFromTubeTable: true, lengthM: 50 }, 500);
+    expect(byDefault.verdictNote).toMatch(/resting on from-memory defaults/);
+    expect(byDefault.verdictNote).toMatch(/fittings allowance/);
+    expect(byDefault.verdictNote).toMatch(/allowed drop/);
+    expect(byDefault.verdictNote).toMatch(/EN 13348/);
+    expect(byDefault.verdictNote).toMatch(/viscosity/);
+    const given = computePipeRunPressureDrop({ gas: 'O2', innerDiameterMm: 20.2, lengthM: 50, fittingsAllowancePercent: 30, allowedDropKPa: 20, viscosityPaS: 2.04e-5, roughnessMm: 0.0015 }, 500);
+    expect(given.verdictNote).toMatch(/from the figures given/);
   });
 });

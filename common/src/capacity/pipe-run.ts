@@ -36,6 +36,8 @@ export const DEFAULT_REFERENCE = { temperatureK: 288.15, pressureBarAbs: 1.01325
 export interface PipeRunSpec {
   gas: GasCode;
   innerDiameterMm: number;
+  /** Set when the inner diameter came from the EN 13348 tube table (wall thicknesses from memory). */
+  innerDiameterFromTubeTable?: boolean;
   lengthM: number;
   /** % of the straight length; default 20 % unless an equivalent length is given */
   fittingsAllowancePercent?: number;
@@ -69,6 +71,8 @@ export interface PipeRunResult extends DarcyPressureDropResult {
   /** pressure drop ÷ allowed drop */
   utilisation: number;
   assumptions: string[];
+  /** Next to the verdict: which from-memory defaults it rests on. */
+  verdictNote: string;
 }
 
 interface Resolved {
@@ -95,19 +99,22 @@ function resolve(spec: PipeRunSpec): Resolved {
   if (!(allowedDropKPa > 0)) {
     throw new InvalidInputError('The allowed pressure drop must be positive', [{ path: 'allowed_drop_kPa', message: 'expected > 0' }]);
   }
-  const viscosityPaS = spec.viscosityPaS ?? lookupViscosityPaS(spec.gas);
-  if (spec.viscosityPaS === undefined) assumptions.push('viscosity near 20 °C from a table (from memory); mixtures by Wilke 1950');
+  const gasTemperatureK = spec.gasTemperatureK ?? DEFAULT_LINE_TEMPERATURE_K;
+  const viscosityPaS = spec.viscosityPaS ?? lookupViscosityPaS(spec.gas, gasTemperatureK);
+  if (spec.viscosityPaS === undefined) assumptions.push(`viscosity at the gas temperature (${(gasTemperatureK - 273.15).toFixed(1)} °C) from a 20 °C table by Sutherland’s law (from memory); mixtures by Wilke 1950`);
+  if (spec.innerDiameterFromTubeTable) assumptions.push('inner diameter from the EN 13348 tube sizes (wall thicknesses from memory, not verified)');
   if (spec.roughnessMm === undefined) assumptions.push(`roughness ${DRAWN_COPPER_ROUGHNESS_MM} mm, drawn copper (from memory)`);
   return {
     spec: {
       gas: spec.gas,
       innerDiameterMm: spec.innerDiameterMm,
+      innerDiameterFromTubeTable: spec.innerDiameterFromTubeTable ?? false,
       lengthM: spec.lengthM,
       fittingsAllowancePercent,
       fittingsEquivalentLengthM: spec.fittingsEquivalentLengthM ?? 0,
       linePressureKPaGauge: line,
       atmosphericPressureBarAbs: spec.atmosphericPressureBarAbs ?? DEFAULT_REFERENCE.pressureBarAbs,
-      gasTemperatureK: spec.gasTemperatureK ?? DEFAULT_LINE_TEMPERATURE_K,
+      gasTemperatureK,
       referenceTemperatureK: spec.referenceTemperatureK ?? DEFAULT_REFERENCE.temperatureK,
       referencePressureBarAbs: spec.referencePressureBarAbs ?? DEFAULT_REFERENCE.pressureBarAbs,
       allowedDropKPa,
@@ -117,6 +124,17 @@ function resolve(spec: PipeRunSpec): Resolved {
     },
     assumptions,
   };
+}
+
+/**
+ * The words that go next to a pass/fail verdict: which of its inputs are from-memory defaults (the
+ * assumptions marked "from memory"), so the verdict is not trusted further than they are.
+ */
+export function verdictNote(withinAllowance: boolean, assumptions: readonly string[]): string {
+  const memory = assumptions.filter((a) => /from memory/.test(a));
+  const verdict = withinAllowance ? 'Within the allowed drop' : 'Over the allowed drop';
+  if (memory.length === 0) return `${verdict}, from the figures given.`;
+  return `${verdict} — resting on from-memory defaults: ${memory.join('; ')}. Check them against the design standard before relying on the verdict.`;
 }
 
 function evaluate(r: Resolved, flowFreeLMin: number): PipeRunResult {
@@ -164,6 +182,7 @@ function evaluate(r: Resolved, flowFreeLMin: number): PipeRunResult {
     withinAllowance: drop.pressureDropKPa <= s.allowedDropKPa,
     utilisation: drop.pressureDropKPa / s.allowedDropKPa,
     assumptions: r.assumptions,
+    verdictNote: verdictNote(drop.pressureDropKPa <= s.allowedDropKPa, r.assumptions),
   };
 }
 

@@ -164,6 +164,7 @@ describe('calc forecast: analytic cases', () => {
       source: {
         type: 'cylinders', gas: 'O2', water_capacity_L: 47, fill_gauge_bar: 137, fill_temperature_C: 15,
         full: 10, in_use_gauge_bar: [], reorder_level_cylinders: 4, order_up_to_cylinders: 12, lead_time_hours: 24,
+        residual_gauge_bar: 0, // HTM's nominal contents are to empty
       },
       demand: [{ flow_L_min: 10 }],
     });
@@ -265,6 +266,105 @@ describe('calc forecast: bad input', () => {
     ['draws above 10,000', (v: any) => (v.draws = 10_001), 'draws'],
   ])('%s → invalid_input at its field', (_name, mutate, path) => {
     expect(pathOf(mutate)).toContain(path);
+  });
+});
+
+describe('calc forecast: liquefied gases are known by weight, not by gauge', () => {
+  const n2oStore = (source: Record<string, unknown>) => ({
+    start: '2027-01-04T00:00',
+    timezone: 'Europe/London',
+    horizon_days: 10,
+    source: { type: 'cylinders', gas: 'N2O', water_capacity_L: 10, fill_gauge_bar: 44, fill_temperature_C: 15, full: 4, ...source },
+    demand: [{ flow_L_min: 5 }],
+  });
+  const errorOf = (input: unknown): InvalidInputError => {
+    try {
+      forecastVerb(input);
+    } catch (e) {
+      expect(e).toBeInstanceOf(InvalidInputError);
+      return e as InvalidInputError;
+    }
+    throw new Error('expected InvalidInputError');
+  };
+
+  it('refuses a N2O store with no fill mass, and any in-use gauge reading, with "weigh the cylinder"', () => {
+    expect(errorOf(n2oStore({})).details[0].path).toBe('source.fill_kg');
+    const e = errorOf(n2oStore({ fill_kg: 7.5, in_use_gauge_bar: [40] }));
+    expect(e.message).toMatch(/weigh the cylinder: gross − tare/);
+    expect(e.details[0].path).toBe('source.in_use_gauge_bar.0');
+    // a manifold's bank gauges of a liquefied gas say nothing about contents either
+    const m = errorOf({ ...n2oStore({}), source: { type: 'manifold', gas: 'N2O', water_capacity_L: 10, fill_gauge_bar: 44, fill_kg: 7.5, cylinders_per_bank: 2, duty_bank_gauge_bar: 44, standby_bank_gauge_bar: 44 } });
+    expect(m.message).toMatch(/weigh/);
+  });
+
+  it('counts full cylinders by fill_kg and part-used ones by their net weight', () => {
+    // reference equation of state for N2O (Lemmon & Span, 2006), z-grid in tests/reference: 1.872814 kg/m³
+    // at 288.15 K, 1.01325 bar → 1000 / 1.872814 = 533.96 L of gas per kg; 4 × 7.5 kg + 2.5 kg = 32.5 kg
+    const out = run(n2oStore({ fill_kg: 7.5, in_use_net_kg: [2.5] }));
+    expect(Math.abs(out.contents_at_start / (32.5 * 533.96) - 1)).toBeLessThan(0.001);
+  });
+});
+
+describe('calc forecast: the 50:50 N2O/O2 separation caution', () => {
+  const entonox = (source: Record<string, unknown>) => ({
+    start: '2027-01-04T00:00',
+    timezone: 'Europe/London',
+    horizon_days: 5,
+    source: { type: 'cylinders', gas: 'N2O_O2_50', water_capacity_L: 10, fill_gauge_bar: 137, fill_temperature_C: 15, full: 4, ...source },
+    demand: [{ flow_L_min: 5 }],
+  });
+  const cautionsOf = (input: unknown) => ((forecastVerb(input) as { cautions: string[] }).cautions ?? []).join(' ');
+
+  it('appears when the store or the in-use temperature is at or below −5.5 °C (sources: −5.5 to −7 °C; BMJ 1968;3:715)', () => {
+    expect(cautionsOf(entonox({ in_use_temperature_C: -5.5 }))).toMatch(/hypoxic hazard\)\. Before use/);
+    expect(cautionsOf(entonox({ fill_temperature_C: -7, in_use_temperature_C: 15 }))).toMatch(/store temperature/);
+    expect(cautionsOf(entonox({ in_use_temperature_C: 18 }))).toBe('');
+    // an oxygen store at −10 °C has no such caution
+    expect(cautionsOf({ ...entonox({ in_use_temperature_C: -10 }), source: { ...entonox({}).source, gas: 'O2', in_use_temperature_C: -10 } })).toBe('');
+  });
+
+  it('a mixture store carries its hours to empty across the mixture Z range (Peng–Robinson 1976 as the second method)', () => {
+    const out = forecastVerb(entonox({ in_use_temperature_C: 18, residual_gauge_bar: 0 })) as Out & { hours_to_empty_range: { low: number; high: number; method: string } };
+    // 4 × 10 L at 137 bar g ≈ 4 × 1,900 L of free gas at 5 L/min: about 25 h, inside the 5-day horizon
+    expect(out.hours_to_empty).not.toBeNull();
+    expect(out.hours_to_empty_range.low).toBeLessThanOrEqual(out.hours_to_empty!);
+    expect(out.hours_to_empty_range.high).toBeGreaterThanOrEqual(out.hours_to_empty!);
+    expect(out.hours_to_empty_range.high - out.hours_to_empty_range.low).toBeGreaterThan(0);
+    expect(out.hours_to_empty_range.method).toMatch(/Peng–Robinson/);
+    const o2 = forecastVerb({ ...entonox({}), source: { ...entonox({}).source, gas: 'O2' } }) as Record<string, unknown>;
+    expect(o2.hours_to_empty_range).toBeUndefined();
+  });
+
+  it('refuses a bulk_liquid source of a mixture (50:50, heliox)', () => {
+    for (const gas of ['N2O_O2_50', 'HE_O2_79']) {
+      const input = { ...EXAMPLE, source: { ...EXAMPLE.source, gas } };
+      expect(() => forecastVerb(input)).toThrow(/not held as bulk liquid/);
+    }
+  });
+});
+
+describe('calc forecast: cylinders are changed at a stated residual, not drained flat', () => {
+  it('defaults to 10 % of the fill pressure, says so, and counts only the gas above it', () => {
+    const input = (residual?: number) => ({
+      start: '2027-01-04T00:00',
+      timezone: 'Europe/London',
+      horizon_days: 5,
+      source: { type: 'cylinders', gas: 'O2', water_capacity_L: 50, fill_gauge_bar: 200, fill_temperature_C: 15, full: 4, in_use_gauge_bar: [], ...(residual === undefined ? {} : { residual_gauge_bar: residual }) },
+      demand: [{ flow_L_min: 10 }],
+    });
+    const flat = forecastVerb(input(0)) as Out & { residual: { gauge_bar: number; basis: string } };
+    const kept = forecastVerb(input()) as Out & { residual: { gauge_bar: number; basis: string } };
+    expect(kept.residual.gauge_bar).toBe(20);
+    expect(kept.residual.basis).toMatch(/10 % of the fill pressure/);
+    // Hand calculation with Z of oxygen at 288.15 K from the z-grid in tests/reference (Schmidt & Wagner 1985):
+    // Z(20 bar) = 0.9854, Z(1.01325 bar) ≈ 0.9993. Gas a 50 L cylinder holds between 21.01 and 1.01 bar abs:
+    // 50 × (21.013/0.9856 − 1.013/0.9993) / 1.01325 × 0.9993 ≈ 1,001 L of free gas at 15 °C, 1.01325 bar.
+    const perCylDrop = (flat.contents_at_start - kept.contents_at_start) / 4;
+    expect(Math.abs(perCylDrop / 1001 - 1)).toBeLessThan(0.01);
+  });
+
+  it('refuses a residual at or above the fill pressure', () => {
+    expect(() => forecastVerb({ start: '2027-01-04T00:00', timezone: 'Europe/London', source: { type: 'cylinders', gas: 'O2', water_capacity_L: 50, fill_gauge_bar: 200, full: 1, residual_gauge_bar: 200 } })).toThrow(InvalidInputError);
   });
 });
 

@@ -1,7 +1,7 @@
 import type { CalcVerb } from '../calc/verbs';
 import { parseOrThrow } from '../api/errors';
 import { forecastInputSchema } from './forecast-input.schema';
-import { FORECAST_CAUTION, forecastSource, type SourceForecast } from './forecast-source';
+import { FORECAST_CAUTION, MONTE_CARLO_MODEL_TEXT, forecastSource, type SourceForecast } from './forecast-source';
 import { boundaryLabel, boundaryOffset, formatLocalAt } from './hour-index';
 
 const round = (v: number, digits: number): number => {
@@ -56,8 +56,17 @@ export function presentForecast(f: SourceForecast, draws: number): Record<string
       hours_to_empty: { p10: r(f.bands.p10), p50: r(f.bands.p50), p90: r(f.bands.p90) },
       draws: f.bands.draws,
       draws_outlasting_horizon: f.bands.drawsOutlastingHorizon,
+      demand_cv: f.monteCarlo?.demandCv,
+      demand_persistence: f.monteCarlo?.persistence,
+      model: MONTE_CARLO_MODEL_TEXT,
     };
   }
+  if (f.hoursToEmptyRange) {
+    const h = f.hoursToEmptyRange;
+    out.hours_to_empty_range = { low: h.low === null ? null : round(h.low, 4), high: h.high === null ? null : round(h.high, 4), method: h.method };
+  }
+  if (f.residual) out.residual = { gauge_bar: round(f.residual.gaugeBar, 4), basis: f.residual.basis };
+  out.cautions = f.cautions;
   out.caution = FORECAST_CAUTION;
   return out;
 }

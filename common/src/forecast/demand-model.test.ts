@@ -31,7 +31,7 @@ describe('oxygenShareOfBlendLMin', () => {
 
 describe('buildDemandLinesFromTherapy', () => {
   it('reproduces WE-5: 30 severe + 10 critical patients at WHO flows = 600 L/min = 864 m³/day ≈ 1,026 L LOX', () => {
-    // WE-5 (domain facts, WHO flows): 30 × 10 + 10 × 30 = 600 L/min; × 1,440 min = 864,000 L/day;
+    // worked example WE-5 (WHO interim guidance 2020: severe 10 L/min, critical 30 L/min): 30 × 10 + 10 × 30 = 600 L/min; × 1,440 min = 864,000 L/day;
     // ÷ 842 L gas per L of boiling-point LOX at 15 °C = 1,026 L LOX/day.
     const lines = buildDemandLinesFromTherapy([
       { device: 'custom', patients: 30, flow_L_min: WHO_PLANNING_FLOW_L_MIN.severe },

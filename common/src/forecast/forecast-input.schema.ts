@@ -1,8 +1,9 @@
 import { z } from 'zod';
 import { GAS_CODES, type GasCode } from '../gas/gases';
+import { isPremixedMixture } from '../gas/mixture-cautions';
 import { REFERENCE_CONDITIONS, type ReferenceCode } from '../gas/reference-conditions';
 import { MAX_HORIZON_DAYS, isValidTimeZone, resolveLocalTimeUtcMs } from './hour-index';
-import { MAX_DRAWS } from './monte-carlo';
+import { DEFAULT_DEMAND_PERSISTENCE, MAX_DEMAND_PERSISTENCE, MAX_DRAWS } from './monte-carlo';
 
 /**
  * The forecast request: one schema for the calc verb, the API and the form (types via z.infer).
@@ -16,10 +17,20 @@ const referenceCodes = Object.keys(REFERENCE_CONDITIONS) as [ReferenceCode, ...R
 const numberOf = (what: string) => z.number({ error: (iss) => (iss.input === undefined ? `${what} is required` : `${what} must be a number`) });
 const nonNegative = (what: string) => numberOf(what).min(0, { error: `${what} must be ≥ 0` });
 const positive = (what: string) => numberOf(what).gt(0, { error: `${what} must be > 0` });
-const wholeCount = (what: string) => numberOf(what).int({ error: `${what} must be a whole number` }).min(0, { error: `${what} must be ≥ 0` });
+const wholeCount = (what: string) => numberOf(what).int({ error: `${what} must be a whole number` }).min(0, { error: `${what} must be ≥ 0` }).max(1e6, { error: `${what} must be at most 1,000,000` });
+/**
+ * Upper bounds of physically meaningful inputs (beyond them the arithmetic overflows or gives absurd
+ * figures): a flow line up to 1,000,000 L/min, a tank or delivery up to 1,000,000 kg (the largest
+ * standard bulk tank holds about 86 t of liquid oxygen), a cylinder up to 5,000 L of water capacity and
+ * 350 bar, counts up to 1,000,000. Common practice, not a standard.
+ */
+const MAX_FLOW = 1e6;
+const MAX_KG = 1e6;
+const MAX_COUNT = 1e6;
+const atMost = (schema: z.ZodNumber, max: number, what: string) => schema.max(max, { error: `${what} must be at most ${max.toLocaleString('en-GB')}` });
 
 export const demandLineSchema = z.object({
-  flow_L_min: nonNegative('flow_L_min (L/min of free gas)'),
+  flow_L_min: atMost(nonNegative('flow_L_min (L/min of free gas)'), MAX_FLOW, 'flow_L_min'),
   hours: z.array(z.number().int({ error: 'hour must be a whole number' }).min(0, { error: 'local clock hour must be 0–23' }).max(23, { error: 'local clock hour must be 0–23' })).optional(),
   weekdays: z.array(z.number().int({ error: 'weekday must be a whole number' }).min(1, { error: 'ISO weekday must be 1 (Monday) – 7 (Sunday)' }).max(7, { error: 'ISO weekday must be 1 (Monday) – 7 (Sunday)' })).optional(),
   from: localTime.optional(),
@@ -31,7 +42,7 @@ export const demandScenarioSchema = z.object({
   name: z.string().max(200).optional(),
   from: localTime.optional(),
   until: localTime.optional(),
-  multiplier: nonNegative('multiplier').optional(),
+  multiplier: atMost(nonNegative('multiplier'), 1000, 'multiplier').optional(),
   extra_lines: z.array(demandLineSchema).optional(),
 });
 
@@ -45,16 +56,18 @@ export const bulkLiquidSourceSchema = z
   .object({
     type: z.literal('bulk_liquid'),
     gas,
-    capacity_kg: positive('capacity_kg'),
-    contents_kg: nonNegative('contents_kg'),
+    capacity_kg: atMost(positive('capacity_kg'), MAX_KG, 'capacity_kg'),
+    contents_kg: atMost(nonNegative('contents_kg'), MAX_KG, 'contents_kg'),
     evaporation_percent_per_day: nonNegative('evaporation_percent_per_day').max(100, { error: 'evaporation_percent_per_day must be ≤ 100' }).default(0),
-    reorder_level_kg: nonNegative('reorder_level_kg').optional(),
+    reorder_level_kg: atMost(nonNegative('reorder_level_kg'), MAX_KG, 'reorder_level_kg').optional(),
     ...relativeReorder,
-    order_up_to_kg: positive('order_up_to_kg').optional(),
+    order_up_to_kg: atMost(positive('order_up_to_kg'), MAX_KG, 'order_up_to_kg').optional(),
     lead_time_hours: nonNegative('lead_time_hours').max(24 * 366, { error: 'lead_time_hours must be ≤ one year' }).default(0),
-    reserve_kg: nonNegative('reserve_kg').optional(),
+    reserve_kg: atMost(nonNegative('reserve_kg'), MAX_KG, 'reserve_kg').optional(),
   })
   .superRefine((s, ctx) => {
+    // a premixed gas cannot be stored as one liquid: its components boil off at different rates
+    if (isPremixedMixture(s.gas)) ctx.addIssue({ code: 'custom', path: ['gas'], message: 'mixtures (50:50 N2O/O2, heliox) are not held as bulk liquid: use cylinders or a manifold' });
     if (s.contents_kg > s.capacity_kg) ctx.addIssue({ code: 'custom', path: ['contents_kg'], message: `contents ${s.contents_kg} kg are above the capacity ${s.capacity_kg} kg` });
     checkReorderFields(ctx, s.reorder_level_kg, s.reorder_level_days, s.reorder_level_percent, 'reorder_level_kg');
     const upTo = s.order_up_to_kg ?? s.capacity_kg;
@@ -65,16 +78,21 @@ export const bulkLiquidSourceSchema = z
 
 const cylinderFields = {
   gas,
-  water_capacity_L: positive('water_capacity_L'),
-  fill_gauge_bar: positive('fill_gauge_bar'),
+  water_capacity_L: atMost(positive('water_capacity_L').min(0.01, { error: 'water_capacity_L must be at least 0.01 L' }), 5000, 'water_capacity_L'),
+  fill_gauge_bar: atMost(positive('fill_gauge_bar'), 350, 'fill_gauge_bar'),
   fill_temperature_C: z.number({ error: 'fill_temperature_C must be a number' }).default(15),
   /** Temperature of the in-use cylinders when read; defaults to fill_temperature_C. */
   in_use_temperature_C: z.number().optional(),
-  reorder_level_cylinders: nonNegative('reorder_level_cylinders').optional(),
+  reorder_level_cylinders: atMost(nonNegative('reorder_level_cylinders'), MAX_COUNT, 'reorder_level_cylinders').optional(),
   ...relativeReorder,
-  order_up_to_cylinders: positive('order_up_to_cylinders').optional(),
+  order_up_to_cylinders: atMost(positive('order_up_to_cylinders'), MAX_COUNT, 'order_up_to_cylinders').optional(),
   lead_time_hours: nonNegative('lead_time_hours').max(24 * 366, { error: 'lead_time_hours must be ≤ one year' }).default(0),
-  reserve_cylinders: nonNegative('reserve_cylinders').optional(),
+  reserve_cylinders: atMost(nonNegative('reserve_cylinders'), MAX_COUNT, 'reserve_cylinders').optional(),
+  /**
+   * CO2 and N2O (liquefied): net gas of one full cylinder, kg (their gauge shows the vapour pressure,
+   * not the contents, so a full cylinder is known by its filling mass, not by fill_gauge_bar).
+   */
+  fill_kg: positive('fill_kg').max(1000, { error: 'fill_kg must be ≤ 1000 kg' }).optional(),
 };
 
 function checkReorderFields(ctx: z.RefinementCtx, absolute: number | undefined, days: number | undefined, percent: number | undefined, absPath: string): void {
@@ -98,11 +116,22 @@ export const cylinderSourceSchema = z
     type: z.literal('cylinders'),
     ...cylinderFields,
     full: wholeCount('full'),
-    in_use_gauge_bar: z.array(nonNegative('in-use gauge reading (bar)')).default([]),
+    /**
+     * Gauge pressure at which a cylinder is changed (gas left behind), bar(g). Default: 10 % of
+     * fill_gauge_bar (US EMS guidance keeps about 200 psi of a 2,000–2,200 psi fill; common practice).
+     */
+    residual_gauge_bar: atMost(nonNegative('residual_gauge_bar'), 350, 'residual_gauge_bar').optional(),
+    in_use_gauge_bar: z.array(atMost(nonNegative('in-use gauge reading (bar)'), 350, 'in-use gauge reading (bar)')).max(10_000).default([]),
+    /** CO2 and N2O: weighed net contents (gross − tare) of each part-used cylinder, kg. */
+    in_use_net_kg: z.array(nonNegative('in-use net weight (kg)').max(1000, { error: 'in-use net weight must be ≤ 1000 kg' })).default([]),
   })
-  .superRefine((s, ctx) => checkCylinderReorder(ctx, s));
+  .superRefine((s, ctx) => {
+    checkCylinderReorder(ctx, s);
+    if (s.residual_gauge_bar !== undefined && s.residual_gauge_bar >= s.fill_gauge_bar) ctx.addIssue({ code: 'custom', path: ['residual_gauge_bar'], message: 'must be below the fill pressure' });
+  });
 
-const bankReadings = z.union([nonNegative('gauge reading (bar)'), z.array(nonNegative('gauge reading (bar)')).min(1)]);
+const bankGauge = atMost(nonNegative('gauge reading (bar)'), 350, 'gauge reading (bar)');
+const bankReadings = z.union([bankGauge, z.array(bankGauge).min(1)]);
 
 export const manifoldSourceSchema = z
   .object({
@@ -113,9 +142,9 @@ export const manifoldSourceSchema = z
     duty_bank_gauge_bar: bankReadings,
     standby_bank_gauge_bar: bankReadings,
     /** Duty-bank gauge pressure at which the manifold changes over (gas left behind); 0 = drawn flat. */
-    changeover_gauge_bar: nonNegative('changeover_gauge_bar').default(0),
+    changeover_gauge_bar: atMost(nonNegative('changeover_gauge_bar'), 350, 'changeover_gauge_bar').default(0),
     spare_full: wholeCount('spare_full').default(0),
-    bank_replacement_hours: nonNegative('bank_replacement_hours').default(0),
+    bank_replacement_hours: atMost(nonNegative('bank_replacement_hours'), 24 * 366, 'bank_replacement_hours').default(0),
   })
   .superRefine((s, ctx) => {
     checkCylinderReorder(ctx, s);
@@ -134,8 +163,8 @@ export const forecastSourceSchema = z.discriminatedUnion('type', [bulkLiquidSour
 
 export const forecastDeliverySchema = z.object({
   at: localTime,
-  kg: positive('kg').optional(),
-  cylinders: z.number().int({ error: 'cylinders must be a whole number' }).gt(0, { error: 'cylinders must be > 0' }).optional(),
+  kg: atMost(positive('kg'), MAX_KG, 'kg').optional(),
+  cylinders: z.number().int({ error: 'cylinders must be a whole number' }).gt(0, { error: 'cylinders must be > 0' }).max(MAX_COUNT, { error: 'cylinders must be at most 1,000,000' }).optional(),
 });
 
 export const forecastInputSchema = z
@@ -150,6 +179,8 @@ export const forecastInputSchema = z
     deliveries: z.array(forecastDeliverySchema).default([]),
     draws: z.number().int({ error: 'draws must be a whole number' }).min(0, { error: 'draws must be ≥ 0' }).max(MAX_DRAWS, { error: `draws must be at most ${MAX_DRAWS}` }).default(0),
     demand_cv: nonNegative('demand_cv').max(5, { error: 'demand_cv must be ≤ 5' }).default(0.2),
+    /** Day-to-day persistence φ of the Monte Carlo day multipliers (AR(1)); 0 = independent days. */
+    demand_persistence: nonNegative('demand_persistence').max(MAX_DEMAND_PERSISTENCE, { error: `demand_persistence must be ≤ ${MAX_DEMAND_PERSISTENCE}` }).default(DEFAULT_DEMAND_PERSISTENCE),
     seed: z.number().int({ error: 'seed must be a whole number' }).default(1),
   })
   .superRefine((v, ctx) => {

@@ -1,13 +1,19 @@
 import { InvalidInputError } from '../api/errors';
-import { compressedContents } from '../gas/contents';
-import type { GasCode } from '../gas/gases';
+import { DEFAULT_RESIDUAL_FRACTION_OF_FILL, DEFAULT_RESIDUAL_SOURCE, compressedContents } from '../gas/contents';
+import { isLiquefiedGas, type GasCode } from '../gas/gases';
+import { mixtureCautions } from '../gas/mixture-cautions';
+import { mixtureZRange } from '../gas/mixture-uncertainty';
 import { freeGasLitresPerKg, type ReferenceCode } from '../gas/reference-conditions';
 import { applyScenarios, buildHourlyDemand, type DemandLine } from './demand-lines';
 import { boundaryAtOrAfter, buildHourIndex, resolveLocalTimeUtcMs, type HourIndex } from './hour-index';
 import { projectManifold, type ManifoldEvent } from './manifold';
-import { estimateHoursToEmptyBands, fillLognormalDayMultipliers, mulberry32, percentileOfSorted, type HoursToEmptyBands } from './monte-carlo';
+import { estimateHoursToEmptyBands, fillPersistentDayMultipliers, mulberry32, percentileOfSorted, type HoursToEmptyBands } from './monte-carlo';
 import { daysOfStock, projectDepletion, type DepletionModel, type DepletionOrder, type ForecastRisk } from './project-depletion';
 import type { CylinderSourceInput, ForecastInput, ManifoldSourceInput } from './forecast-input.schema';
+
+/** The Monte Carlo model in words, shown with every band. */
+export const MONTE_CARLO_MODEL_TEXT =
+  'The band is the 10th–90th percentile of the empty time over seeded Monte Carlo draws: each local day’s demand is the hour-by-hour forecast times a lognormal day factor (mean 1, coefficient of variation demand_cv), and the day factors persist from one day to the next as a first-order autoregressive process (correlation demand_persistence from one day to the next, fitted from measured daily use where 14 days exist), so busy spells last several days as real surges do.';
 
 /** Shown with every forecast figure. */
 export const FORECAST_CAUTION =
@@ -38,8 +44,22 @@ export interface SourceForecast {
    * a reorder rule. For a manifold: the level in full-cylinder equivalents × usable gas per cylinder.
    */
   reorderLevel: number | null;
+  /**
+   * Cautions that travel with the forecast: the 50:50 N2O/O2 separation caution when the fill (store)
+   * or in-use temperature is at or below the separation threshold, or below the storage minimum.
+   */
+  cautions: string[];
+  /**
+   * Mixture cylinder stores: hours to empty across the mixture's Z range at the fill state (null = runs
+   * beyond the horizon), with the method; null for pure gases, bulk tanks and manifolds.
+   */
+  hoursToEmptyRange: { low: number | null; high: number | null; method: string } | null;
+  /** The Monte Carlo settings behind `bands` (null when no draws were asked for). */
+  monteCarlo: { demandCv: number; persistence: number } | null;
+  /** Cylinder stores: the gauge pressure each cylinder is changed at and where it came from; null otherwise. */
+  residual: { gaugeBar: number; basis: string } | null;
   /** Conversion factors used, for the method panel. */
-  factors: { freeGasLitresPerKg?: number; fullCylinderFreeGasL?: number; residualPerCylinderL?: number };
+  factors: { freeGasLitresPerKg?: number; fullCylinderFreeGasL?: number; residualPerCylinderL?: number; usablePerCylinderL?: number };
 }
 
 /** Re-labels the gas engine's field paths with the forecast request's. */
@@ -92,6 +112,7 @@ export function forecastSource(input: ForecastInput): SourceForecast {
   if (src.type === 'manifold') return forecastManifold(input, src, index, demandL, boundaryOf);
 
   let model: DepletionModel;
+  let residual: SourceForecast['residual'] = null;
   let unit: 'kg' | 'L';
   let factors: SourceForecast['factors'];
   if (src.type === 'bulk_liquid') {
@@ -115,13 +136,28 @@ export function forecastSource(input: ForecastInput): SourceForecast {
     }
   } else {
     unit = 'L';
-    const perCyl = cylinderFreeGasL(src.gas, src.water_capacity_L, src.fill_gauge_bar, src.fill_temperature_C, input.reference, 'fill_gauge_bar');
+    const fullL = fullCylinderFreeGasL(src, input.reference);
     const inUseT = src.in_use_temperature_C ?? src.fill_temperature_C;
+    // each cylinder is changed at its residual, not drawn flat: what stays behind is not stock
+    const liquefied = isLiquefiedGas(src.gas);
+    const residualBar = liquefied ? 0 : (src.residual_gauge_bar ?? DEFAULT_RESIDUAL_FRACTION_OF_FILL * src.fill_gauge_bar);
+    residual = {
+      gaugeBar: residualBar,
+      basis: liquefied ? 'liquefied gas: drawn until the liquid is gone (no residual)' : src.residual_gauge_bar !== undefined ? 'residual as given' : DEFAULT_RESIDUAL_SOURCE,
+    };
+    const residualL = residualBar > 0 ? cylinderFreeGasL(src.gas, src.water_capacity_L, residualBar, inUseT, input.reference, 'residual_gauge_bar') : 0;
+    const perCyl = fullL - residualL;
+    if (!(perCyl > 0)) throw new InvalidInputError('The residual leaves no usable gas in a full cylinder', [{ path: 'source.residual_gauge_bar', message: 'must be well below the fill pressure' }]);
     let inUse = 0;
     src.in_use_gauge_bar.forEach((g, k) => {
-      inUse += cylinderFreeGasL(src.gas, src.water_capacity_L, g, inUseT, input.reference, `in_use_gauge_bar.${k}`);
+      inUse += Math.max(0, cylinderFreeGasL(src.gas, src.water_capacity_L, g, inUseT, input.reference, `in_use_gauge_bar.${k}`) - residualL);
     });
-    factors = { fullCylinderFreeGasL: perCyl };
+    if (src.in_use_net_kg.length > 0) {
+      if (!isLiquefiedGas(src.gas)) throw new InvalidInputError('in_use_net_kg is for liquefied gases (CO2, N2O): give in_use_gauge_bar for this gas', [{ path: 'source.in_use_net_kg', message: 'for CO2 and N2O only' }]);
+      const lPerKg = withGasPaths('source', {}, () => freeGasLitresPerKg(src.gas, input.reference));
+      for (const kg of src.in_use_net_kg) inUse += kg * lPerKg;
+    }
+    factors = { fullCylinderFreeGasL: fullL, residualPerCylinderL: residualL, usablePerCylinderL: perCyl };
     model = {
       contentsStart: src.full * perCyl + inUse,
       capacity: Infinity,
@@ -136,7 +172,26 @@ export function forecastSource(input: ForecastInput): SourceForecast {
     }
   }
   const result = projectDepletion(model);
-  const bands = input.draws > 0 ? estimateHoursToEmptyBands(model, index.dayOfRun, index.days, { draws: input.draws, demandCv: input.demand_cv, seed: input.seed }) : null;
+  // mixtures: the hours to empty across the Z range of a full cylinder (contents scale as 1/Z)
+  let hoursToEmptyRange: SourceForecast['hoursToEmptyRange'] = null;
+  if (src.type !== 'bulk_liquid' && !isLiquefiedGas(src.gas)) {
+    const zr = mixtureZRange(src.gas, src.fill_temperature_C + 273.15, src.fill_gauge_bar + 1.01325);
+    if (zr) {
+      const z = (zr.low === zr.secondMethodZ ? zr.high : zr.low);
+      const run = (f: number) => {
+        const scaled: DepletionModel = {
+          ...model,
+          contentsStart: model.contentsStart * f,
+          deliveries: model.deliveries?.map((d) => ({ ...d, amount: d.amount * f })),
+          reserveLevel: model.reserveLevel === undefined ? undefined : model.reserveLevel * f,
+          reorder: model.reorder ? { ...model.reorder, level: model.reorder.level * f, orderUpTo: model.reorder.orderUpTo * f, lotSize: model.reorder.lotSize * f } : undefined,
+        };
+        return projectDepletion(scaled).hoursToEmpty;
+      };
+      hoursToEmptyRange = { low: run(z / zr.high), high: run(z / zr.low), method: zr.method };
+    }
+  }
+  const bands = input.draws > 0 ? estimateHoursToEmptyBands(model, index.dayOfRun, index.days, { draws: input.draws, demandCv: input.demand_cv, seed: input.seed, persistence: input.demand_persistence }) : null;
   return {
     index,
     unit,
@@ -152,6 +207,10 @@ export function forecastSource(input: ForecastInput): SourceForecast {
     bands,
     manifoldEvents: [],
     reorderLevel: model.reorder ? model.reorder.level : null,
+    cautions: src.type === 'bulk_liquid' ? [] : temperatureCautions(src),
+    residual,
+    hoursToEmptyRange,
+    monteCarlo: bands ? { demandCv: input.demand_cv, persistence: input.demand_persistence } : null,
     factors,
   };
 }
@@ -175,6 +234,30 @@ function cylinderReorderLevel(
   return relativeLevel(src, perDay, src.order_up_to_cylinders ?? 0);
 }
 
+/** Mixture cautions for the store (fill) and in-use temperatures of a cylinder source, the colder first. */
+function temperatureCautions(src: CylinderSourceInput | ManifoldSourceInput): string[] {
+  const store = src.fill_temperature_C;
+  const inUse = src.in_use_temperature_C ?? store;
+  const colder = inUse < store ? { t: inUse, where: 'The in-use temperature' } : { t: store, where: 'The store temperature' };
+  return mixtureCautions(src.gas, colder.t, colder.where);
+}
+
+/**
+ * Free gas of one full cylinder, L at the reference. Compressed gases: at fill_gauge_bar and
+ * fill_temperature_C. CO2 and N2O: from fill_kg (their gauge shows the vapour pressure, not the contents).
+ */
+function fullCylinderFreeGasL(src: CylinderSourceInput | ManifoldSourceInput, reference: ReferenceCode): number {
+  if (isLiquefiedGas(src.gas)) {
+    if (src.fill_kg === undefined) {
+      throw new InvalidInputError(`${src.gas} is a liquefied gas: its gauge shows the vapour pressure, not the contents. Give fill_kg (net kg of a full cylinder) and weigh part-used cylinders (gross − tare) into in_use_net_kg`, [
+        { path: 'source.fill_kg', message: 'required for a liquefied gas (weigh the cylinder: gross − tare)' },
+      ]);
+    }
+    return src.fill_kg * withGasPaths('source', {}, () => freeGasLitresPerKg(src.gas, reference));
+  }
+  return cylinderFreeGasL(src.gas, src.water_capacity_L, src.fill_gauge_bar, src.fill_temperature_C, reference, 'fill_gauge_bar');
+}
+
 function forecastManifold(
   input: ForecastInput,
   src: ManifoldSourceInput,
@@ -182,7 +265,7 @@ function forecastManifold(
   demandL: Float64Array,
   boundaryOf: (at: string) => number,
 ): SourceForecast {
-  const perCyl = cylinderFreeGasL(src.gas, src.water_capacity_L, src.fill_gauge_bar, src.fill_temperature_C, input.reference, 'fill_gauge_bar');
+  const perCyl = fullCylinderFreeGasL(src, input.reference);
   const inUseT = src.in_use_temperature_C ?? src.fill_temperature_C;
   const residual = src.changeover_gauge_bar > 0 ? cylinderFreeGasL(src.gas, src.water_capacity_L, src.changeover_gauge_bar, inUseT, input.reference, 'changeover_gauge_bar') : 0;
   const bankL = (readings: number | number[], key: string) => {
@@ -221,7 +304,7 @@ function forecastManifold(
     const hs = new Float64Array(input.draws);
     let outlasting = 0;
     for (let k = 0; k < input.draws; k++) {
-      fillLognormalDayMultipliers(rng, input.demand_cv, mult);
+      fillPersistentDayMultipliers(rng, input.demand_cv, input.demand_persistence, mult);
       const h = projectManifold({ ...base, reorder }, { dayMultiplier: mult, dayOfRun: index.dayOfRun, stopAtEmpty: true }).hoursToEmpty;
       hs[k] = h === null ? Infinity : h;
       if (h === null) outlasting++;
@@ -254,6 +337,10 @@ function forecastManifold(
     bands,
     manifoldEvents: result.events,
     reorderLevel: reorder ? reorder.levelCylinders * usablePerCyl : null,
+    cautions: temperatureCautions(src),
+    residual: { gaugeBar: src.changeover_gauge_bar, basis: 'the manifold’s changeover pressure' },
+    hoursToEmptyRange: null,
+    monteCarlo: bands ? { demandCv: input.demand_cv, persistence: input.demand_persistence } : null,
     factors: { fullCylinderFreeGasL: perCyl, residualPerCylinderL: residual },
   };
 }

@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { createManifoldState, projectManifold, stepManifold, type ManifoldConfig, type ManifoldEvent } from './manifold';
 
-// WE-3 (domain facts, HTM 02-01 method as quoted): a ward drawing 201 L/min needs a 2 × 10 manifold of
+// worked example WE-3 (HTM 02-01 method as quoted in a 2018 military-hospital cylinder calculation): a ward drawing 201 L/min needs a 2 × 10 manifold of
 // 47 L / 137 bar cylinders holding about 6,800 L each (HTM 02-01 Part A Table 22).
 const CYL_L = 6800;
 const RATE_L_H = 201 * 60; // 12,060 L/h

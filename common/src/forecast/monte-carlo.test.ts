@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { InvalidInputError } from '../api/errors';
 import { buildHourIndex } from './hour-index';
-import { estimateHoursToEmptyBands, fillLognormalDayMultipliers, mulberry32, percentileOfSorted } from './monte-carlo';
+import { estimateHoursToEmptyBands, fillLognormalDayMultipliers, fillPersistentDayMultipliers, fitDailyPersistence, mulberry32, percentileOfSorted } from './monte-carlo';
 import { projectDepletion, type DepletionModel } from './project-depletion';
 
 describe('mulberry32', () => {
@@ -91,5 +91,57 @@ describe('estimateHoursToEmptyBands', () => {
 
   it('rejects more than 10,000 draws', () => {
     expect(() => estimateHoursToEmptyBands(m, idx.dayOfRun, idx.days, { draws: 10_001, demandCv: 0.2, seed: 1 })).toThrow(InvalidInputError);
+  });
+});
+
+describe('day-to-day persistence (AR(1) day factors)', () => {
+  const lag1 = (v: Float64Array | number[]) => {
+    const x = Array.from(v, Math.log);
+    const mean = x.reduce((a, b) => a + b, 0) / x.length;
+    let c0 = 0;
+    let c1 = 0;
+    for (let i = 0; i < x.length; i++) {
+      c0 += (x[i] - mean) ** 2;
+      if (i > 0) c1 += (x[i] - mean) * (x[i - 1] - mean);
+    }
+    return c1 / c0;
+  };
+
+  it('keeps the lognormal marginal (mean 1, CV as asked) and gives lag-1 correlation φ of the logs (Box & Jenkins AR(1))', () => {
+    const out = new Float64Array(200_000);
+    fillPersistentDayMultipliers(mulberry32(5), 0.2, 0.7, out);
+    const mean = out.reduce((a, b) => a + b, 0) / out.length;
+    const sd = Math.sqrt(out.reduce((a, b) => a + (b - mean) ** 2, 0) / out.length);
+    expect(mean).toBeCloseTo(1, 2);
+    expect(sd / mean).toBeCloseTo(0.2, 2);
+    expect(lag1(out)).toBeCloseTo(0.7, 2);
+    const flat = new Float64Array(10);
+    fillPersistentDayMultipliers(mulberry32(5), 0, 0.7, flat);
+    expect([...flat]).toEqual(new Array(10).fill(1));
+  });
+
+  it('fits φ back from a series made with a known φ (Yule–Walker), and refuses to fit fewer than 14 days', () => {
+    for (const phi of [0, 0.4, 0.8]) {
+      const series = new Float64Array(5000);
+      fillPersistentDayMultipliers(mulberry32(99), 0.25, phi, series);
+      // sampling error of the lag-1 estimate ≈ √((1 − φ²)/n) ≤ 0.015 here (Bartlett's formula)
+      expect(Math.abs(fitDailyPersistence([...series].map((m) => 900 * m))! - phi)).toBeLessThan(0.05);
+    }
+    expect(fitDailyPersistence(new Array(13).fill(5))).toBeNull();
+    expect(fitDailyPersistence(new Array(20).fill(5))).toBe(0);
+  });
+
+  it('widens the band as the variance of an AR(1) mean says: 10 days, CV 0.2, φ 0.7 → about twice the independent spread', () => {
+    // Hand calculation: the mean of n = 10 AR(1) log-factors has SD σ·√S/n, S = n + 2·Σ_{k=1}^{n−1}(n−k)φᵏ;
+    // σ = √ln(1.04) = 0.198; φ = 0 → 0.0626, φ = 0.7 → S = 41.55, 0.128 (2.04 × wider).
+    const idx = buildHourIndex('Europe/London', '2027-01-04T00:00', 30);
+    const m: DepletionModel = { contentsStart: 2400, capacity: 5000, evaporationPerHour: 0, demandPerHour: new Float64Array(idx.hours).fill(10) };
+    const independent = estimateHoursToEmptyBands(m, idx.dayOfRun, idx.days, { draws: 4000, demandCv: 0.2, seed: 7 });
+    const persistent = estimateHoursToEmptyBands(m, idx.dayOfRun, idx.days, { draws: 4000, demandCv: 0.2, seed: 7, persistence: 0.7 });
+    const width = (b: typeof independent) => (b.p90! - b.p10!) / b.p50!;
+    const ratio = width(persistent) / width(independent);
+    expect(ratio).toBeGreaterThan(1.7);
+    expect(ratio).toBeLessThan(2.4);
+    expect(() => estimateHoursToEmptyBands(m, idx.dayOfRun, idx.days, { draws: 10, demandCv: 0.2, seed: 7, persistence: 0.99 })).toThrow(InvalidInputError);
   });
 });

@@ -131,7 +131,7 @@ describe('projectDepletion: reorder rule', () => {
   });
 
   it('WE-4: a 10,000 L VIE drawn at 120,600 L/day goes 80 % → 20 % in ~42 days; reorder point (2 + 3) × 143 = 715 L LOX', () => {
-    // WE-4 (domain facts): 120,600 L/day ÷ 842 L gas per L LOX (15 °C) = 143 L LOX/day; a 0.5 %/day NER
+    // worked example WE-4, hand calculation: 120,600 L/day ÷ 842 L gas per L LOX (15 °C) = 143 L LOX/day; a 0.5 %/day NER
     // on 10,000 L is 50 L/day, below demand, so nothing is lost; 60 % of 10,000 L = 6,000 L ÷ 143 ≈ 42 days.
     // Reorder point = daily use × (lead 2 d + safety 3 d) = 715 L. Work in litres of LOX: the demand is
     // spread evenly over the day (120,600 / 24 L gas per hour), so boil-off stays below demand every hour.

@@ -5,7 +5,24 @@ import { GAS_CODES, isLiquefiedGas, type GasCode, type LiquefiedGasCode } from '
 import { compressibility } from './eos';
 import { REFERENCE_CODES, type ReferenceCode } from './reference-conditions';
 import { compressedContents, cylinderDuration, liquefiedContents, pressureAtTemperature } from './contents';
-import { PLANNING_CAUTION } from './mixture-cautions';
+import { PLANNING_CAUTION, mixtureCautions } from './mixture-cautions';
+import { mixtureZRange } from './mixture-uncertainty';
+
+/** Z range fields of a mixture result (absent for pure gases): see mixture-uncertainty.ts. */
+function zRangeFields(gas: GasCode, temperatureC: number, pressureBarAbs: number): Record<string, unknown> {
+  const r = mixtureZRange(gas, temperatureC + 273.15, pressureBarAbs);
+  return r ? { Z_range: { low: r.low, high: r.high, method: r.method } } : {};
+}
+
+/**
+ * A quantity proportional to 1/Z at the cylinder pressure (free gas, minutes) carried across a mixture's
+ * Z range: [q·Z/high, q·Z/low]. The gas left at the reserve is at near-ideal pressure, so this slightly
+ * overstates the spread (errs wide).
+ */
+function scaledRange(q: number, z: number, gas: GasCode, temperatureC: number, pressureBarAbs: number): { low: number; high: number } | null {
+  const r = mixtureZRange(gas, temperatureC + 273.15, pressureBarAbs);
+  return r ? { low: (q * z) / r.high, high: (q * z) / r.low } : null;
+}
 
 /**
  * Calc verbs of the gas module (`npm run --silent calc -- VERB`, JSON in, JSON out). Field names
@@ -26,6 +43,8 @@ const compressedSchema = z.object({
   temperature_C: num,
   atmospheric_bar: num.optional(),
   reference: referenceSchema.optional(),
+  /** CO2/N2O from a gauge: true only when the liquid is known to be gone (see contents.ts). */
+  liquid_gone: z.boolean().optional(),
 });
 
 const liquefiedSchema = z.object({
@@ -47,6 +66,7 @@ const pressureAtSchema = z.object({
   temperature_C: num,
   new_temperature_C: num,
   atmospheric_bar: num.optional(),
+  liquid_gone: z.boolean().optional(),
 });
 
 function isWeighed(item: unknown): boolean {
@@ -67,6 +87,7 @@ const FIELD_NAMES: Record<string, string> = {
   flowLMin: 'flow_L_min',
   reserveGaugeBar: 'reserve_gauge_bar',
   reserveKg: 'reserve_kg',
+  liquidGone: 'liquid_gone',
 };
 
 function renamePaths(e: InvalidInputError, prefix: string): InvalidInputError {
@@ -136,6 +157,7 @@ function contentsOf(item: unknown): Record<string, unknown> {
     temperatureC: v.temperature_C,
     atmosphericBar: v.atmospheric_bar,
     reference: v.reference,
+    liquidGone: v.liquid_gone,
   });
   return {
     moles: r.moles,
@@ -148,6 +170,11 @@ function contentsOf(item: unknown): Record<string, unknown> {
     gauge_bar: r.gaugeBar,
     reference: r.reference,
     method: r.method,
+    ...zRangeFields(v.gas, v.temperature_C, r.pressureBarAbs),
+    ...(() => {
+      const fr = scaledRange(r.freeGasL, r.Z, v.gas, v.temperature_C, r.pressureBarAbs);
+      return fr ? { free_gas_L_range: fr } : {};
+    })(),
     cautions: [...r.cautions, PLANNING_CAUTION],
   };
 }
@@ -179,29 +206,57 @@ function durationOf(item: unknown): Record<string, unknown> {
       temperatureC: v.temperature_C,
       atmosphericBar: v.atmospheric_bar,
       reference: v.reference,
+      liquidGone: v.liquid_gone,
       flowLMin: extra.flow_L_min,
       reserveGaugeBar: extra.reserve_gauge_bar,
     });
   }
-  return { minutes: r.minutes, usable_free_gas_L: r.usableFreeGasL, reference: r.reference, cautions: [...r.cautions, PLANNING_CAUTION] };
+  let ranges: Record<string, unknown> = {};
+  if (!isWeighed(item)) {
+    const v = parseOrThrow(compressedSchema, item, 'cylinder');
+    const atm = v.atmospheric_bar ?? 1.01325;
+    const pAbs = v.pressure_bar_abs ?? (v.gauge_bar ?? 0) + atm;
+    if (r.usableFreeGasL > 0 && pAbs > 0) {
+      const zNow = compressibility(v.gas, v.temperature_C + 273.15, pAbs).Z;
+      const u = scaledRange(r.usableFreeGasL, zNow, v.gas, v.temperature_C, pAbs);
+      const m = scaledRange(r.minutes, zNow, v.gas, v.temperature_C, pAbs);
+      if (u && m) ranges = { usable_free_gas_L_range: u, minutes_range: m, Z_range_method: mixtureZRange(v.gas, v.temperature_C + 273.15, pAbs)!.method };
+    }
+  }
+  return { minutes: r.minutes, usable_free_gas_L: r.usableFreeGasL, ...ranges, reference: r.reference, reserve_gauge_bar: r.reserveGaugeBar, reserve_basis: r.reserveBasis, cautions: [...r.cautions, PLANNING_CAUTION] };
 }
 
+/**
+ * z: one result per state, in order. Bad input is refused as a whole (exit 2 / 400, as the calc contract
+ * says for every verb): when any item fails, the error names every failing item by its index
+ * ("1.pressure_bar_abs"), so a script can mend them all at once.
+ */
 const zVerb: CalcVerb = (input) => {
   if (!Array.isArray(input)) {
     throw new InvalidInputError('Expected an array of {gas, temperature_C, pressure_bar_abs}', [{ path: '(root)', message: 'expected an array' }]);
   }
-  return input.map((item) => {
+  if (input.length === 0) throw new InvalidInputError('Empty array: give at least one state', [{ path: '(root)', message: 'empty array' }]);
+  const failures: InvalidInputError[] = [];
+  const out = input.map((item, i) => {
     try {
-      return withIndex(null, () => {
+      return withIndex(i, () => {
         const v = parseOrThrow(zItemSchema, item, 'state');
         const r = compressibility(v.gas, v.temperature_C + 273.15, v.pressure_bar_abs);
-        return { Z: r.Z, density_kg_m3: r.densityKgM3, ideal_density_kg_m3: r.idealDensityKgM3, phase: r.phase, method: r.method };
+        return { Z: r.Z, density_kg_m3: r.densityKgM3, ideal_density_kg_m3: r.idealDensityKgM3, phase: r.phase, method: r.method, ...zRangeFields(v.gas, v.temperature_C, v.pressure_bar_abs), cautions: mixtureCautions(v.gas, v.temperature_C) };
       });
     } catch (e) {
-      if (e instanceof InvalidInputError) return { error: { code: e.code, message: e.message, details: e.details } };
-      return { error: { code: 'internal_error', message: (e as Error).message } };
+      if (e instanceof InvalidInputError) {
+        failures.push(e);
+        return null;
+      }
+      throw e;
     }
   });
+  if (failures.length === 1) throw failures[0];
+  if (failures.length > 1) {
+    throw new InvalidInputError(`${failures.length} of ${input.length} states are invalid: ${failures.map((f) => f.message).join('; ')}`, failures.flatMap((f) => f.details));
+  }
+  return out;
 };
 
 const pressureAtVerb: CalcVerb = (input) =>
@@ -214,6 +269,7 @@ const pressureAtVerb: CalcVerb = (input) =>
       temperatureC: v.temperature_C,
       newTemperatureC: v.new_temperature_C,
       atmosphericBar: v.atmospheric_bar,
+      liquidGone: v.liquid_gone,
     });
     return { pressure_bar_abs: r.pressureBarAbs, gauge_bar: r.gaugeBar, cautions: [...r.cautions, PLANNING_CAUTION] };
   });

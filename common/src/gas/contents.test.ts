@@ -30,7 +30,7 @@ describe('compressed-gas contents', () => {
   });
 
   it('a 10 L cylinder at 200 bar(g) and 15 °C: real free gas is ×1.07 the ideal for O2, ×0.96 for N2, ×0.91 for He', () => {
-    // domain facts §1 (EU distributor page; consistent with the reference table in tests/reference): 50 L × 200 bar = 10 m³ ideal;
+    // EU distributor page (consistent with the z-grid in tests/reference): 50 L × 200 bar = 10 m³ ideal;
     // real ≈ ×1.07 (O2), ×0.96 (N2), ×0.91 (He)
     const ratio = (gas: GasCode) => {
       const c = compressedContents({ gas, waterCapacityL: 10, gaugeBar: 200, temperatureC: 15 });
@@ -44,13 +44,13 @@ describe('compressed-gas contents', () => {
   });
 
   it('47 L at 137 bar holds about 6,800 L of oxygen', () => {
-    // HTM 02-01 Part A Table 22 (via a secondary source, domain facts §1): 47 L at 137 bar ≈ 6,800 L O2
+    // HTM 02-01 Part A Table 22 (as quoted in a 2018 military-hospital cylinder calculation): 47 L at 137 bar ≈ 6,800 L O2
     const c = compressedContents({ gas: 'O2', waterCapacityL: 47, gaugeBar: 137, temperatureC: 15 });
     expect(Math.abs(c.freeGasL / 6800 - 1)).toBeLessThan(0.02);
   });
 
   it('states the free gas on the requested reference basis', () => {
-    // domain facts §1: 0 °C gives 5.2 % fewer litres than 15 °C; 21.1 °C gives 2.1 % more (computed in the research)
+    // hand calculation, ideal gas: 273.15/288.15 = 0.948 (0 °C gives 5.2 % fewer litres than 15 °C); 294.26/288.15 = 1.021 (2.1 % more)
     const base = { gas: 'O2' as const, waterCapacityL: 10, gaugeBar: 200, temperatureC: 15 };
     const at15 = compressedContents(base).freeGasL;
     expect(compressedContents({ ...base, reference: '0C' }).freeGasL / at15 - 1).toBeCloseTo(-0.052, 3);
@@ -105,7 +105,7 @@ describe('compressed-gas contents', () => {
   });
 
   it('a reading taken warm overstates the contents at 15 °C by about 7 % at 35 °C', () => {
-    // domain facts WE-2 (computed): read at 35 °C, 115 bar(g) overstates 15 °C contents by about 7 % (288.15/308.15, ideal gas)
+    // hand calculation (worked example WE-2): read at 35 °C, 115 bar(g) overstates 15 °C contents by about 7 % (288.15/308.15, ideal gas)
     const warm = compressedContents({ gas: 'O2', waterCapacityL: 2, gaugeBar: 115, temperatureC: 35 });
     const cool = compressedContents({ gas: 'O2', waterCapacityL: 2, gaugeBar: 115, temperatureC: 15 });
     const overstatement = cool.moles / warm.moles - 1;
@@ -122,7 +122,9 @@ describe('compressed-gas contents', () => {
   });
 
   it('carries the 50:50 nitrous oxide/oxygen separation caution when cold', () => {
-    // domain facts §5: below about −6 °C N2O condenses out (hypoxic hazard); store above 10 °C; ≥ 24 h flat at ≥ 5 °C, invert
+    // Bracken, Broughton & Hill, BMJ 1968;3:715, and anaesthesia teaching notes: N2O condenses out of the 50:50
+    // mixture below about −5.5 to −7 °C (hypoxic hazard); store above 10 °C; ≥ 24 h flat at ≥ 5 °C and invert
+    // (sports-medicine gas guidance)
     const cold = compressedContents({ gas: 'N2O_O2_50', waterCapacityL: 10, gaugeBar: 137, temperatureC: -10 });
     expect(cold.cautions.join(' ')).toMatch(/hypoxic/);
     expect(cold.cautions.join(' ')).toMatch(/24 hours/);
@@ -130,6 +132,15 @@ describe('compressed-gas contents', () => {
     expect(compressedContents({ gas: 'N2O_O2_50', waterCapacityL: 10, gaugeBar: 137, temperatureC: 5 }).cautions.join(' ')).toMatch(/above 10 °C/);
     expect(compressedContents({ gas: 'N2O_O2_50', waterCapacityL: 10, gaugeBar: 137, temperatureC: 20 }).cautions).toEqual([]);
     expect(compressedContents({ gas: 'O2', waterCapacityL: 10, gaugeBar: 137, temperatureC: -10 }).cautions).toEqual([]);
+  });
+
+  it('the separation threshold is inclusive, at the warmest published onset (−5.5 °C), and states the sources’ range', () => {
+    const at = compressedContents({ gas: 'N2O_O2_50', waterCapacityL: 10, gaugeBar: 137, temperatureC: -5.5 });
+    expect(at.cautions.join(' ')).toMatch(/hypoxic hazard\)\. Before use/);
+    expect(at.cautions.join(' ')).toMatch(/−5\.5 to −7 °C/);
+    expect(compressedContents({ gas: 'N2O_O2_50', waterCapacityL: 10, gaugeBar: 137, temperatureC: -6 }).cautions.join(' ')).toMatch(/24 hours/);
+    // the reading taken cold and asked about at a warm temperature still carries the caution
+    expect(pressureAtTemperature({ gas: 'N2O_O2_50', gaugeBar: 120, temperatureC: -8, newTemperatureC: 20 }).cautions.join(' ')).toMatch(/24 hours/);
   });
 
   it('rejects NaN, non-positive absolute pressure, bad volumes and temperatures outside the range', () => {
@@ -157,32 +168,22 @@ describe('compressed-gas contents', () => {
 });
 
 describe('cylinder duration', () => {
-  it('is the usable free gas above the reserve divided by the flow', () => {
-    fc.assert(
-      fc.property(
-        fc.constantFrom(...permanent),
-        fc.double({ min: 20, max: 300, noNaN: true }),
-        fc.double({ min: 0, max: 0.9, noNaN: true }),
-        fc.double({ min: 0.5, max: 60, noNaN: true }),
-        (gas, gauge, reserveShare, flow) => {
-          const reserve = gauge * reserveShare;
-          const d = cylinderDuration({ gas, waterCapacityL: 10, gaugeBar: gauge, temperatureC: 15, flowLMin: flow, reserveGaugeBar: reserve });
-          const full = compressedContents({ gas, waterCapacityL: 10, gaugeBar: gauge, temperatureC: 15 }).freeGasL;
-          const left = compressedContents({ gas, waterCapacityL: 10, gaugeBar: reserve, temperatureC: 15 }).freeGasL;
-          expect(d.usableFreeGasL).toBeCloseTo(full - left, 6);
-          expect(d.minutes).toBeCloseTo(d.usableFreeGasL / flow, 9);
-        },
-      ),
-      { numRuns: 150, seed: 31 },
-    );
+  it('is the real gas between the reading and the reserve over the flow (hand calculation from the reference equation)', () => {
+    // Schmidt & Wagner (1985) for O2, z-grid in tests/reference, 288.15 K: ρ = 286.878288 kg/m³ at 200 bar abs,
+    // 27.108021 kg/m³ at 20 bar abs, 1.354364 kg/m³ at 1.01325 bar (the 15 °C reference). 10 L from 200 down to
+    // 20 bar abs: 10 × (286.878288 − 27.108021) / 1.354364 = 1918.03 L of free gas; at 10 L/min 191.80 min.
+    const d = cylinderDuration({ gas: 'O2', waterCapacityL: 10, pressureBarAbs: 200, temperatureC: 15, flowLMin: 10, reserveGaugeBar: 20 - 1.01325 });
+    expect(Math.abs(d.usableFreeGasL / 1918.03 - 1)).toBeLessThan(0.001);
+    expect(Math.abs(d.minutes / 191.803 - 1)).toBeLessThan(0.001);
   });
 
   it('worked example WE-2: a 460 L / 230 bar cylinder at 115 bar gives about 38 min at 6 L/min, 19 min keeping a quarter', () => {
-    // domain facts WE-2 (computed with the ideal gas): 460 L/230 bar ⇒ 2 L water capacity; 115 bar ⇒ ~230 L; 38 min at 6 L/min;
+    // hand calculation with the ideal gas (worked example WE-2): 460 L/230 bar ⇒ 2 L water capacity; 115 bar ⇒ ~230 L; 38 min at 6 L/min;
     // 19 min keeping a ¼ residual (57.5 bar). The real-gas contents of oxygen are ~7 % larger at these pressures.
     const ideal = compressedContents({ gas: 'O2', waterCapacityL: 2, gaugeBar: 115, temperatureC: 15 }).idealFreeGasL;
     expect(ideal / 6).toBeCloseTo(37.8, 1);
-    const d = cylinderDuration({ gas: 'O2', waterCapacityL: 2, gaugeBar: 115, temperatureC: 15, flowLMin: 6 });
+    // the worked example runs to empty: reserve 0 given explicitly (the default is now a stated residual)
+    const d = cylinderDuration({ gas: 'O2', waterCapacityL: 2, gaugeBar: 115, temperatureC: 15, flowLMin: 6, reserveGaugeBar: 0 });
     expect(d.minutes).toBeGreaterThan(38);
     expect(d.minutes).toBeLessThan(38 * 1.1);
     const kept = cylinderDuration({ gas: 'O2', waterCapacityL: 2, gaugeBar: 115, temperatureC: 15, flowLMin: 6, reserveGaugeBar: 57.5 });
@@ -190,9 +191,21 @@ describe('cylinder duration', () => {
     expect(kept.minutes).toBeLessThan(19 * 1.1);
   });
 
+  it('with no reserve given, duration keeps the stated 200 psi (13.8 bar) residual and says so', () => {
+    // US EMS oxygen-cylinder guidance: ~200 psi residual subtracted in duration sums. Hand calculation, ideal gas:
+    // 2 L × (115 − 13.79) bar / 1.01325 bar = 199.8 L at 15 °C → 33.3 min at 6 L/min; oxygen's real-gas
+    // contents are a few % larger at these pressures (Schmidt & Wagner 1985, z-grid in tests/reference).
+    const d = cylinderDuration({ gas: 'O2', waterCapacityL: 2, gaugeBar: 115, temperatureC: 15, flowLMin: 6 });
+    expect(d.reserveGaugeBar).toBeCloseTo(13.79, 2);
+    expect(d.reserveBasis).toMatch(/200 psi/);
+    expect(d.cautions.join(' ')).toMatch(/reserve of 13\.8 bar g/);
+    expect(d.minutes).toBeGreaterThan(33.3);
+    expect(d.minutes).toBeLessThan(33.3 * 1.08);
+  });
+
   it('worked example WE-1: (2000 − 200 psi) × 0.16 L/psi at 0.5 L/min ≈ 576 min', () => {
-    // domain facts WE-1 (EMS guidance): 0.16 L/psi at 2000 psi, 200 psi residual, 0.5 L/min: 288 L, 576 min.
-    // The 0.16 L/psi cylinder holds ~350 L at 2200 psig (domain facts §1, US contents); 2.2 L of water capacity
+    // US EMS oxygen-cylinder guidance (worked example WE-1): 0.16 L/psi at 2000 psi, 200 psi residual, 0.5 L/min: 288 L, 576 min.
+    // The 0.16 L/psi cylinder holds ~350 L at 2200 psig (US contents tables, HFM Magazine); 2.2 L of water capacity
     // does that for oxygen at 70 °F (this engine: 351 L), so the engine's real-gas minutes should land near 576.
     const psi = 0.0689475729;
     const full = compressedContents({ gas: 'O2', waterCapacityL: 2.2, gaugeBar: 2200 * psi, temperatureC: 21.1, reference: '21C' });
@@ -204,7 +217,7 @@ describe('cylinder duration', () => {
   it('liquefied gases: weighed mass less what stays behind and the reserve mass', () => {
     const base = { gas: 'N2O' as const, grossKg: 20, tareKg: 15, waterCapacityL: 10, temperatureC: 15, flowLMin: 10 };
     const d = cylinderDuration(base);
-    // domain facts §1: N2O gives 534 L of gas per kg at 15 °C, 1 atm
+    // N2O gives 534 L of gas per kg at 15 °C, 1 atm: 1000 / 1.872814 kg/m³ (Lemmon & Span 2006, z-grid in tests/reference)
     expect(d.usableFreeGasL / (5 * 534)).toBeCloseTo(1, 2);
     const withReserve = cylinderDuration({ ...base, reserveKg: 1 });
     expect(d.usableFreeGasL - withReserve.usableFreeGasL).toBeCloseTo(534, -1);
@@ -230,7 +243,7 @@ describe('liquefied-gas contents (CO2, N2O)', () => {
     expect(c.fillingRatioKgPerL).toBe(0.75);
     expect(c.liquidPresent).toBe(true);
     expect(Math.abs(c.vapourPressureBarAbs! / row.vapourPressureBarAbs - 1)).toBeLessThan(0.005);
-    // domain facts §1: CO2 534 L per kg at 15 °C, 546 at 21.1 °C (computed, agrees with the reference table)
+    // CO2 534 L per kg at 15 °C (1000 / 1.871850 kg/m³, Span & Wagner 1996, z-grid in tests/reference), 546 at 21.1 °C
     expect(c.freeGasL / (7.5 * 534)).toBeCloseTo(1, 2);
     const us = liquefiedContents({ gas: 'CO2', grossKg: 22.5, tareKg: 15, waterCapacityL: 10, temperatureC: 15, reference: '21C' });
     expect(us.freeGasL / (7.5 * 546)).toBeCloseTo(1, 2);
@@ -245,7 +258,7 @@ describe('liquefied-gas contents (CO2, N2O)', () => {
   });
 
   it('has no vapour pressure above the critical temperature and warns', () => {
-    // critical temperature of N2O 36.4 °C (domain facts §1; Lemmon & Span 2006: 309.52 K)
+    // critical temperature of N2O 36.4 °C (OpenAnesthesia; Lemmon & Span 2006: 309.52 K)
     const c = liquefiedContents({ gas: 'N2O', grossKg: 20, tareKg: 15, waterCapacityL: 10, temperatureC: 40 });
     expect(c.vapourPressureBarAbs).toBeNull();
     expect(c.liquidPresent).toBe(false);
@@ -274,5 +287,41 @@ describe('gas info', () => {
     for (const gas of GAS_CODES) expect(GAS_INFO[gas].name.length).toBeGreaterThan(3);
     // 0.79·4.002602 + 0.21·31.9988 g/mol = 9.8816 g/mol (hand calculation)
     expect(GAS_INFO.HE_O2_79.molarMassKgMol * 1000).toBeCloseTo(9.8816, 3);
+  });
+});
+
+describe('liquefied gases read by a gauge', () => {
+  // A full N2O cylinder at 15 °C sits at its vapour pressure, 45.037 bar abs (saturation table in
+  // tests/reference, Lemmon & Span 2006), i.e. about 44 bar g: the gauge of a full and of a nearly
+  // empty cylinder read the same while liquid is left (the gauge "says nothing" about contents).
+  // 10 L at a 0.75 kg/L filling ratio holds 7.5 kg (anaesthesia revision notes: filling ratio 0.75 temperate);
+  // the vapour-only reading of the old engine gave about 1.3 kg.
+  const full = { gas: 'N2O' as const, waterCapacityL: 10, gaugeBar: 44, temperatureC: 15 };
+
+  it('refuses a gauge reading of CO2 or N2O while liquid may be present, telling the person to weigh', () => {
+    for (const input of [full, { ...full, gaugeBar: 5 }, { gas: 'CO2' as const, waterCapacityL: 10, gaugeBar: 49, temperatureC: 15 }]) {
+      expect(() => compressedContents(input)).toThrow(/weigh the cylinder: gross − tare/);
+      expect(() => cylinderDuration({ ...input, flowLMin: 5 })).toThrow(/weigh the cylinder: gross − tare/);
+      expect(() => pressureAtTemperature({ ...input, newTemperatureC: 20 })).toThrow(/weigh/);
+      expectInvalid(() => compressedContents(input), 'gaugeBar');
+    }
+  });
+
+  it('with the liquid stated gone, still refuses a reading near the vapour pressure (above 80 % of it)', () => {
+    // 0.8 × 45.037 = 36.03 bar abs = 35.0 bar g: 44 bar g and 36 bar g are refused, 34 bar g is accepted
+    expect(() => compressedContents({ ...full, liquidGone: true })).toThrow(/liquid may still be present/);
+    expect(() => compressedContents({ ...full, gaugeBar: 36, liquidGone: true })).toThrow(/liquid may still be present/);
+    expect(compressedContents({ ...full, gaugeBar: 34, liquidGone: true }).massKg).toBeGreaterThan(0);
+  });
+
+  it('with the liquid gone and a reading clearly below p_sat: vapour contents as the reference equation gives them', () => {
+    // reference equation of state for N2O (Lemmon & Span, 2006), z-grid in tests/reference:
+    // 288.15 K, 20 bar abs: ρ = 42.352778 kg/m³ → 10 L hold 0.42353 kg
+    const c = compressedContents({ gas: 'N2O', waterCapacityL: 10, pressureBarAbs: 20, temperatureC: 15, liquidGone: true });
+    expect(Math.abs(c.massKg / 0.42352778 - 1)).toBeLessThan(0.005);
+  });
+
+  it('above the critical temperature (N2O 36.4 °C, OpenAnesthesia; Lemmon & Span 2006: 309.52 K) a pressure reading is accepted', () => {
+    expect(compressedContents({ gas: 'N2O', waterCapacityL: 10, gaugeBar: 60, temperatureC: 40 }).massKg).toBeGreaterThan(0);
   });
 });

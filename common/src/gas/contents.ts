@@ -5,7 +5,17 @@ import { REFERENCE_CONDITIONS, idealReferenceMolarVolumeLMol, isReferenceCode, r
 import { criticalTemperatureK, saturatedLiquidDensityKgM3, saturatedVapourDensityKgM3, vapourPressureBarAbs } from './saturation';
 import { mixtureCautions } from './mixture-cautions';
 import { STANDARD_ATMOSPHERE_BAR } from './units';
-import { fail, requireFinite, requireNonNegative, requirePositive } from './validate-input';
+import { fail, requireFinite, requireInRange, requireNonNegative, requirePositive } from './validate-input';
+
+/**
+ * Physically meaningful input ranges (beyond them the arithmetic overflows into Infinity or gives
+ * absurd figures): water capacity 0.01–5,000 L (the smallest medical cylinders hold ~0.2 L, a
+ * tube-trailer tube a few thousand L: common practice); flow 0.01–100,000 L/min (low-flow meters read
+ * down to a few hundredths of a L/min; a whole hospital draws a few thousand); weights up to 2,000 kg.
+ */
+export const WATER_CAPACITY_RANGE_L = { min: 0.01, max: 5000 } as const;
+export const FLOW_RANGE_L_MIN = { min: 0.01, max: 100_000 } as const;
+export const MAX_CYLINDER_MASS_KG = 2000;
 
 /**
  * Cylinder contents from gauge pressure (compressed gases) or weight (liquefied gases), durations
@@ -31,6 +41,51 @@ export interface CompressedContentsInput {
   atmosphericBar?: number;
   /** Reference conditions of the free-gas volume (default 15C). */
   reference?: ReferenceCode;
+  /**
+   * CO2 and N2O only: the person states that the liquid is gone (the cylinder has been drawn past the
+   * point where its pressure starts to fall). Without it a gauge reading of a liquefied gas is refused.
+   */
+  liquidGone?: boolean;
+}
+
+/**
+ * A gauge reading of a liquefied gas (CO2, N2O) below its critical temperature is accepted only when the
+ * liquid is stated gone AND the absolute pressure is at most this share of the vapour pressure at the
+ * stated temperature. 0.8 × p_sat is about the vapour pressure 10 °C colder (N2O: 0.8 × 45.0 = 36.0 bar
+ * abs at 15 °C against p_sat(5 °C) ≈ 36.4 bar abs, Lemmon & Span 2006 ancillary), which covers a
+ * liquid cooled by drawing below the stated temperature and a gauge of class 2.5 read near the top of
+ * its scale. Between that and p_sat liquid may still be present and the gauge says nothing. Common
+ * practice is simply to weigh: the margin is the engine's own choice.
+ */
+export const LIQUEFIED_VAPOUR_ONLY_FRACTION = 0.8;
+
+export const WEIGH_LIQUEFIED_MESSAGE = 'weigh the cylinder: gross − tare';
+
+/**
+ * Refuses a pressure reading of CO2 or N2O unless it can only be vapour (see LIQUEFIED_VAPOUR_ONLY_FRACTION).
+ * Above the critical temperature there is one phase and the pressure does fix the contents.
+ */
+export function checkLiquefiedGaugeReading(gas: GasCode, temperatureK: number, pressureBarAbs: number, liquidGone: boolean | undefined, path: string): void {
+  if (!isLiquefiedGas(gas)) return;
+  const tc = criticalTemperatureK(gas);
+  if (!(temperatureK < tc)) return;
+  const ps = vapourPressureBarAbs(gas, temperatureK);
+  const name = GAS_INFO[gas].name;
+  if (liquidGone !== true) {
+    fail(
+      path,
+      `${WEIGH_LIQUEFIED_MESSAGE} (liquefied gas: while liquid is present the gauge shows the vapour pressure, not the contents)`,
+      `${name} is a liquefied gas: while any liquid is left the gauge shows the vapour pressure (${(ps - STANDARD_ATMOSPHERE_BAR).toFixed(1)} bar g at ${(temperatureK - 273.15).toFixed(1)} °C) whatever the contents, so a gauge reading cannot give them: ${WEIGH_LIQUEFIED_MESSAGE}. A gauge is accepted only with liquid_gone and a reading clearly below the vapour pressure.`,
+    );
+  }
+  const limit = LIQUEFIED_VAPOUR_ONLY_FRACTION * ps;
+  if (pressureBarAbs > limit) {
+    fail(
+      path,
+      `${WEIGH_LIQUEFIED_MESSAGE}: at or above ${limit.toFixed(1)} bar abs (${LIQUEFIED_VAPOUR_ONLY_FRACTION * 100} % of the vapour pressure) liquid may still be present`,
+      `${name} at ${pressureBarAbs.toFixed(1)} bar abs is too close to its vapour pressure (${ps.toFixed(1)} bar abs at ${(temperatureK - 273.15).toFixed(1)} °C) to be only vapour: liquid may still be present and the gauge says nothing about the contents. ${WEIGH_LIQUEFIED_MESSAGE}. A gauge is taken as vapour only at or below ${LIQUEFIED_VAPOUR_ONLY_FRACTION * 100} % of the vapour pressure (${limit.toFixed(1)} bar abs).`,
+    );
+  }
 }
 
 export interface CompressedContents {
@@ -76,7 +131,7 @@ function checkReference(reference: unknown): ReferenceCode {
 
 function readCylinderState(input: CompressedContentsInput): CylinderState {
   const gas = checkGas(input.gas);
-  requirePositive('waterCapacityL', input.waterCapacityL, 'Water capacity');
+  requireInRange('waterCapacityL', input.waterCapacityL, WATER_CAPACITY_RANGE_L.min, WATER_CAPACITY_RANGE_L.max, 'L', 'Water capacity');
   const atmosphericBar = input.atmosphericBar ?? STANDARD_ATMOSPHERE_BAR;
   requirePositive('atmosphericBar', atmosphericBar, 'Atmospheric pressure');
   if (atmosphericBar < 0.5 || atmosphericBar > 1.1) {
@@ -94,6 +149,7 @@ function readCylinderState(input: CompressedContentsInput): CylinderState {
   requireFinite('temperatureC', input.temperatureC, 'Temperature');
   const temperatureK = input.temperatureC + 273.15;
   validateStateAt(gas, temperatureK, pressureBarAbs, 'temperatureC', hasGauge ? 'gaugeBar' : 'pressureBarAbs');
+  checkLiquefiedGaugeReading(gas, temperatureK, pressureBarAbs, input.liquidGone, hasGauge ? 'gaugeBar' : 'pressureBarAbs');
   return { gas, volumeM3: input.waterCapacityL / 1000, temperatureK, pressureBarAbs, atmosphericBar, reference: checkReference(input.reference) };
 }
 
@@ -181,6 +237,8 @@ function pressureOfContentsAt(gas: GasCode, molarDensity: number, temperatureK: 
 
 export interface PressureAtTemperatureInput {
   gas: GasCode;
+  /** CO2 and N2O: the liquid is stated gone (see CompressedContentsInput.liquidGone). */
+  liquidGone?: boolean;
   gaugeBar?: number;
   pressureBarAbs?: number;
   /** Temperature of the reading, °C. */
@@ -206,7 +264,8 @@ export function pressureAtTemperature(input: PressureAtTemperatureInput): { pres
   }
   const rho = molarDensityMolM3(s.gas, s.temperatureK, s.pressureBarAbs);
   const pressureBarAbs = pressureOfContentsAt(s.gas, rho, newTemperatureK);
-  const cautions = mixtureCautions(s.gas, input.newTemperatureC);
+  // the reading itself may have been taken cold: the colder of the two temperatures decides
+  const cautions = mixtureCautions(s.gas, Math.min(input.temperatureC, input.newTemperatureC));
   if (pressureBarAbs > MAX_PRESSURE_BAR_ABS) cautions.push(beyondRangeCaution(pressureBarAbs));
   return { pressureBarAbs, gaugeBar: pressureBarAbs - s.atmosphericBar, cautions };
 }
@@ -257,7 +316,9 @@ export function liquefiedContents(input: LiquefiedContentsInput): LiquefiedConte
   if (!isLiquefiedGas(gas)) fail('gas', 'weighed contents apply to CO2 and N2O only', `${GAS_INFO[gas].name} is not a liquefied gas: use the pressure-based contents`);
   requirePositive('grossKg', input.grossKg, 'Gross weight');
   requirePositive('tareKg', input.tareKg, 'Tare weight');
-  requirePositive('waterCapacityL', input.waterCapacityL, 'Water capacity');
+  requireInRange('grossKg', input.grossKg, 0, MAX_CYLINDER_MASS_KG, 'kg', 'Gross weight');
+  requireInRange('tareKg', input.tareKg, 0, MAX_CYLINDER_MASS_KG, 'kg', 'Tare weight');
+  requireInRange('waterCapacityL', input.waterCapacityL, WATER_CAPACITY_RANGE_L.min, WATER_CAPACITY_RANGE_L.max, 'L', 'Water capacity');
   requireFinite('temperatureC', input.temperatureC, 'Temperature');
   if (input.temperatureC < LIQUEFIED_MIN_TEMPERATURE_C || input.temperatureC > LIQUEFIED_MAX_TEMPERATURE_C) {
     fail('temperatureC', `must be between ${LIQUEFIED_MIN_TEMPERATURE_C} and ${LIQUEFIED_MAX_TEMPERATURE_C} °C`, `Temperature ${input.temperatureC} °C is outside the supported range for weighed cylinders`);
@@ -323,10 +384,26 @@ export function liquefiedContents(input: LiquefiedContentsInput): LiquefiedConte
   };
 }
 
+/**
+ * Residual a compressed-gas cylinder is changed at when none is given, bar(g): 200 psi = 13.8 bar, the
+ * residual US EMS oxygen-cylinder guidance subtracts in duration sums (about 10 % of a 137–200 bar fill).
+ * No standard sets one (UK sports-medicine guidance changes at a quarter full): editable, and stated
+ * beside every result that uses it.
+ */
+export const DEFAULT_RESERVE_GAUGE_BAR = 200 * 0.0689475729;
+export const DEFAULT_RESERVE_SOURCE = '200 psi (13.8 bar) residual, as US EMS oxygen-cylinder guidance subtracts in duration sums';
+
+/**
+ * Residual of a cylinder type when none is set: 10 % of the nominal fill pressure (US EMS guidance: about
+ * 200 psi of a 2,000–2,200 psi fill). Common practice, editable per cylinder type.
+ */
+export const DEFAULT_RESIDUAL_FRACTION_OF_FILL = 0.1;
+export const DEFAULT_RESIDUAL_SOURCE = 'default 10 % of the fill pressure (US EMS oxygen-cylinder guidance: about 200 psi of a 2,000–2,200 psi fill; common practice)';
+
 export interface DurationOptions {
   /** Flow of free gas at the same reference conditions, L/min. */
   flowLMin: number;
-  /** Pressure left in the cylinder when it is changed, bar(g) (default 0). */
+  /** Pressure left in the cylinder when it is changed, bar(g) (default DEFAULT_RESERVE_GAUGE_BAR, stated in the result). */
   reserveGaugeBar?: number;
   /** Liquefied gases: mass kept in the cylinder, kg (default 0). */
   reserveKg?: number;
@@ -337,6 +414,9 @@ export interface DurationResult {
   usableFreeGasL: number;
   reference: ReferenceCode;
   cautions: string[];
+  /** Compressed gases: the reserve used, bar(g), and where it came from (given, or the stated default). */
+  reserveGaugeBar: number;
+  reserveBasis: string;
 }
 
 /**
@@ -349,11 +429,18 @@ export function cylinderDuration(
   input: (CompressedContentsInput | LiquefiedContentsInput) & DurationOptions,
 ): DurationResult {
   requirePositive('flowLMin', input.flowLMin, 'Flow');
-  const reserveGaugeBar = input.reserveGaugeBar ?? 0;
+  requireInRange('flowLMin', input.flowLMin, FLOW_RANGE_L_MIN.min, FLOW_RANGE_L_MIN.max, 'L/min', 'Flow');
+  const weighed = 'grossKg' in input && input.grossKg !== undefined;
+  // liquefied gases: the reserve is a mass (reserveKg) and the gas left at atmospheric pressure
+  const reserveGiven = input.reserveGaugeBar !== undefined;
+  const reserveGaugeBar = input.reserveGaugeBar ?? (weighed ? 0 : DEFAULT_RESERVE_GAUGE_BAR);
+  const reserveBasis = reserveGiven ? 'reserve as given' : weighed ? 'no reserve mass given: run until the gas left is at atmospheric pressure' : `no reserve given: ${DEFAULT_RESERVE_SOURCE}`;
   requireNonNegative('reserveGaugeBar', reserveGaugeBar, 'Reserve pressure');
+  requireInRange('reserveGaugeBar', reserveGaugeBar, 0, MAX_PRESSURE_BAR_ABS, 'bar', 'Reserve pressure');
   const reserveKg = input.reserveKg ?? 0;
   requireNonNegative('reserveKg', reserveKg, 'Reserve mass');
-  if ('grossKg' in input && input.grossKg !== undefined) {
+  requireInRange('reserveKg', reserveKg, 0, MAX_CYLINDER_MASS_KG, 'kg', 'Reserve mass');
+  if (weighed) {
     const c = liquefiedContents(input as LiquefiedContentsInput);
     const gas = input.gas as LiquefiedGasCode;
     const temperatureK = input.temperatureC + 273.15;
@@ -371,7 +458,7 @@ export function cylinderDuration(
     const retainedKg = (input.waterCapacityL / 1000) * molarDensityMolM3(gas, temperatureK, reserveAbs) * M + reserveKg;
     const usableKg = Math.max(0, c.massKg - retainedKg);
     const usableFreeGasL = (usableKg / M) * referenceMolarVolumeLMol(gas, c.reference);
-    return { minutes: usableFreeGasL / input.flowLMin, usableFreeGasL, reference: c.reference, cautions };
+    return { minutes: usableFreeGasL / input.flowLMin, usableFreeGasL, reference: c.reference, cautions, reserveGaugeBar, reserveBasis };
   }
   const ci = input as CompressedContentsInput;
   const s = readCylinderState(ci);
@@ -381,5 +468,6 @@ export function cylinderDuration(
   else validateStateAt(s.gas, s.temperatureK, reserveAbs, 'temperatureC', 'reserveGaugeBar');
   const usableMoles = deliveredMoles(s, s.pressureBarAbs, reserveAbs);
   const usableFreeGasL = usableMoles * referenceMolarVolumeLMol(s.gas, s.reference);
-  return { minutes: usableFreeGasL / input.flowLMin, usableFreeGasL, reference: s.reference, cautions };
+  if (!reserveGiven) cautions.push(`Duration to a reserve of ${reserveGaugeBar.toFixed(1)} bar g (${DEFAULT_RESERVE_SOURCE}); give your own reserve to change it.`);
+  return { minutes: usableFreeGasL / input.flowLMin, usableFreeGasL, reference: s.reference, cautions, reserveGaugeBar, reserveBasis };
 }

@@ -1,7 +1,9 @@
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
 import { InvalidInputError } from '../api/errors';
+import { oxygenSaturationAtPressure } from './oxygen-saturation';
 import {
+  loxDensityAtTankPressureKgPerL,
   LOX_DENSITY_KG_PER_L,
   contentsFromCalibrationTable,
   freeGasLToLoxLitres,
@@ -13,21 +15,22 @@ import {
 
 describe('liquid oxygen', () => {
   it('uses the boiling-point liquid density of 1.141 kg/L', () => {
-    // domain facts §2 (encyclopedia): LOX at the normal boiling point (90.19 K) is 1.141 kg/L
+    // encyclopedia value for liquid oxygen: 1.141 kg/L at the normal boiling point (90.19 K)
     expect(LOX_DENSITY_KG_PER_L).toBeCloseTo(1.141, 3);
     expect(loxLitresToKg(1000)).toBeCloseTo(1141.2, 0);
     expect(kgToLoxLitres(loxLitresToKg(123.4))).toBeCloseTo(123.4, 10);
   });
 
   it('gives about 842 L of gas per litre of liquid at 15 °C, 860 L at 21.1 °C and 798 L at 0 °C', () => {
-    // domain facts §2 (computed; the reference-table densities agree): 798 L (0 °C), 842 L (15 °C), 860 L (21.1 °C)
+    // hand calculation from the reference densities of oxygen gas at 1.01325 bar (reference README in tests/reference:
+    // 1.35436 kg/m³ at 15 °C, 1.32615 at 21.11 °C; 1.429 at 0 °C, NIST): 1141.17 / ρ → 798 L (0 °C), 842 L (15 °C), 860 L (21.1 °C)
     expect(Math.abs(loxLitresToFreeGasL(1, '15C') / 842 - 1)).toBeLessThan(0.002);
     expect(Math.abs(loxLitresToFreeGasL(1, '21C') / 860 - 1)).toBeLessThan(0.002);
     expect(Math.abs(loxLitresToFreeGasL(1, '0C') / 798 - 1)).toBeLessThan(0.002);
   });
 
   it('worked example WE-4: 120,600 L of gas a day is about 143 L of liquid', () => {
-    // domain facts WE-4 (computed): 120,600 L/day = 143 L LOX/day at 842 L/L
+    // hand calculation: 120,600 L/day ÷ 842 L of gas per L of liquid (15 °C, above) = 143 L LOX/day
     expect(freeGasLToLoxLitres(120600, '15C')).toBeCloseTo(143, 0);
   });
 
@@ -72,5 +75,35 @@ describe('calibration-table interpolation', () => {
     expect(() => contentsFromCalibrationTable([{ reading: 0, kg: 0 }], 0)).toThrow(/at least two/);
     expect(() => contentsFromCalibrationTable([{ reading: 0, kg: 0 }, { reading: 0, kg: 5 }], 0)).toThrow(/twice/);
     expect(() => contentsFromCalibrationTable([{ reading: 0, kg: 10 }, { reading: 5, kg: 5 }], 1)).toThrow(/not monotone/);
+  });
+});
+
+describe('liquid oxygen at the tank operating pressure', () => {
+  it('saturated-liquid density at several pressures against published values', () => {
+    // normal boiling point: 90.19 K, 1.141 kg/L (encyclopedia value for liquid oxygen)
+    const nbp = oxygenSaturationAtPressure(1.01325);
+    expect(nbp.temperatureK).toBeCloseTo(90.19, 1);
+    expect(nbp.liquidDensityKgM3 / 1141).toBeCloseTo(1, 3);
+    // warm liquid in a working tank: about 974 kg/m³ at about 120 K and 10 bar (liquid-oxygen reference page)
+    const warm = oxygenSaturationAtPressure(10);
+    expect(Math.abs(warm.temperatureK - 120)).toBeLessThan(1);
+    expect(Math.abs(warm.liquidDensityKgM3 / 974 - 1)).toBeLessThan(0.005);
+    // towards the critical point (154.581 K, 50.43 bar, 436.1 kg/m³; Schmidt & Wagner 1985) liquid and vapour meet
+    const near = oxygenSaturationAtPressure(50);
+    expect(near.temperatureK).toBeGreaterThan(153.5);
+    expect(near.temperatureK).toBeLessThan(154.581);
+    expect(near.liquidDensityKgM3 - near.vapourDensityKgM3).toBeLessThan(400);
+    // the liquid gets lighter as the pressure rises
+    const rho = [1.01325, 3, 5, 8, 10, 15].map((p) => oxygenSaturationAtPressure(p).liquidDensityKgM3);
+    for (let i = 1; i < rho.length; i++) expect(rho[i]).toBeLessThan(rho[i - 1]);
+  });
+
+  it('a tank at its default 7 bar g converts litres at the warm density, not the boiling-point one', () => {
+    const d = loxDensityAtTankPressureKgPerL();
+    // between the 10 bar abs (976) and 5 bar abs (1042) values above: 8 bar abs lies near 1,003 kg/m³
+    expect(d).toBeGreaterThan(0.976);
+    expect(d).toBeLessThan(1.042);
+    expect(loxLitresToKg(1000, d)).toBeLessThan(loxLitresToKg(1000) * 0.9);
+    expect(() => loxDensityAtTankPressureKgPerL(60)).toThrow(InvalidInputError);
   });
 });

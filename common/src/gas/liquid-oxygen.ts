@@ -1,5 +1,6 @@
 import { InvalidInputError } from '../api/errors';
 import { freeGasLitresPerKg, type ReferenceCode } from './reference-conditions';
+import { OXYGEN_SATURATION_MAX_BAR_ABS, oxygenSaturationAtPressure } from './oxygen-saturation';
 import { requireFinite, requireInRange, requireNonNegative, requirePositive, fail } from './validate-input';
 
 /**
@@ -16,6 +17,35 @@ import { requireFinite, requireInRange, requireNonNegative, requirePositive, fai
  * gauge calibrated for boiling-point liquid overstate the mass.
  */
 export const LOX_DENSITY_KG_PER_L = 1.14117;
+
+/**
+ * Working pressure of a bulk oxygen tank when none is set, bar(g): 7 bar, the usual UK relief setting
+ * of a vacuum-insulated evaporator (anaesthesia revision notes: relief ~7 bar, line regulator ~4 bar), so
+ * about the highest the working pressure reaches without venting. Warmer, higher-pressure liquid is
+ * lighter, so this gives the smallest mass per litre of the usual range: the cautious choice.
+ */
+export const DEFAULT_TANK_OPERATING_GAUGE_BAR = 7;
+export const DEFAULT_TANK_OPERATING_SOURCE = 'default 7 bar g: the usual UK relief setting of a bulk tank (anaesthesia revision notes), the lightest liquid of the usual working range';
+
+const densityCache = new Map<number, number>();
+
+/**
+ * Density of the saturated liquid in a tank at its operating pressure, kg/L, from the engine's phase
+ * equilibrium of the reference equation for oxygen (oxygen-saturation.ts): 1.141 kg/L at 0 bar g,
+ * about 0.976 kg/L at 9 bar g (10 bar abs, 119.6 K).
+ * @param operatingGaugeBar tank pressure, bar(g); @param atmosphericBar bar abs (default 1.01325)
+ */
+export function loxDensityAtTankPressureKgPerL(operatingGaugeBar: number = DEFAULT_TANK_OPERATING_GAUGE_BAR, atmosphericBar = 1.01325): number {
+  requireInRange('operatingGaugeBar', operatingGaugeBar, 0, OXYGEN_SATURATION_MAX_BAR_ABS - 1.1, 'bar', 'Tank operating pressure');
+  const abs = Math.round((operatingGaugeBar + atmosphericBar) * 1e4) / 1e4;
+  let d = densityCache.get(abs);
+  if (d === undefined) {
+    d = oxygenSaturationAtPressure(abs).liquidDensityKgM3 / 1000;
+    if (densityCache.size > 200) densityCache.clear();
+    densityCache.set(abs, d);
+  }
+  return d;
+}
 
 /** Litres of liquid oxygen at the normal boiling point → kg. @param litres L of liquid */
 export function loxLitresToKg(litres: number, densityKgPerL: number = LOX_DENSITY_KG_PER_L): number {

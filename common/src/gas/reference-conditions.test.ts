@@ -11,12 +11,12 @@ describe('reference conditions', () => {
   });
 
   it('an ideal standard cubic foot at 70 °F and 1 atm is 1.1727 mol', () => {
-    // domain facts §1 correction (computed for the digest): an ideal 70 °F/1 atm scf is 1.1727 mol
+    // hand calculation: an ideal scf at 70 °F (294.261 K), 1 atm is 101325 × 0.0283168 / (8.314462 × 294.261) = 1.1727 mol
     expect(LITRES_PER_CUBIC_FOOT / idealReferenceMolarVolumeLMol('21C')).toBeCloseTo(1.1727, 4);
   });
 
   it('gives the real free-gas litres per kg of the trade tables', () => {
-    // domain facts §1 (computed, agrees with the reference table in tests/reference): N2O 534 L/kg (15 °C), 545 (21.1 °C); CO2 534 / 546
+    // 1000 / ρ(1.01325 bar) from the reference equations (z-grid in tests/reference): N2O 534 L/kg (15 °C), 545 (21.1 °C); CO2 534 / 546
     expect(freeGasLitresPerKg('N2O', '15C')).toBeCloseTo(534, 0);
     expect(freeGasLitresPerKg('N2O', '21C')).toBeCloseTo(545, 0);
     expect(freeGasLitresPerKg('CO2', '15C')).toBeCloseTo(534, 0);

@@ -23,7 +23,8 @@ describe('saturation ancillary equations of CO2 and N2O', () => {
   });
 
   it('matches the vapour pressures quoted for cylinders at 0, 15, 20 and 21.1 °C', () => {
-    // domain facts §1 (computed in the research, matches the saturation table in tests/reference), bar abs:
+    // vapour pressures from the reference equations (Span & Wagner 1996; Lemmon & Span 2006) as in the saturation table
+    // in tests/reference, bar abs:
     // N2O 31.2 / 45.0 / 50.5 / 51.8; CO2 34.9 / 50.9 / 57.3 / 58.8
     const temps = [273.15, 288.15, 293.15, 294.25];
     [31.2, 45.0, 50.5, 51.8].forEach((p, i) => expect(vapourPressureBarAbs('N2O', temps[i])).toBeCloseTo(p, 1));

@@ -25,7 +25,7 @@ describe('units', () => {
     expect(cubicFeetToLitres(1)).toBeCloseTo(28.316846592, 9);
     // 14.696 psia = 1.01325 bar (standard atmosphere, 101.325 kPa)
     expect(psiToBar(14.6959488)).toBeCloseTo(1.01325, 6);
-    // domain facts §1: 2000 psi is the classic 137 bar fill
+    // 2000 psi is the classic 137 bar fill (Taylor & Francis "Medical gases" chapter; anaesthesia revision notes)
     expect(psiToBar(2000)).toBeCloseTo(137.9, 1);
   });
 

@@ -55,6 +55,8 @@ export const cylinderTypeSchema = z
     fillPressureBar: z.coerce.number().positive('must be above 0').max(350, 'above 350 bar'),
     tareKg: z.coerce.number().positive().max(200).nullable().optional(),
     maxFillingRatioKgPerL: z.coerce.number().positive().max(1.5).nullable().optional(),
+    /** Gauge pressure a cylinder is changed at, bar(g); empty = 10 % of the fill pressure (common practice). */
+    residualGaugeBar: z.coerce.number().min(0, 'must be ≥ 0').max(350).nullable().optional(),
     material: z.string().trim().max(60).default(''),
     valveNotes: z.string().trim().max(300).default(''),
     active: z.boolean().default(true),
@@ -63,6 +65,7 @@ export const cylinderTypeSchema = z
     if ((v.gasCode === 'N2O' || v.gasCode === 'CO2') && (v.tareKg == null || v.tareKg <= 0)) {
       ctx.addIssue({ code: 'custom', path: ['tareKg'], message: 'liquefied gases are counted by weight: enter the tare' });
     }
+    if (v.residualGaugeBar != null && v.residualGaugeBar >= v.fillPressureBar) ctx.addIssue({ code: 'custom', path: ['residualGaugeBar'], message: 'must be below the fill pressure' });
   });
 export type CylinderTypeInput = z.infer<typeof cylinderTypeSchema>;
 
@@ -152,6 +155,9 @@ export interface CylinderTypeView {
   fillPressureBar: number;
   tareKg: number | null;
   maxFillingRatioKgPerL: number | null;
+  /** Gauge pressure at which a cylinder of this type is changed (null: the stated default). */
+  residualGaugeBar?: number | null;
+  residual?: { gaugeBar: number; basis: string };
   material: string;
   valveNotes: string;
   active: boolean;

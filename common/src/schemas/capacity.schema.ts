@@ -187,6 +187,8 @@ export interface PipeRunOut {
   frictionFactor: number | null;
   lineDensityKgM3: number | null;
   lineZ: number | null;
+  /** Next to the verdict: the from-memory defaults it rests on (null when not computed). */
+  verdictNote?: string | null;
   assumptions: string[];
   error: string | null;
   /** the limit nearest to being exceeded for its gas */

@@ -79,6 +79,10 @@ export interface SourceDetail {
   readings: ReadingView[];
   method: {
     caution: string;
+    /** Cautions of this forecast (e.g. the 50:50 N2O/O2 separation caution for a cold store). */
+    cautions?: string[];
+    /** Cylinder sources: the gauge pressure each cylinder is changed at, and where it comes from. */
+    residual?: { gaugeBar: number; basis: string } | null;
     basis: { used: ForecastBasis; message: string; modelledLPerDay: number; measuredLPerDay: number | null };
     reference: string;
     startedFrom: string | null;

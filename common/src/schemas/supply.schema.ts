@@ -37,6 +37,8 @@ export const sourceSchema = z
     supplierId: z.number().int().positive().nullable().default(null),
     capacityKg: num('capacity').positive('must be above 0').max(200_000).nullable().default(null),
     evaporationPercentPerDay: num('evaporation').min(0).max(10, 'above 10 %/day is not a working tank').nullable().default(null),
+    /** Bulk liquid: working pressure of the tank, bar(g); empty = 7 bar g (the usual UK relief setting). */
+    operatingPressureBar: num('operating pressure').min(0, 'must be ≥ 0 bar g').max(45, 'above 45 bar g is not a liquid tank').nullable().default(null),
     vaporiserM3H: num('vaporiser rating').positive().max(10_000).nullable().default(null),
     vaporiserDerating: num('derating').gt(0, 'between 0 and 1').max(1, 'between 0 and 1').nullable().default(null),
     minLevelAlarmPercent: num('alarm level').min(0).max(100).nullable().default(null),
@@ -94,7 +96,7 @@ export const readingSchema = z.discriminatedUnion(
     z.object({ kind: z.literal('litres_liquid'), value: num('litres of liquid').min(0) }),
     z.object({ kind: z.literal('calibration'), value: num('gauge reading') }),
     z.object({ kind: z.literal('bank_gauges'), dutyBar: num('duty bank gauge').min(0).max(350), standbyBar: num('standby bank gauge').min(0).max(350), spareFull: num('spare cylinders').int().min(0).max(1000).default(0) }),
-    z.object({ kind: z.literal('store_count'), full: num('full cylinders').int().min(0).max(100_000), inUseGaugeBar: z.array(num('gauge').min(0).max(350)).max(1000).default([]), empty: num('empty cylinders').int().min(0).max(100_000).default(0) }),
+    z.object({ kind: z.literal('store_count'), full: num('full cylinders').int().min(0).max(100_000), inUseGaugeBar: z.array(num('gauge').min(0).max(350)).max(1000).default([]), inUseNetKg: z.array(num('net weight').min(0).max(1000)).max(1000).default([]), empty: num('empty cylinders').int().min(0).max(100_000).default(0) }),
   ],
   { error: 'choose how the reading was taken' },
 );
@@ -202,6 +204,8 @@ export interface SourceView {
   cylindersPerBank: number | null;
   regulatorLMin: number | null;
   changeoverGaugeBar: number | null;
+  /** Bulk liquid: working pressure, bar(g); null = the 7 bar g default. */
+  operatingPressureBar?: number | null;
   temperatureC: number | null;
   backsUp: number[];
   reorderMode: ReorderMode;

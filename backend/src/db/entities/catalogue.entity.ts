@@ -50,6 +50,10 @@ export class CylinderType {
   @Column({ type: 'double', nullable: true })
   maxFillingRatioKgPerL!: number | null;
 
+  /** Gauge pressure a cylinder is changed at, bar(g); null = the default 10 % of the fill pressure. */
+  @Column({ type: 'double', nullable: true })
+  residualGaugeBar!: number | null;
+
   @Column({ type: 'varchar', length: 60, default: '' })
   material!: string;
 

@@ -98,6 +98,10 @@ export class SupplySource {
   @Column({ type: 'double', nullable: true })
   changeoverGaugeBar!: number | null;
 
+  /** Bulk liquid: working pressure of the tank, bar(g); null = the default 7 bar g (liquid-oxygen.ts). */
+  @Column({ type: 'double', nullable: true })
+  operatingPressureBar!: number | null;
+
   /** Store or plant-room temperature, °C (gauge readings are corrected with it). */
   @Column({ type: 'double', nullable: true })
   temperatureC!: number | null;

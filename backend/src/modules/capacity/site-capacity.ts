@@ -188,6 +188,7 @@ function pipeSpecOf(run: PipeRunData, site: SiteCapacityInput['site']): Omit<Pip
   const ref = REFERENCE_CONDITIONS[site.referenceCode];
   return {
     innerDiameterMm: tube.innerDiameterMm,
+    innerDiameterFromTubeTable: true,
     lengthM: run.lengthM,
     fittingsAllowancePercent: run.fittingsAllowancePercent,
     linePressureKPaGauge: run.linePressureKPa,
@@ -230,6 +231,7 @@ function checkPipeRun(run: PipeRunData, gas: CapacityGasCode, flowLMin: number, 
     lineDensityKgM3: null,
     lineZ: null,
     assumptions: [],
+    verdictNote: null,
     error: null,
     limiting: false,
   };
@@ -255,6 +257,7 @@ function checkPipeRun(run: PipeRunData, gas: CapacityGasCode, flowLMin: number, 
         lineDensityKgM3: round(drop.lineDensityKgM3),
         lineZ: round(drop.lineZ, 8),
         assumptions: drop.assumptions,
+        verdictNote: drop.verdictNote,
       },
       limit,
     };

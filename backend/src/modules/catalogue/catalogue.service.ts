@@ -1,6 +1,7 @@
 import { In, type EntityManager } from 'typeorm';
 import type { CylinderTypeInput, SupplierInput } from '@common/schemas/admin.schema';
 import { cylinderTypeName, nominalContents } from '@common/catalogue/cylinder-type';
+import { DEFAULT_RESIDUAL_FRACTION_OF_FILL, DEFAULT_RESIDUAL_SOURCE } from '@common/gas/contents';
 import { db } from '../../db/db';
 import { CylinderType, Gas, Supplier, SupplierPrice } from '../../db/entities/catalogue.entity';
 import type { Actor } from '../../http/context';
@@ -23,6 +24,9 @@ export function presentCylinderType(c: CylinderType): CylinderTypeView {
     fillPressureBar: c.fillPressureBar,
     tareKg: c.tareKg,
     maxFillingRatioKgPerL: c.maxFillingRatioKgPerL,
+    residualGaugeBar: c.residualGaugeBar ?? null,
+    /** The residual the forecasts use: the type's own, else 10 % of the fill, with where it comes from. */
+    residual: c.residualGaugeBar != null ? { gaugeBar: c.residualGaugeBar, basis: 'set for this cylinder type' } : { gaugeBar: DEFAULT_RESIDUAL_FRACTION_OF_FILL * c.fillPressureBar, basis: DEFAULT_RESIDUAL_SOURCE },
     material: c.material,
     valveNotes: c.valveNotes,
     active: c.active,
@@ -54,7 +58,7 @@ export async function createCylinderType(actor: Actor, input: CylinderTypeInput)
   return db().transaction(async (m) => {
     await assertUniqueType(m, actor, input);
     const repo = m.getRepository(CylinderType);
-    const saved = await repo.save(repo.create({ ...input, tareKg: input.tareKg ?? null, maxFillingRatioKgPerL: input.maxFillingRatioKgPerL ?? null, organisationId: actor.user.organisationId }));
+    const saved = await repo.save(repo.create({ ...input, tareKg: input.tareKg ?? null, maxFillingRatioKgPerL: input.maxFillingRatioKgPerL ?? null, residualGaugeBar: input.residualGaugeBar ?? null, organisationId: actor.user.organisationId }));
     const row = presentCylinderType(saved);
     await recordAudit(m, whoOf(actor), { action: 'create', entity: 'cylinder_type', entityId: String(saved.id), after: row });
     return row;
@@ -65,7 +69,7 @@ export async function updateCylinderType(actor: Actor, id: number, input: Cylind
   return db().transaction(async (m) => {
     const before = presentCylinderType(await cylinderTypeInOrg(m, actor, id));
     await assertUniqueType(m, actor, input, id);
-    await m.getRepository(CylinderType).update({ id }, { ...input, tareKg: input.tareKg ?? null, maxFillingRatioKgPerL: input.maxFillingRatioKgPerL ?? null });
+    await m.getRepository(CylinderType).update({ id }, { ...input, tareKg: input.tareKg ?? null, maxFillingRatioKgPerL: input.maxFillingRatioKgPerL ?? null, residualGaugeBar: input.residualGaugeBar ?? null });
     // A cylinder type's size and fill pressure are forecast inputs of every source using it.
     await bumpOrganisationSiteVersions(m, actor.user.organisationId);
     const after = presentCylinderType(await cylinderTypeInOrg(m, actor, id));

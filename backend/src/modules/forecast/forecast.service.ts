@@ -2,6 +2,7 @@ import { hasKey } from '@common/api/lookup';
 import { DateTime } from 'luxon';
 import { forecastInputSchema, type ForecastInput } from '@common/forecast/forecast-input.schema';
 import { forecastSource, FORECAST_CAUTION, type SourceForecast } from '@common/forecast/forecast-source';
+import { DEFAULT_DEMAND_PERSISTENCE, fitDailyPersistence } from '@common/forecast/monte-carlo';
 import { buildDemandLinesFromTherapy, DEVICE_DEFAULTS, meanDailyDemandL, type OxygenDevice, type TherapyLine } from '@common/forecast/demand-model';
 import type { DemandLine, DemandScenario } from '@common/forecast/demand-lines';
 import { freeGasLitresPerKg, type ReferenceCode } from '@common/gas/reference-conditions';
@@ -135,10 +136,13 @@ export function measuredLPerDay(model: SiteModel, s: SupplySource, reference: Re
  * Day-to-day variability of a source's measured use (coefficient of variation of whole local days) for
  * the Monte Carlo band; 0.2 until seven whole days of readings exist (reconcile.ts, demandCvFromDays).
  */
-export function measuredDemandCv(model: SiteModel, s: SupplySource): { cv: number; measured: boolean; days: number } {
+export function measuredDemandCv(model: SiteModel, s: SupplySource): { cv: number; measured: boolean; days: number; persistence: number; persistenceMeasured: boolean } {
   const c = recentConsumption(model, s);
-  if (!c) return { cv: 0.2, measured: false, days: 0 };
-  return demandCvFromDays(dailyRates(c.curve, model.site.timeZone));
+  if (!c) return { cv: 0.2, measured: false, days: 0, persistence: DEFAULT_DEMAND_PERSISTENCE, persistenceMeasured: false };
+  const days = dailyRates(c.curve, model.site.timeZone);
+  // AR(1) persistence of daily use (Yule–Walker), the default until 14 whole days exist
+  const phi = fitDailyPersistence(days.map((d) => d.perDay));
+  return { ...demandCvFromDays(days), persistence: phi ?? DEFAULT_DEMAND_PERSISTENCE, persistenceMeasured: phi !== null };
 }
 
 /** A stored scenario as the engine's overlay for one source (extra patients go to the sources of their ward). */
@@ -213,7 +217,7 @@ export function buildForecastInput(model: SiteModel, s: SupplySource, opts: Fore
   const deliveries = model.deliveries
     .filter((d) => d.sourceId === s.id && d.dueAt.getTime() >= start.toMillis())
     .map((d) => ({ at: toLocal(d.dueAt, zone), ...(d.kg !== null ? { kg: d.kg } : {}), ...(d.cylinders !== null ? { cylinders: d.cylinders } : {}) }));
-  const common = { start: startLocal, timezone: zone, horizon_days: horizonDays, reference, demand: lines, scenarios, deliveries, draws: opts.draws ?? 0, demand_cv: measuredDemandCv(model, s).cv, seed: s.id };
+  const common = { start: startLocal, timezone: zone, horizon_days: horizonDays, reference, demand: lines, scenarios, deliveries, draws: opts.draws ?? 0, demand_cv: measuredDemandCv(model, s).cv, demand_persistence: measuredDemandCv(model, s).persistence, seed: s.id };
   const detail = reading.detailJson ? (JSON.parse(reading.detailJson) as Record<string, unknown>) : {};
   const cyl = s.cylinderTypeId ? model.cylinderTypes.get(s.cylinderTypeId) : undefined;
   const temperatureC = s.temperatureC ?? model.site.storeTemperatureC;
@@ -247,7 +251,7 @@ export function buildForecastInput(model: SiteModel, s: SupplySource, opts: Fore
       raw = {
         ...common,
         deliveries: deliveries.filter((d) => 'cylinders' in d),
-        source: { type: 'cylinders', ...cylinderCommon, full: Number(detail.full ?? 0), in_use_gauge_bar: (detail.inUseGaugeBar as number[] | undefined) ?? [] },
+        source: { type: 'cylinders', ...cylinderCommon, full: Number(detail.full ?? 0), in_use_gauge_bar: (detail.inUseGaugeBar as number[] | undefined) ?? [], ...(cyl.residualGaugeBar != null ? { residual_gauge_bar: cyl.residualGaugeBar } : {}) },
       };
     }
   }

@@ -68,7 +68,7 @@ function compute(model: SiteModel, s: SupplySource, q: SourceDetailQuery, readin
   const series = hourly ? toChartSeries(hourly.contents, startMs, hourly.from, o.unit) : toChartSeries([], now.getTime(), 0, o.unit);
   const iso = (h: number | null) => (h !== null && Number.isFinite(h) ? new Date(startMs + h * MS_H).toISOString() : null);
   const band = f?.bands ? { draws: f.bands.draws, drawsOutlastingHorizon: f.bands.drawsOutlastingHorizon, p10: iso(f.bands.p10), p50: iso(f.bands.p50), p90: iso(f.bands.p90) } : null;
-  const perCyl = f?.factors.fullCylinderFreeGasL;
+  const perCyl = f?.factors.usablePerCylinderL ?? f?.factors.fullCylinderFreeGasL;
   const reference = model.site.referenceCode as ReferenceCode;
   const cyl = s.cylinderTypeId ? model.cylinderTypes.get(s.cylinderTypeId) : undefined;
   const lines = modelledLines(model, s);
@@ -89,18 +89,20 @@ function compute(model: SiteModel, s: SupplySource, q: SourceDetailQuery, readin
     wardsFed: wardsFedBy(model, s).map(presentWard),
     method: {
       caution: FORECAST_CAUTION,
+      cautions: f?.cautions ?? [],
       basis: o.basis,
       reference: REFERENCE_CONDITIONS[reference].label,
       startedFrom: o.startUtc,
       leadTimeHours: o.leadTimeHours,
       freeGasLitresPerKg: f?.factors.freeGasLitresPerKg ?? null,
-      fullCylinderFreeGasL: perCyl ?? null,
+      fullCylinderFreeGasL: f?.factors.fullCylinderFreeGasL ?? null,
+      residual: f?.residual ?? null,
       demandLines: lines.map((l) => ({ label: l.label ?? '', flowLMin: l.flow_L_min, hours: l.hours ?? null, weekdays: l.weekdays ?? null })),
       text: [
         'Hour-by-hour projection in the site’s time zone from the latest reading: each hour removes the demand of the wards this source feeds (therapy lines × device flows, plus leakage)',
         s.type === 'bulk_liquid' ? 'A bulk tank loses the larger of demand and its normal evaporation (evaporated gas feeds the pipeline; only the excess vents).' : 'Cylinders count in free gas at the reference conditions, from the real-gas equation of state at the fill pressure and the gauge readings.',
         'When contents cross the reorder level an order is placed; it arrives after the lead time and fills to the order-up-to level.',
-        `The band is the 10th–90th percentile of the empty time over Monte Carlo draws of day-to-day demand (coefficient of variation ${(o.input?.demand_cv ?? 0.2).toFixed(2)}${measuredDemandCv(model, s).measured ? ', measured from the last three weeks of readings' : ', a default until seven whole days of readings exist'}).`,
+        `The band is the 10th–90th percentile of the empty time over Monte Carlo draws of day-to-day demand (coefficient of variation ${(o.input?.demand_cv ?? 0.2).toFixed(2)}${measuredDemandCv(model, s).measured ? ', measured from the last three weeks of readings' : ', a default until seven whole days of readings exist'}). Busy and quiet days come in runs: each day’s factor carries ${(o.input?.demand_persistence ?? 0).toFixed(2)} of the day before (a first-order autoregressive model${measuredDemandCv(model, s).persistenceMeasured ? ', fitted from the measured daily use' : ', a default until 14 whole days of readings exist'}).`,
       ],
     },
   };

@@ -40,7 +40,7 @@ export function suggestOrder(model: SiteModel, s: SupplySource, o: SourceOutlook
   const unit = unitOf(s);
   const supplier = s.supplierId ? model.suppliers.get(s.supplierId) : undefined;
   const f = o.forecast;
-  const perCyl = f?.factors.fullCylinderFreeGasL;
+  const perCyl = f?.factors.usablePerCylinderL ?? f?.factors.fullCylinderFreeGasL;
   const first = f?.orders[0];
   let raw: number | null = null;
   let basis = '';

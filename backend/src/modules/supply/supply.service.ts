@@ -2,7 +2,8 @@ import { In, type EntityManager } from 'typeorm';
 import { DateTime } from 'luxon';
 import type { DeliveryInput, DeliveryView, Department, ForecastBasis, ReadingInput, ReadingKind, ReadingMethod, ReadingPage, ReadingView, ReorderMode, ScenarioInput, ScenarioView, SourceInput, SourceType, SourceView, TherapyDevice, TherapyLineInput, TherapyLineView, WardInput, WardView } from '@common/schemas/supply.schema';
 import { compressedContents } from '@common/gas/contents';
-import { levelPercentToKg, loxLitresToKg, contentsFromCalibrationTable } from '@common/gas/liquid-oxygen';
+import { mixtureCautions } from '@common/gas/mixture-cautions';
+import { DEFAULT_TANK_OPERATING_GAUGE_BAR, levelPercentToKg, loxDensityAtTankPressureKgPerL, loxLitresToKg, contentsFromCalibrationTable } from '@common/gas/liquid-oxygen';
 import { freeGasLitresPerKg, type ReferenceCode } from '@common/gas/reference-conditions';
 import { isLiquefiedGas, type GasCode } from '@common/gas/gases';
 import { InvalidInputError } from '@common/api/errors';
@@ -39,6 +40,7 @@ export function presentSource(s: SupplySource) {
     cylindersPerBank: s.cylindersPerBank,
     regulatorLMin: s.regulatorLMin,
     changeoverGaugeBar: s.changeoverGaugeBar,
+    operatingPressureBar: s.operatingPressureBar ?? null,
     temperatureC: s.temperatureC,
     backsUp: s.backsUpJson ? (JSON.parse(s.backsUpJson) as number[]) : [],
     reorderMode: s.reorderMode as ReorderMode,
@@ -192,7 +194,8 @@ export function contentsOfReading(source: SupplySource, site: Site, cyl: Cylinde
       else if (r.kind === 'kg') kg = r.value;
       else if (r.kind === 'litres_liquid') {
         if (source.gasCode !== 'O2') throw badRequest('Litres of liquid are converted for liquid oxygen only: enter kg or % for this tank', [{ path: 'kind', message: 'use kg or %' }]);
-        kg = loxLitresToKg(r.value);
+        // at the saturated-liquid density of the tank's working pressure, not the boiling-point density
+        kg = loxLitresToKg(r.value, loxDensityAtTankPressureKgPerL(source.operatingPressureBar ?? DEFAULT_TANK_OPERATING_GAUGE_BAR, site.atmosphericBar));
       } else if (r.kind === 'calibration') {
         if (!source.calibrationJson) throw badRequest('This tank has no calibration table: enter %, kg or litres', [{ path: 'kind', message: 'no calibration table' }]);
         kg = contentsFromCalibrationTable(JSON.parse(source.calibrationJson), r.value);
@@ -206,7 +209,15 @@ export function contentsOfReading(source: SupplySource, site: Site, cyl: Cylinde
     if (isLiquefiedGas(gas)) {
       const perFullKg = (cyl.maxFillingRatioKgPerL ?? 0.75) * cyl.waterCapacityL;
       const lPerKg = freeGasLitresPerKg(gas, reference);
-      if (r.kind === 'store_count') return (r.full * perFullKg + r.inUseGaugeBar.length * perFullKg * 0.5) * lPerKg; // in-use liquefied cylinders: counted half full (their gauge does not show contents)
+      if (r.kind === 'store_count') {
+        // while liquid is left the gauge shows the vapour pressure whatever the contents: part-used cylinders are weighed
+        if (r.inUseGaugeBar.length > 0) {
+          throw badRequest(`The gauge of ${gas} shows its vapour pressure, not the contents, while any liquid is left: weigh the cylinder: gross − tare, and enter the net weight of each part-used cylinder`, [
+            { path: 'inUseGaugeBar', message: 'weigh the cylinder: gross − tare' },
+          ]);
+        }
+        return (r.full * perFullKg + (r.inUseNetKg ?? []).reduce((sum, kg) => sum + kg, 0)) * lPerKg;
+      }
       throw badRequest('The gauge of a liquefied gas shows vapour pressure, not contents: count full and in-use cylinders instead', [{ path: 'kind', message: 'use a store count' }]);
     }
     const perCyl = (gauge: number) => compressedContents({ gas, waterCapacityL: cyl.waterCapacityL, gaugeBar: gauge, temperatureC, atmosphericBar: site.atmosphericBar, reference }).freeGasL;
@@ -219,6 +230,7 @@ export function contentsOfReading(source: SupplySource, site: Site, cyl: Cylinde
       return n * (perCyl(r.dutyBar) + perCyl(r.standbyBar)) + r.spareFull * full;
     }
     if (r.kind === 'store_count') {
+      if ((r.inUseNetKg ?? []).length > 0) throw badRequest('Net weights are for liquefied gases (CO2, N2O): give a gauge reading for each part-used cylinder', [{ path: 'inUseNetKg', message: 'gauge readings for this gas' }]);
       r.inUseGaugeBar.forEach((g, i) => {
         if (g > cyl.fillPressureBar * 1.35) throw badRequest(`${g} bar is far above this cylinder's ${cyl.fillPressureBar} bar fill`, [{ path: `inUseGaugeBar.${i}`, message: 'above the fill pressure' }]);
       });
@@ -245,7 +257,9 @@ export async function addReading(actor: Actor, sourceId: number, input: ReadingI
     const saved = await m.getRepository(SourceReading).save(m.getRepository(SourceReading).create({ sourceId, takenAt, kind, value, detailJson: detail, contents, method, note, takenByUserId: actor.user.id }));
     await recordAudit(m, whoOf(actor), { action: 'create', entity: 'source_reading', entityId: saved.id, after: presentReading(saved) });
     await bumpSiteVersion(m, source.siteId);
-    return presentReading(saved, new Map([[actor.user.id, actor.user.name]]));
+    // a 50:50 N2O/O2 reading taken in a cold store: the contents assume a mixture that may have separated
+    const cautions = mixtureCautions(source.gasCode as GasCode, source.temperatureC ?? site.storeTemperatureC, 'The temperature of this reading');
+    return { ...presentReading(saved, new Map([[actor.user.id, actor.user.name]])), cautions };
   });
 }
 

@@ -343,6 +343,7 @@ function ZoneRowView({
                       )}
                     </span>
                     <UtilisationBar fraction={p.utilisation} label={`${p.name}: pressure drop as a share of the allowed drop`} />
+                    {p.verdictNote && <span className="block text-xs text-warn">{p.verdictNote}</span>}
                   </>
                 )}
               </li>

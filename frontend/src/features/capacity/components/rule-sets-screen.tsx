@@ -60,7 +60,7 @@ export function RuleSetsScreen({ canEdit }: { canEdit: boolean }) {
         }
       />
       <Alert tone="watch" title="Oxygen rules of the shipped HTM 02-01 set are from memory">
-        The vacuum (Table 21) and 50:50 N2O/O2 (§§4.31–4.32) rules were seen in the published text. The oxygen table is recalled, not verified: every oxygen figure computed with it says “{UNVERIFIED_WARNING}”. Check it against your copy of the standard before relying on it.
+        The vacuum (Table 21) and 50:50 N2O/O2 (§§4.31–4.32) rules were seen in the published text. The oxygen table is recalled, not verified: every oxygen figure computed with it says “{UNVERIFIED_WARNING}”. Check it against your copy of the standard before relying on it. The GB 50751-2012 set is quoted from a supplier page and is not verified against the standard either.
       </Alert>
       {sets.isPending ? (
         <Card>
@@ -258,7 +258,7 @@ function RuleSetView({ set, basedOnName, canEdit, onCopy, onDeleted }: { set: Ru
                         </td>
                         <td className="py-2 pr-3">{COUNT_LABELS[rule!.counts] ?? rule!.counts}</td>
                         <td className="py-2 pr-3">
-                          {rule!.verified ? <Badge tone="ok">Seen in source</Badge> : <Badge tone="watch">{UNVERIFIED_WARNING}</Badge>}
+                          {rule!.verified ? <Badge tone="ok">Checked against the standard’s table</Badge> : <Badge tone="watch">{source?.unverified_warning ?? UNVERIFIED_WARNING}</Badge>}
                           <span className="block text-xs text-fg-muted">{source?.citation ?? rule!.source}</span>
                         </td>
                         {editable && (

@@ -11,7 +11,7 @@ import { FormActions } from '@/components/ui/dialog';
 import { Checkbox, Field, Input, Select, UnitInput } from '@/components/ui/field';
 import { useSaveCylinderType, type CylinderType, type Gas } from '../api/catalogue-api';
 
-const FIELDS = ['gasCode', 'waterCapacityL', 'fillPressureBar', 'tareKg', 'maxFillingRatioKgPerL', 'material', 'valveNotes', 'active'] as const;
+const FIELDS = ['gasCode', 'waterCapacityL', 'fillPressureBar', 'tareKg', 'maxFillingRatioKgPerL', 'residualGaugeBar', 'material', 'valveNotes', 'active'] as const;
 const LIQUEFIED = new Set(['N2O', 'CO2']);
 const optionalNumber = (v: unknown) => (v === '' || v === null || v === undefined ? null : Number(v));
 
@@ -27,11 +27,12 @@ export function CylinderTypeForm({ initial, gases, onDone }: { initial: Cylinder
           fillPressureBar: String(initial.fillPressureBar),
           tareKg: initial.tareKg,
           maxFillingRatioKgPerL: initial.maxFillingRatioKgPerL,
+          residualGaugeBar: initial.residualGaugeBar ?? null,
           material: initial.material,
           valveNotes: initial.valveNotes,
           active: initial.active,
         }
-      : { gasCode: 'O2' as const, waterCapacityL: '', fillPressureBar: '', tareKg: null, maxFillingRatioKgPerL: null, material: '', valveNotes: '', active: true },
+      : { gasCode: 'O2' as const, waterCapacityL: '', fillPressureBar: '', tareKg: null, maxFillingRatioKgPerL: null, residualGaugeBar: null, material: '', valveNotes: '', active: true },
   });
   const [gasCode, water, fill, ratio] = useWatch({ control, name: ['gasCode', 'waterCapacityL', 'fillPressureBar', 'maxFillingRatioKgPerL'] });
   const liquefied = LIQUEFIED.has(String(gasCode));
@@ -81,6 +82,11 @@ export function CylinderTypeForm({ initial, gases, onDone }: { initial: Cylinder
         <Field label="Tare weight" hint={liquefied ? 'Stamped on the cylinder: needed to weigh the contents.' : 'Optional for compressed gases.'} error={formState.errors.tareKg?.message}>
           {(c) => <UnitInput {...c} {...register('tareKg', { setValueAs: optionalNumber })} unit="kg" inputMode="decimal" />}
         </Field>
+        {!liquefied && (
+          <Field label="Changed at (residual)" hint="Gauge pressure at which a cylinder is changed; the gas left is not counted as stock. Empty: 10 % of the fill pressure (common practice; US EMS guidance keeps about 200 psi)." error={formState.errors.residualGaugeBar?.message}>
+            {(c) => <UnitInput {...c} {...register('residualGaugeBar', { setValueAs: optionalNumber })} unit="bar" inputMode="decimal" />}
+          </Field>
+        )}
         {liquefied && (
           <Field label="Maximum filling ratio" hint="kg of gas per litre of water capacity, e.g. 0.75." error={formState.errors.maxFillingRatioKgPerL?.message}>
             {(c) => <UnitInput {...c} {...register('maxFillingRatioKgPerL', { setValueAs: optionalNumber })} unit="kg/L" inputMode="decimal" />}

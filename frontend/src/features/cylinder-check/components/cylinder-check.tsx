@@ -64,7 +64,7 @@ export function CylinderCheck({ site, cylinderTypes, gases }: { site: CheckSiteI
   const gasName = (code: string) => gases.find((g) => g.code === code)?.name ?? code;
 
   const { register, setValue, control } = useForm<FormValues>({
-    defaultValues: { cylinderTypeId: '', gasCode: 'O2', waterCapacityL: '', gauge: '', temperature: defaultTemperature(site), flowLMin: '', reserve: '0', gross: '', tare: '' },
+    defaultValues: { cylinderTypeId: '', gasCode: 'O2', waterCapacityL: '', gauge: '', temperature: defaultTemperature(site), flowLMin: '', reserve: '', gross: '', tare: '' },
   });
   const values = useWatch({ control }) as FormValues;
   const deferred = useDeferredValue(values);
@@ -183,7 +183,7 @@ export function CylinderCheck({ site, cylinderTypes, gases }: { site: CheckSiteI
                 </button>
               ))}
             </div>
-            {!liquefied && <NumberField label="Change the cylinder at" unit={pUnit} error={errors.reserve} reg={register('reserve')} hint="The reserve your local practice keeps (gauge). 0 runs the time to empty." />}
+            {!liquefied && <NumberField label="Change the cylinder at" unit={pUnit} error={errors.reserve} reg={register('reserve')} hint="The reserve your local practice keeps (gauge). Blank: 200 psi (13.8 bar), the residual US EMS guidance keeps; 0 runs the time to empty." />}
           </CardBody>
         </Card>
       </form>
@@ -268,7 +268,7 @@ function Results({ r, fillPressureBar, shownAbove }: { r: CompressedCheck | Liqu
           </p>
           <p className="mt-1 text-fg-muted">
             at {formatNumber(r.flowLMin, 1)} L/min
-            {r.kind === 'compressed' ? (r.reserveBar > 0 ? `, until the gauge reads ${pressure(r.reserveBar)}` : ', until empty') : ', until the cylinder is empty'}
+            {r.kind === 'compressed' ? (r.reserveBar > 0 ? `, until the gauge reads ${pressure(r.reserveBar)}${r.reserveBasis ? ` (default: ${r.reserveBasis})` : ''}` : ', until empty') : ', until the cylinder is empty'}
             {clock && !noGas && (
               <>
                 {' '}
@@ -277,6 +277,11 @@ function Results({ r, fillPressureBar, shownAbove }: { r: CompressedCheck | Liqu
             )}
           </p>
           <p className="mt-2 text-sm">Usable: {volume(r.usableFreeGasL, u.us)} free gas.</p>
+          {r.kind === 'compressed' && r.minutesRange && !noGas && (
+            <p className="mt-1 text-sm text-warn">
+              Mixture estimate: between {formatDurationMinutes(r.minutesRange.low)} and {formatDurationMinutes(r.minutesRange.high)} ({r.minutesRange.method}).
+            </p>
+          )}
         </CardBody>
       </Card>
 

@@ -29,7 +29,6 @@ describe('evaluateCylinderCheck, compressed oxygen', () => {
     // pV = nRT by hand: 10 L × (10 − 2) bar / 1.01325 bar = 78.95 L above a 2 bar reserve; at 2 L/min ≈ 39.5 min.
     // Z(O2, 15 °C) is 0.99–1.00 below 11 bar (reference table in tests/reference), so the real figure is within 1 %.
     const r = ok(evaluateCylinderCheck(values({ gauge: '10', reserve: '2' }), metric));
-    expect(r.minutes).toBeCloseTo(r.usableFreeGasL / 2, 6);
     expect(Math.abs(r.minutes - 39.48) / 39.48).toBeLessThan(0.01);
   });
 
@@ -129,5 +128,18 @@ describe('temperatureCautions', () => {
     expect(temperatureCautions('N2O_O2_50', '-8', metric).join(' ')).toMatch(/condense|separat/i);
     expect(temperatureCautions('N2O_O2_50', '20', metric)).toEqual([]);
     expect(temperatureCautions('O2', '-20', metric)).toEqual([]);
+  });
+});
+
+describe('evaluateCylinderCheck, mixtures', () => {
+  it('shows the minutes of a 50:50 N2O/O2 cylinder with a range from a second method; none for oxygen', () => {
+    // second method: Peng & Robinson (1976) with its pure-component error taken out (see mixture-uncertainty.ts)
+    const r = ok(evaluateCylinderCheck(values({ gasCode: 'N2O_O2_50', gauge: '137', reserve: '0' }), metric));
+    if (r.kind !== 'compressed' || !r.minutesRange) throw new Error('expected a compressed result with a range');
+    expect(r.minutesRange.low).toBeLessThanOrEqual(r.minutes);
+    expect(r.minutesRange.high).toBeGreaterThanOrEqual(r.minutes);
+    expect(r.minutesRange.high).toBeGreaterThan(r.minutesRange.low);
+    const o2 = ok(evaluateCylinderCheck(values({ gauge: '137' }), metric));
+    expect(o2.kind === 'compressed' && o2.minutesRange).toBe(null);
   });
 });

@@ -1,8 +1,9 @@
 import { InvalidInputError } from '@common/api/errors';
-import { compressedContents, cylinderDuration, liquefiedContents, type CompressedContents, type LiquefiedContents } from '@common/gas/contents';
+import { DEFAULT_RESERVE_GAUGE_BAR, DEFAULT_RESERVE_SOURCE, compressedContents, cylinderDuration, liquefiedContents, type CompressedContents, type LiquefiedContents } from '@common/gas/contents';
 import { methodFor } from '@common/gas/equations';
 import { GAS_INFO, MAX_PRESSURE_BAR_ABS, isGasCode, isLiquefiedGas, type GasCode, type LiquefiedGasCode } from '@common/gas/gases';
 import { mixtureCautions } from '@common/gas/mixture-cautions';
+import { mixtureZRange } from '@common/gas/mixture-uncertainty';
 import { REFERENCE_CONDITIONS, isReferenceCode, type ReferenceCode } from '@common/gas/reference-conditions';
 import { BAR_PER_PSI, celsiusToFahrenheit, fahrenheitToCelsius } from '@common/gas/units';
 
@@ -71,6 +72,10 @@ export interface CompressedCheck extends Common {
   kind: 'compressed';
   contents: CompressedContents;
   reserveBar: number;
+  /** Where the reserve came from when the default was used (blank field), else null. */
+  reserveBasis: string | null;
+  /** Mixtures: minutes across the Z range of the mixture (mixture-uncertainty.ts), with the method; else null. */
+  minutesRange: { low: number; high: number; method: string } | null;
   /** Gauge pressure the same contents show at the reference temperature, site unit. */
   equivalentGauge: number;
   chart: ChartPoint[];
@@ -165,6 +170,7 @@ export function evaluateCylinderCheck(values: CheckValues, site: CheckSite): Che
 
   let gaugeBar = NaN;
   let reserveBar = 0;
+  let reserveDefaulted = false;
   let grossKg = NaN;
   let tareKg = NaN;
   if (liquefied) {
@@ -179,12 +185,13 @@ export function evaluateCylinderCheck(values: CheckValues, site: CheckSite): Che
   } else {
     const gauge = need('gauge', 'Gauge reading', (n) => (n < 0 ? 'cannot be below 0 on the gauge' : n > maxGauge ? `above ${Math.round(maxGauge)} ${units.pressure}: check the reading` : null));
     gaugeBar = toBar(gauge);
-    const reserveText = values.reserve.trim() === '' ? '0' : values.reserve;
-    const reserve = readNumber(reserveText);
+    // blank: the stated default residual (200 psi, 13.8 bar), shown beside the result
+    reserveDefaulted = values.reserve.trim() === '';
+    const reserve = reserveDefaulted ? fromBar(DEFAULT_RESERVE_GAUGE_BAR) : readNumber(values.reserve);
     if (reserve === null || !Number.isFinite(reserve)) errors.reserve = 'Reserve: type a number (0 to run to empty)';
     else if (reserve < 0) errors.reserve = 'cannot be below 0';
-    else if (Number.isFinite(gauge) && reserve >= gauge && gauge > 0) errors.reserve = 'must be below the gauge reading';
-    else reserveBar = toBar(reserve);
+    else if (!reserveDefaulted && Number.isFinite(gauge) && reserve >= gauge && gauge > 0) errors.reserve = 'must be below the gauge reading';
+    else reserveBar = reserveDefaulted ? DEFAULT_RESERVE_GAUGE_BAR : toBar(reserve);
   }
 
   if (Object.keys(errors).length > 0 || missing.length > 0) return { ok: false, errors, missing };
@@ -229,6 +236,12 @@ export function evaluateCylinderCheck(values: CheckValues, site: CheckSite): Che
         method: contents.method,
         contents,
         reserveBar,
+        reserveBasis: reserveDefaulted ? DEFAULT_RESERVE_SOURCE : null,
+        minutesRange: (() => {
+          const zr = mixtureZRange(gas, temperatureC + 273.15, contents.pressureBarAbs);
+          if (!zr || !(duration.minutes > 0)) return null;
+          return { low: (duration.minutes * contents.Z) / zr.high, high: (duration.minutes * contents.Z) / zr.low, method: zr.method };
+        })(),
         equivalentGauge: fromBar(contents.equivalentGaugeBarAtReferenceTemperature),
         chart: contentsCurve({ gas, waterCapacityL, temperatureC, atmosphericBar: units.atmosphericBar, reference: units.reference }, toBar(roundUp(fromBar(Math.max(gaugeBar, 200)), units.us ? 500 : 50)), fromBar),
       },

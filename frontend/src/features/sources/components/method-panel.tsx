@@ -4,6 +4,7 @@ import { Alert } from '@/components/ui/alert';
 import { Card, CardBody, CardHeader } from '@/components/ui/card';
 import type { SourceDetail } from '../api/sources-api';
 import { BASIS_LABEL } from '../lib/source-labels';
+import { DEFAULT_TANK_OPERATING_GAUGE_BAR, DEFAULT_TANK_OPERATING_SOURCE, loxDensityAtTankPressureKgPerL } from '@common/gas/liquid-oxygen';
 
 /** How the forecast was made: its inputs, conversions, demand lines and the caution that goes with it. */
 export function MethodPanel({ detail }: { detail: SourceDetail }) {
@@ -17,6 +18,11 @@ export function MethodPanel({ detail }: { detail: SourceDetail }) {
         <Alert tone="warn" title="Planning estimate only">
           {method.caution}
         </Alert>
+        {(method.cautions ?? []).map((c) => (
+          <Alert key={c} tone="critical" title="Caution">
+            {c}
+          </Alert>
+        ))}
         <dl className="grid gap-3 text-sm sm:grid-cols-2">
           <div>
             <dt className="text-fg-muted">Demand basis</dt>
@@ -51,6 +57,22 @@ export function MethodPanel({ detail }: { detail: SourceDetail }) {
                   : '–'}
             </dd>
           </div>
+          {source.type === 'bulk_liquid' && source.gasCode === 'O2' && (
+            <div>
+              <dt className="text-fg-muted">Litres of liquid converted at</dt>
+              <dd className="font-bold tabular">{loxDensityAtTankPressureKgPerL(source.operatingPressureBar ?? DEFAULT_TANK_OPERATING_GAUGE_BAR).toFixed(3)} kg/L</dd>
+              <dd>
+                saturated liquid oxygen at {source.operatingPressureBar ?? DEFAULT_TANK_OPERATING_GAUGE_BAR} bar g ({source.operatingPressureBar == null ? DEFAULT_TANK_OPERATING_SOURCE : 'the tank’s working pressure'}), from the reference equation of state (Schmidt &amp; Wagner 1985)
+              </dd>
+            </div>
+          )}
+          {method.residual && (
+            <div>
+              <dt className="text-fg-muted">Each cylinder is changed at</dt>
+              <dd className="font-bold tabular">{formatNumber(method.residual.gaugeBar, 1)} bar g</dd>
+              <dd>{method.residual.basis}; the gas left behind is not counted as stock.</dd>
+            </div>
+          )}
           <div>
             <dt className="text-fg-muted">Starts from</dt>
             <dd>{method.startedFrom ? `the reading of ${formatDateTime(method.startedFrom, site.timeZone)} (hour start)` : 'no reading yet'}</dd>

@@ -1,7 +1,8 @@
 import { useState } from 'react';
 import { useFieldArray, useForm, useWatch } from 'react-hook-form';
 import { readingInputSchema, READING_METHODS } from '@common/schemas/supply.schema';
-import { loxLitresToKg } from '@common/gas/liquid-oxygen';
+import { DEFAULT_TANK_OPERATING_GAUGE_BAR, loxDensityAtTankPressureKgPerL, loxLitresToKg } from '@common/gas/liquid-oxygen';
+import { isLiquefiedGas } from '@common/gas/gases';
 import { bodyResolver } from '@/lib/body-resolver';
 import { applyServerErrors } from '@/lib/form-errors';
 import { formatKg, formatLitres } from '@/lib/format';
@@ -32,7 +33,7 @@ interface ReadingFormValues {
   note: string;
 }
 
-const FIELDS = ['kind', 'value', 'dutyBar', 'standbyBar', 'spareFull', 'full', 'inUseGauges', 'inUseGaugeBar', 'empty', 'takenAt', 'method', 'note'] as const;
+const FIELDS = ['kind', 'value', 'dutyBar', 'standbyBar', 'spareFull', 'full', 'inUseGauges', 'inUseGaugeBar', 'inUseNetKg', 'empty', 'takenAt', 'method', 'note'] as const;
 
 const KIND_LABEL: Record<ReadingKind, string> = {
   level_percent: 'Level %',
@@ -57,16 +58,20 @@ function kindsFor(source: SourceDetail['source']): ReadingKind[] {
   }
 }
 
-function toBody(v: ReadingFormValues, timeZone: string) {
+/** `weighed`: CO2 and N2O, whose part-used cylinders are weighed (net kg), since their gauge shows only the vapour pressure. */
+function toBody(v: ReadingFormValues, timeZone: string, weighed: boolean) {
   const common = { takenAt: localInputToIso(v.takenAt, timeZone) ?? '', method: v.method, note: v.note };
   if (v.kind === 'bank_gauges') return { kind: v.kind, dutyBar: v.dutyBar, standbyBar: v.standbyBar, spareFull: v.spareFull, ...common };
-  if (v.kind === 'store_count') return { kind: v.kind, full: v.full, inUseGaugeBar: v.inUseGauges.map((g) => g.bar), empty: v.empty, ...common };
+  if (v.kind === 'store_count') {
+    const rows = v.inUseGauges.map((g) => g.bar);
+    return { kind: v.kind, full: v.full, ...(weighed ? { inUseNetKg: rows } : { inUseGaugeBar: rows }), empty: v.empty, ...common };
+  }
   return { kind: v.kind, value: v.value, ...common };
 }
 
-/** The server and the schema say "inUseGaugeBar.2"; the person typed into the third gauge row. */
+/** The server and the schema say "inUseGaugeBar.2" (or "inUseNetKg.2"); the person typed into the third row. */
 function renamePath(path: string): string {
-  const m = /^inUseGaugeBar\.(\d+)$/.exec(path);
+  const m = /^(?:inUseGaugeBar|inUseNetKg)\.(\d+)$/.exec(path);
   return m ? `inUseGauges.${m[1]}.bar` : path;
 }
 
@@ -78,6 +83,7 @@ export function ReadingForm({ detail, onSaved }: { detail: SourceDetail; onSaved
   const { source, site } = detail;
   const tz = site.timeZone;
   const kinds = kindsFor(source);
+  const weighed = isLiquefiedGas(source.gasCode);
   const add = useAddReading(source.id, onSaved);
   const [banner, setBanner] = useState<string | null>(null);
   const fresh = (kind: ReadingKind): ReadingFormValues => ({
@@ -96,7 +102,7 @@ export function ReadingForm({ detail, onSaved }: { detail: SourceDetail; onSaved
   const { register, handleSubmit, setError, control, formState, reset, setValue } = useForm<ReadingFormValues, unknown, ReturnType<typeof readingInputSchema.parse>>({
     resolver: bodyResolver<ReadingFormValues, typeof readingInputSchema>(
       readingInputSchema,
-      (v) => toBody(v, tz),
+      (v) => toBody(v, tz, weighed),
       (p) => (p === 'takenAt' ? 'takenAt' : renamePath(p)),
     ),
     defaultValues: fresh(kinds[0]),
@@ -120,7 +126,11 @@ export function ReadingForm({ detail, onSaved }: { detail: SourceDetail; onSaved
   let preview: string | null = null;
   if (source.type === 'bulk_liquid' && Number.isFinite(value) && value >= 0) {
     if (kind === 'level_percent' && source.capacityKg) preview = `≈ ${formatKg((source.capacityKg * value) / 100)} of ${formatKg(source.capacityKg)}`;
-    if (kind === 'litres_liquid') preview = `≈ ${formatKg(loxLitresToKg(value))} of liquid oxygen`;
+    if (kind === 'litres_liquid') {
+      const pressure = source.operatingPressureBar ?? DEFAULT_TANK_OPERATING_GAUGE_BAR;
+      const density = loxDensityAtTankPressureKgPerL(pressure);
+      preview = `≈ ${formatKg(loxLitresToKg(value, density))} of liquid oxygen at ${density.toFixed(3)} kg/L (saturated liquid at ${pressure} bar g${source.operatingPressureBar == null ? ', the default working pressure' : ''})`;
+    }
   }
   const takenAtError = e.takenAt ? (/ISO|offset/i.test(e.takenAt.message ?? '') ? 'enter the date and time the reading was taken, at the site' : e.takenAt.message) : undefined;
 
@@ -194,13 +204,14 @@ export function ReadingForm({ detail, onSaved }: { detail: SourceDetail; onSaved
             </Field>
           </div>
           <fieldset className="flex flex-col gap-2">
-            <legend className="pb-1 text-sm font-bold">Cylinders in use: one gauge each</legend>
+            <legend className="pb-1 text-sm font-bold">{weighed ? 'Cylinders in use: weigh each (gross − tare)' : 'Cylinders in use: one gauge each'}</legend>
+            {weighed && <p className="text-sm text-fg-muted">A liquefied gas’s gauge shows the vapour pressure, not the contents, while any liquid is left: weigh the cylinder and enter gross − tare.</p>}
             {gauges.fields.length === 0 && <p className="text-sm text-fg-muted">None in use. Add one row per part-used cylinder.</p>}
             <ul className="grid gap-2 sm:grid-cols-2">
               {gauges.fields.map((f, i) => (
                 <li key={f.id} className="flex items-start gap-2">
-                  <Field label={`Cylinder ${i + 1} gauge`} error={e.inUseGauges?.[i]?.bar?.message} className="flex-1">
-                    {(c) => <UnitInput {...c} {...register(`inUseGauges.${i}.bar`, { valueAsNumber: true })} unit="bar" inputMode="decimal" autoComplete="off" />}
+                  <Field label={weighed ? `Cylinder ${i + 1} net weight` : `Cylinder ${i + 1} gauge`} error={e.inUseGauges?.[i]?.bar?.message} className="flex-1">
+                    {(c) => <UnitInput {...c} {...register(`inUseGauges.${i}.bar`, { valueAsNumber: true })} unit={weighed ? 'kg' : 'bar'} inputMode="decimal" autoComplete="off" />}
                   </Field>
                   <Button variant="ghost" size="sm" className="mt-7" onClick={() => gauges.remove(i)} aria-label={`Remove cylinder ${i + 1}`}>
                     <Icon name="close" className="size-4" />

@@ -40,7 +40,7 @@ const FIELDS = Object.keys(sourceSchema.shape);
 const optionalNumber = (v: unknown) => (v === '' || v === null || v === undefined ? null : Number(v));
 const optionalId = (v: unknown) => (v === '' || v === null || v === undefined ? null : Number(v));
 
-const BULK_ONLY = ['capacityKg', 'evaporationPercentPerDay', 'vaporiserM3H', 'vaporiserDerating', 'minLevelAlarmPercent', 'reservePercent', 'calibration', 'calibrationUnit'] as const;
+const BULK_ONLY = ['capacityKg', 'evaporationPercentPerDay', 'operatingPressureBar', 'vaporiserM3H', 'vaporiserDerating', 'minLevelAlarmPercent', 'reservePercent', 'calibration', 'calibrationUnit'] as const;
 const CYLINDER_ONLY = ['cylinderTypeId', 'temperatureC'] as const;
 const MANIFOLD_ONLY = ['regulatorLMin', 'changeoverGaugeBar'] as const;
 
@@ -70,6 +70,7 @@ function defaultsFrom(initial: Source | null): SourceFormValues {
       capacityKg: null,
       evaporationPercentPerDay: null,
       vaporiserM3H: null,
+      operatingPressureBar: null,
       vaporiserDerating: null,
       minLevelAlarmPercent: null,
       reservePercent: null,
@@ -91,7 +92,7 @@ function defaultsFrom(initial: Source | null): SourceFormValues {
     };
   }
   const { id: _id, siteId: _site, modelCorrectionFactor: _f, ...rest } = initial;
-  return { ...rest, gasCode: rest.gasCode as SourceFormValues['gasCode'], calibration: rest.calibration ?? [] };
+  return { ...rest, operatingPressureBar: rest.operatingPressureBar ?? null, gasCode: rest.gasCode as SourceFormValues['gasCode'], calibration: rest.calibration ?? [] };
 }
 
 const REORDER_MODE_LABEL: Record<(typeof REORDER_MODES)[number], string> = {
@@ -209,6 +210,9 @@ export function SourceForm({
           </Field>
           <Field label="Normal evaporation rate" hint="From the tank’s data plate or the supplier: % of capacity per day." error={e.evaporationPercentPerDay?.message}>
             {(c) => <UnitInput {...c} {...register('evaporationPercentPerDay', { setValueAs: optionalNumber })} unit="%/day" inputMode="decimal" />}
+          </Field>
+          <Field label="Working pressure" hint="Tank pressure (gauge): litres of liquid are converted at the liquid’s density at this pressure. Empty: 7 bar g, the usual UK relief setting." error={e.operatingPressureBar?.message}>
+            {(c) => <UnitInput {...c} {...register('operatingPressureBar', { setValueAs: optionalNumber })} unit="bar" inputMode="decimal" />}
           </Field>
           <Field label="Vaporiser rating" hint="Optional; used by the capacity check." error={e.vaporiserM3H?.message}>
             {(c) => <UnitInput {...c} {...register('vaporiserM3H', { setValueAs: optionalNumber })} unit="m³/h" inputMode="decimal" />}
