@@ -29,7 +29,7 @@ describe('forecastSource: the reorder level it plans against (the chart line)', 
     expect(f.reorderLevel).toBeNull();
   });
 
-  it('a cylinder store: the level in cylinders × free gas per full cylinder', () => {
+  it('a cylinder store: the level in cylinders × usable gas per cylinder (above the stated residual)', () => {
     const f = forecast({
       ...base,
       source: { type: 'cylinders', gas: 'O2', water_capacity_L: 47, fill_gauge_bar: 137, fill_temperature_C: 15, full: 10, in_use_gauge_bar: [], reorder_level_cylinders: 4, order_up_to_cylinders: 12, lead_time_hours: 24 },
@@ -37,7 +37,10 @@ describe('forecastSource: the reorder level it plans against (the chart line)', 
     const perCyl = f.factors.fullCylinderFreeGasL!;
     // HTM 02-01 Part A Table 22: a 47 L cylinder at 137 bar holds about 6,800 L of O2 (nominal figure).
     expect(Math.abs(perCyl / 6800 - 1)).toBeLessThan(0.05);
-    expect(f.reorderLevel!).toBeCloseTo(4 * perCyl, 6);
+    // Store contents count usable gas (each cylinder is changed at its residual, 10 % of the fill by default).
+    const usable = f.factors.usablePerCylinderL!;
+    expect(usable).toBeLessThan(perCyl);
+    expect(f.reorderLevel!).toBeCloseTo(4 * usable, 6);
   });
 
   it('a manifold: full-cylinder equivalents of usable gas (above the changeover residual)', () => {
