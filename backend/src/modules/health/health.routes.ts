@@ -2,6 +2,20 @@ import type { RouteDef } from '../../http/route';
 import { db } from '../../db/db';
 import { mailStatus } from '../../mail/mailer';
 
+/**
+ * The Galera `wsrep_cluster_size` seen by the node this process is connected to; undefined on a single
+ * server (no wsrep status) or when the status cannot be read.
+ */
+async function galeraClusterSize(): Promise<number | undefined> {
+  try {
+    const rows = (await db().query("SHOW GLOBAL STATUS LIKE 'wsrep_cluster_size'")) as { Value?: string }[];
+    const n = Number(rows[0]?.Value);
+    return Number.isInteger(n) && n > 0 ? n : undefined;
+  } catch {
+    return undefined;
+  }
+}
+
 /** GET /api/health: database and mail status; 503 while the database is unreachable. */
 export function healthRoutes(): RouteDef[] {
   return [
@@ -11,10 +25,12 @@ export function healthRoutes(): RouteDef[] {
       access: 'public',
       handler: async (_req, res) => {
         const started = Date.now();
-        let database: { ok: boolean; latencyMs?: number; message?: string };
+        let database: { ok: boolean; latencyMs?: number; message?: string; clusterSize?: number };
         try {
           await db().query('SELECT 1');
           database = { ok: true, latencyMs: Date.now() - started };
+          const size = await galeraClusterSize();
+          if (size !== undefined) database.clusterSize = size;
         } catch (e) {
           database = { ok: false, message: (e as Error).message };
         }
