@@ -38,8 +38,11 @@ ensure_cluster_packages() {
 # system-wide option file applies, as --no-defaults does for scripts/start).
 cluster_node_config() {
   local dir="$1" i="$2" base="$3" n="$dir/node$2"
-  local members="" j
+  local members="" donors="" j
   for j in $(seq 1 $CLUSTER_NODES); do members="${members:+$members,}127.0.0.1:$((base + 10 + j))"; done
+  # A joiner takes its state from the last node first: node 2 is HAProxy's first backup and should keep
+  # serving (a mariadb-backup donor is briefly out of rotation); the trailing comma allows any other.
+  for j in $(seq $CLUSTER_NODES -1 1); do [ "$j" = "$i" ] || donors="${donors}node$j,"; done
   mkdir -p "$n/data"
   cat >"$n/my.cnf" <<CNF
 [mariadbd]
@@ -68,9 +71,10 @@ wsrep_cluster_address=gcomm://$members
 wsrep_node_name=node$i
 wsrep_node_address=127.0.0.1:$((base + 10 + i))
 wsrep_node_incoming_address=127.0.0.1:$((base + i))
-wsrep_provider_options="gmcast.listen_addr=tcp://127.0.0.1:$((base + 10 + i));ist.recv_addr=127.0.0.1:$((base + 20 + i));gcache.size=128M;pc.wait_prim_timeout=PT30S"
+wsrep_provider_options="gmcast.listen_addr=tcp://127.0.0.1:$((base + 10 + i));ist.recv_addr=127.0.0.1:$((base + 20 + i));gcache.size=128M;pc.wait_prim_timeout=PT30S;evs.suspect_timeout=PT3S;evs.inactive_timeout=PT6S"
 wsrep_sst_receive_address=127.0.0.1:$((base + 30 + i))
 wsrep_sst_method=mariabackup
+wsrep_sst_donor=$donors
 wsrep_sst_auth=$CLUSTER_SST_USER:$CLUSTER_SST_PASSWORD
 wsrep_slave_threads=2
 
@@ -106,11 +110,26 @@ cluster_node_status() { # cluster_node_status DIR I VARIABLE → value or nothin
   cluster_node_sql "$1" "$2" "SHOW GLOBAL STATUS LIKE '$3'" 2>/dev/null | awk '{print $2}'
 }
 
+# cluster_recovered_position DIR I: the last committed position (uuid:seqno) in node I's InnoDB, as
+# galera_recovery finds it (mariadbd --wsrep-recover); nothing when it cannot be read.
+cluster_recovered_position() {
+  local n="$1/node$2"
+  : >"$n/recover.log"
+  "$MARIADBD" --defaults-file="$n/my.cnf" --wsrep-recover --log-error="$n/recover.log" >/dev/null 2>&1 || true
+  grep -o 'WSREP: Recovered position: [^ ]*' "$n/recover.log" | tail -1 | sed 's/.*position: //'
+}
+
 # cluster_start_node DIR I [--wsrep-new-cluster]: starts node I as a child of this shell; sets NODE_PID[I].
+# After a crash (grastate.dat seqno -1) the position is recovered first, so the node asks for the
+# missing write-sets only (IST) instead of a full copy (SST).
 declare -A NODE_PID
 cluster_start_node() {
   local dir="$1" i="$2"; shift 2
-  "$MARIADBD" --defaults-file="$dir/node$i/my.cnf" "$@" >/dev/null 2>&1 &
+  local g="$dir/node$i/data/grastate.dat" pos=""
+  if [ -f "$g" ] && grep -q '^seqno: *-1' "$g" && [ -d "$dir/node$i/data/mysql" ]; then
+    pos=$(cluster_recovered_position "$dir" "$i")
+  fi
+  "$MARIADBD" --defaults-file="$dir/node$i/my.cnf" ${pos:+--wsrep-start-position="$pos"} "$@" >/dev/null 2>&1 &
   NODE_PID[$i]=$!
 }
 
@@ -205,6 +224,7 @@ SH
 
 # haproxy_config FILE DBDIR DBBASE HTTPPORT APPPORT…: SQL on DBBASE (node 1 active, 2 and 3 backups: one
 # writer at a time keeps certification conflicts rare), HTTP on HTTPPORT over the app processes.
+# DBBASE 0 leaves out the SQL part, HTTPPORT 0 the HTTP part (the tests run them as two HAProxies).
 haproxy_config() {
   local file="$1" dir="$2" base="$3" http="$4"; shift 4
   local check; check=$(cluster_check_script "$dir")
@@ -220,6 +240,9 @@ defaults
   timeout client 60s
   timeout server 60s
   timeout check 3s
+CFG
+    if [ "$base" != 0 ]; then
+    cat <<CFG
 
 frontend sql
   mode tcp
@@ -237,6 +260,8 @@ CFG
     for i in $(seq 1 $CLUSTER_NODES); do
       printf '  server node%s 127.0.0.1:%s check%s\n' "$i" $((base + i)) "$([ "$i" = 1 ] || echo ' backup')"
     done
+    fi
+    [ "$http" != 0 ] || return 0
     cat <<CFG
 
 frontend web
@@ -250,10 +275,23 @@ backend app
   balance roundrobin
   option httpchk GET /api/health
   http-check expect status 200
+  # A request that never reached a process goes to the other one; one whose process died before
+  # answering gets a 503 (below), never a second try (a write may have been done).
   retry-on conn-failure
   option redispatch
   retries 2
-  default-server inter 1s fall 2 rise 2
+  # A fresh connection to a process for each request: when a reused idle connection turns out dead,
+  # HAProxy closes the client's connection without an answer (for the client to retry), which is no
+  # clean refusal.
+  http-reuse never
+  # When no process can answer: a clean 503 with Retry-After, as the app itself answers while its database
+  # is away (a write cut off by a dying process is one to check and try again, like a 503).
+  http-error status 502 content-type application/json string '{"error":{"code":"service_unavailable","message":"Plenum did not answer; the change may not have been made. Check, then try again."}}'
+  http-error status 503 content-type application/json string '{"error":{"code":"service_unavailable","message":"Plenum is not reachable just now; nothing was changed. Try again in a moment."}}'
+  http-error status 504 content-type application/json string '{"error":{"code":"service_unavailable","message":"Plenum did not answer in time; the change may not have been made. Check, then try again."}}'
+  http-after-response set-status 503 if { status 502 } || { status 504 }
+  http-after-response set-header Retry-After 5 if { status 503 } !{ res.hdr(retry-after) -m found }
+  default-server inter 1s fall 2 rise 1
 CFG
     local n=1 p
     for p in "$@"; do printf '  server app%s 127.0.0.1:%s check\n' "$n" "$p"; n=$((n + 1)); done
