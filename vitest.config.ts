@@ -36,6 +36,18 @@ export default defineConfig({
       {
         resolve: { alias },
         test: {
+          name: 'cluster',
+          include: ['tests/cluster/**/*.test.ts'],
+          environment: 'node',
+          fileParallelism: false,
+          testTimeout: 150_000,
+          hookTimeout: 150_000,
+          globalSetup: ['tests/integration/global-setup.ts'],
+        },
+      },
+      {
+        resolve: { alias },
+        test: {
           name: 'e2e',
           include: ['tests/e2e/**/*.test.ts'],
           environment: 'node',

@@ -4,6 +4,20 @@ import { Organisation } from '../../db/entities/organisation.entity';
 import { mailStatus } from '../../mail/mailer';
 
 /**
+ * The Galera `wsrep_cluster_size` seen by the node this process is connected to; undefined on a single
+ * server (no wsrep status) or when the status cannot be read.
+ */
+async function galeraClusterSize(): Promise<number | undefined> {
+  try {
+    const rows = (await db().query("SHOW GLOBAL STATUS LIKE 'wsrep_cluster_size'")) as { Value?: string }[];
+    const n = Number(rows[0]?.Value);
+    return Number.isInteger(n) && n > 0 ? n : undefined;
+  } catch {
+    return undefined;
+  }
+}
+
+/**
  * GET /api/health: database and mail status; 503 while the database is unreachable or the app cannot
  * read through its data layer. Besides `SELECT 1` it reads one row through a TypeORM repository, the
  * path every screen takes: a process whose shared objects were corrupted (a polluted prototype makes
@@ -17,12 +31,14 @@ export function healthRoutes(): RouteDef[] {
       access: 'public',
       handler: async (_req, res) => {
         const started = Date.now();
-        let database: { ok: boolean; latencyMs?: number; message?: string };
+        let database: { ok: boolean; latencyMs?: number; message?: string; clusterSize?: number };
         try {
           await db().query('SELECT 1');
           try {
             await readThroughRepository();
             database = { ok: true, latencyMs: Date.now() - started };
+            const size = await galeraClusterSize();
+            if (size !== undefined) database.clusterSize = size;
           } catch (e) {
             database = { ok: false, message: `the database answers, but the app cannot read through its data layer: ${(e as Error).message}` };
           }
