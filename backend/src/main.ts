@@ -40,6 +40,11 @@ const server: Server = app.listen(e.PORT, e.HOST, (err?: Error) => {
   }
   logger.info(`Plenum listening on http://${e.HOST}:${e.PORT}`);
 });
+// Idle keep-alive connections stay open longer than a load balancer's or client's idle timeout (HAProxy,
+// undici and browsers reuse them for up to a minute): otherwise the server may close a connection just as
+// a request arrives on it, and that request gets no answer at all (seen under load as "other side closed").
+server.keepAliveTimeout = 65_000;
+server.headersTimeout = 66_000;
 const jobs: OrderJobs | undefined = e.JOBS_ENABLED ? startOrderJobs() : undefined;
 
 // Background work of uploads and usage reports (outside createApp, so tests start their own).

@@ -232,8 +232,11 @@ describe('an app process dies under load', () => {
     const outcomes = l.outcomes;
     // A request the killed process was serving at that moment has its connection cut (HAProxy cannot
     // answer for it, and must not send it again: it may have been done). Every other one is clean.
-    const cut = (o: Outcome) => o.status === 'no answer' && o.sent <= killedAt && o.at < killedAt + 2_000;
-    expect(outcomes.filter((o) => !clean(o) && !cut(o)).map(show)).toEqual([]);
+    // "At that moment" includes the few milliseconds between kill() returning and the process being gone:
+    // HAProxy may have forwarded a request sent just then to the dying process.
+    const cut = (o: Outcome) => o.status === 'no answer' && o.sent <= killedAt + 100 && o.at < killedAt + 2_000;
+    const atKill = (o: Outcome) => `${show(o)} (sent ${o.sent - killedAt} ms, ended ${o.at - killedAt} ms after the kill)`;
+    expect(outcomes.filter((o) => !clean(o) && !cut(o)).map(atKill)).toEqual([]);
     expect(outcomes.filter(cut).length).toBeLessThanOrEqual(clients.length);
     const f = failover(outcomes, killedAt);
     expect(f.ms).toBeLessThan(RECOVERY_LIMIT_MS);
