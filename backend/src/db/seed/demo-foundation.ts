@@ -29,7 +29,7 @@ export interface FoundationIds {
 }
 
 /** Cylinder types of the demo catalogue, by water capacity and fill pressure (key → row). */
-const CYLINDER_TYPES: Record<string, Partial<CylinderType>> = {
+export const CYLINDER_TYPES: Record<string, Partial<CylinderType>> = {
   'O2-1.2-230': { gasCode: 'O2', waterCapacityL: 1.2, fillPressureBar: 230, material: 'aluminium', valveNotes: 'integral valve with flow selector and contents gauge' },
   'O2-2-230': { gasCode: 'O2', waterCapacityL: 2, fillPressureBar: 230, material: 'aluminium', valveNotes: 'integral valve with flow selector and contents gauge' },
   'O2-10-200': { gasCode: 'O2', waterCapacityL: 10, fillPressureBar: 200, material: 'steel', valveNotes: 'integral valve; manifold and ward use' },

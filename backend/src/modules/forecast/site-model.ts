@@ -23,6 +23,20 @@ export interface SiteModel {
 
 const RECENT_DAYS = 21;
 
+/**
+ * The newest reading of each source: one backward step of ix_reading_source_time per source, then the
+ * rows by primary key. (Filtering every reading of the sources by a correlated "is it the newest"
+ * subquery reads all of their history: two years of hourly telemetry per tank at scale.)
+ */
+async function latestReadings(sourceIds: number[]): Promise<SourceReading[]> {
+  const rows: { id: number | string | null }[] = await db().query(
+    'SELECT (SELECT r.id FROM source_reading r WHERE r.source_id = s.id ORDER BY r.taken_at DESC, r.id DESC LIMIT 1) AS id FROM supply_source s WHERE s.id IN (?)',
+    [sourceIds],
+  );
+  const ids = rows.filter((r) => r.id !== null).map((r) => Number(r.id));
+  return ids.length ? db().getRepository(SourceReading).find({ where: { id: In(ids) } }) : [];
+}
+
 export async function loadSiteModels(siteIds: number[], organisationId: number): Promise<SiteModel[]> {
   if (siteIds.length === 0) return [];
   const ds = db();
@@ -43,14 +57,7 @@ export async function loadSiteModels(siteIds: number[], organisationId: number):
     wardIds.length ? ds.getRepository(WardFeed).find({ where: { wardId: In(wardIds) } }) : Promise.resolve([]),
     wardIds.length ? ds.getRepository(TherapyLineRow).find({ where: { wardId: In(wardIds) }, order: { id: 'ASC' } }) : Promise.resolve([]),
     sourceIds.length ? ds.getRepository(ScheduledDelivery).find({ where: { sourceId: In(sourceIds), status: 'scheduled' }, order: { dueAt: 'ASC' } }) : Promise.resolve([]),
-    sourceIds.length
-      ? ds
-          .getRepository(SourceReading)
-          .createQueryBuilder('r')
-          .where('r.source_id IN (:...ids)', { ids: sourceIds })
-          .andWhere('r.id = (SELECT r2.id FROM source_reading r2 WHERE r2.source_id = r.source_id ORDER BY r2.taken_at DESC, r2.id DESC LIMIT 1)')
-          .getMany()
-      : Promise.resolve([]),
+    sourceIds.length ? latestReadings(sourceIds) : Promise.resolve([]),
     sourceIds.length
       ? ds
           .getRepository(SourceReading)
