@@ -59,7 +59,12 @@ describe('productionDependencies', () => {
       'node_modules/a': { version: '1.0.0', license: 'MIT', dependencies: { b: '^2' } },
       'node_modules/a/node_modules/b': { version: '2.1.0', license: 'ISC' },
       'node_modules/b': { version: '1.5.0', license: 'MIT' },
-      'node_modules/c': { version: '3.0.0', optionalDependencies: { 'c-win32': '3.0.0' }, peerDependencies: { p: '*', q: '*' }, peerDependenciesMeta: { q: { optional: true } } },
+      'node_modules/c': {
+        version: '3.0.0',
+        optionalDependencies: { 'c-win32': '3.0.0' },
+        peerDependencies: { p: '*', q: '*' },
+        peerDependenciesMeta: { q: { optional: true } },
+      },
       'node_modules/p': { version: '0.1.0', license: 'Apache-2.0' },
       'node_modules/q': { version: '0.2.0', license: 'MIT' },
       'node_modules/d': { version: '4.0.0', license: 'MIT', dependencies: { b: '^1', q: '*' } },
@@ -86,7 +91,9 @@ describe('productionDependencies', () => {
 
   it('renders one package per line, so adding one is a one-line diff', () => {
     const before = renderList(productionDependencies(lock, read));
-    const withNew: Lock = { packages: { ...lock.packages, '': { dependencies: { a: '1.0.0', c: '3.0.0', n: '9.0.0' } }, 'node_modules/n': { version: '9.0.0', license: 'MIT' } } };
+    const withNew: Lock = {
+      packages: { ...lock.packages, '': { dependencies: { a: '1.0.0', c: '3.0.0', n: '9.0.0' } }, 'node_modules/n': { version: '9.0.0', license: 'MIT' } },
+    };
     const after = renderList(productionDependencies(withNew, read));
     expect(lineDiff(before, after)).toEqual([
       '- "count": 4',

@@ -74,7 +74,8 @@ export function readInstalledPackageJson(lockPath: string): unknown {
  * is an error, since the lock file would then be incomplete.
  */
 export function productionDependencies(lock: Lock, readPackageJson: (lockPath: string) => unknown = readInstalledPackageJson): DependencyEntry[] {
-  if (!lock.packages || !Object.hasOwn(lock.packages, '')) throw new Error('package-lock.json has no "packages" section with the root package: regenerate it with npm 7 or later');
+  if (!lock.packages || !Object.hasOwn(lock.packages, ''))
+    throw new Error('package-lock.json has no "packages" section with the root package: regenerate it with npm 7 or later');
   const root = lock.packages[''];
   const direct = new Set(Object.keys(root.dependencies ?? {}));
   const seen = new Set<string>();
@@ -116,7 +117,10 @@ export function productionDependencies(lock: Lock, readPackageJson: (lockPath: s
 export function renderList(entries: DependencyEntry[]): string {
   const licences = new Map<string, number>();
   for (const e of entries) licences.set(e.license, (licences.get(e.license) ?? 0) + 1);
-  const summary = [...licences].sort((a, b) => b[1] - a[1] || (a[0] < b[0] ? -1 : 1)).map(([l, n]) => `${l}: ${n}`).join(', ');
+  const summary = [...licences]
+    .sort((a, b) => b[1] - a[1] || (a[0] < b[0] ? -1 : 1))
+    .map(([l, n]) => `${l}: ${n}`)
+    .join(', ');
   const lines = entries.map((e) => `    ${JSON.stringify(e)}`);
   return [
     '{',

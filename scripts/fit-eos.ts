@@ -20,7 +20,15 @@
  */
 import { writeFileSync } from 'node:fs';
 import { fileURLToPath } from 'node:url';
-import { REFERENCE_EOS, referenceAlphaR, referenceAlphaRDelta, referenceGasDensityMolM3, referencePressurePa, referenceZ, type ReferenceEos } from '../common/src/gas/reference-eos';
+import {
+  REFERENCE_EOS,
+  referenceAlphaR,
+  referenceAlphaRDelta,
+  referenceGasDensityMolM3,
+  referencePressurePa,
+  referenceZ,
+  type ReferenceEos,
+} from '../common/src/gas/reference-eos';
 import { saturatedVapourDensityKgM3 } from '../common/src/gas/saturation';
 import type { PureGasCode } from '../common/src/gas/gases';
 
@@ -42,15 +50,33 @@ interface Sample {
 
 // Span & Wagner (2003) exponent sets
 const SW_NONPOLAR: Term[] = [
-  { d: 1, t: 0.25, l: 0 }, { d: 1, t: 1.125, l: 0 }, { d: 1, t: 1.5, l: 0 }, { d: 2, t: 1.375, l: 0 },
-  { d: 3, t: 0.25, l: 0 }, { d: 7, t: 0.875, l: 0 }, { d: 2, t: 0.625, l: 1 }, { d: 5, t: 1.75, l: 1 },
-  { d: 1, t: 3.625, l: 2 }, { d: 4, t: 3.625, l: 2 }, { d: 3, t: 14.5, l: 3 }, { d: 4, t: 12, l: 3 },
+  { d: 1, t: 0.25, l: 0 },
+  { d: 1, t: 1.125, l: 0 },
+  { d: 1, t: 1.5, l: 0 },
+  { d: 2, t: 1.375, l: 0 },
+  { d: 3, t: 0.25, l: 0 },
+  { d: 7, t: 0.875, l: 0 },
+  { d: 2, t: 0.625, l: 1 },
+  { d: 5, t: 1.75, l: 1 },
+  { d: 1, t: 3.625, l: 2 },
+  { d: 4, t: 3.625, l: 2 },
+  { d: 3, t: 14.5, l: 3 },
+  { d: 4, t: 12, l: 3 },
 ];
 
 const SW_POLAR: Term[] = [
-  { d: 1, t: 0.25, l: 0 }, { d: 1, t: 1.25, l: 0 }, { d: 1, t: 1.5, l: 0 }, { d: 3, t: 0.25, l: 0 },
-  { d: 7, t: 0.875, l: 0 }, { d: 1, t: 2.375, l: 1 }, { d: 2, t: 2, l: 1 }, { d: 5, t: 2.125, l: 1 },
-  { d: 1, t: 3.5, l: 2 }, { d: 1, t: 6.5, l: 2 }, { d: 4, t: 4.75, l: 2 }, { d: 2, t: 12.5, l: 3 },
+  { d: 1, t: 0.25, l: 0 },
+  { d: 1, t: 1.25, l: 0 },
+  { d: 1, t: 1.5, l: 0 },
+  { d: 3, t: 0.25, l: 0 },
+  { d: 7, t: 0.875, l: 0 },
+  { d: 1, t: 2.375, l: 1 },
+  { d: 2, t: 2, l: 1 },
+  { d: 5, t: 2.125, l: 1 },
+  { d: 1, t: 3.5, l: 2 },
+  { d: 1, t: 6.5, l: 2 },
+  { d: 4, t: 4.75, l: 2 },
+  { d: 2, t: 12.5, l: 3 },
 ];
 
 const FIT_MIN_T = 195;
@@ -328,7 +354,11 @@ async function validateAgainstSharedTable(): Promise<void> {
   const { readFileSync } = await import('node:fs');
   const { compressibility } = await import('../common/src/gas/eos');
   const text = readFileSync(new URL('../tests/reference/z-grid.csv', import.meta.url), 'utf8');
-  const rows = text.trim().split(/\r?\n/).slice(1).map((l) => l.split(','));
+  const rows = text
+    .trim()
+    .split(/\r?\n/)
+    .slice(1)
+    .map((l) => l.split(','));
   const worst = new Map<string, { z: number; rho: number; n: number; method: string }>();
   for (const [gas, t, p, z, rho] of rows) {
     if (gas === 'CH4') continue;
@@ -372,7 +402,13 @@ async function main(): Promise<void> {
 
 function writeCoefficients(models: FittedModel[]): void {
   const target = fileURLToPath(new URL('../common/src/gas/coefficients.ts', import.meta.url));
-  const fmt = (v: number) => (Number.isInteger(v) ? String(v) : v.toPrecision(17).replace(/0+(e|$)/, '$1').replace(/\.(e|$)/, '$1'));
+  const fmt = (v: number) =>
+    Number.isInteger(v)
+      ? String(v)
+      : v
+          .toPrecision(17)
+          .replace(/0+(e|$)/, '$1')
+          .replace(/\.(e|$)/, '$1');
   const blocks = models.map((m) => {
     const eos = REFERENCE_EOS[m.gas];
     return `  ${m.gas}: {

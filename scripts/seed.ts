@@ -24,7 +24,8 @@ try {
   }
   if (values['telemetry-days'] !== undefined) {
     const n = Number(values['telemetry-days']);
-    if (!/^\d+$/.test(values['telemetry-days']) || !Number.isInteger(n) || n < 1 || n > 730) throw new Error(`--telemetry-days must be a whole number from 1 to 730, not "${values['telemetry-days']}"`);
+    if (!/^\d+$/.test(values['telemetry-days']) || !Number.isInteger(n) || n < 1 || n > 730)
+      throw new Error(`--telemetry-days must be a whole number from 1 to 730, not "${values['telemetry-days']}"`);
     if (scale !== 'health-system') throw new Error('--telemetry-days applies to --scale health-system only');
     telemetryDays = n;
   }

@@ -98,7 +98,13 @@ export async function createApp(): Promise<AppHandle> {
   app.use('/api', (_req: Request, _res: Response, next: NextFunction) => next(notFound('API route')));
 
   if (e.SERVE_FRONTEND && existsSync(path.join(distDir, 'index.html'))) {
-    app.use(express.static(distDir, { index: false, maxAge: '1h', setHeaders: (res, file) => file.includes(`${path.sep}assets${path.sep}`) && res.setHeader('Cache-Control', 'public, max-age=31536000, immutable') }));
+    app.use(
+      express.static(distDir, {
+        index: false,
+        maxAge: '1h',
+        setHeaders: (res, file) => file.includes(`${path.sep}assets${path.sep}`) && res.setHeader('Cache-Control', 'public, max-age=31536000, immutable'),
+      }),
+    );
     app.get('/{*splat}', (_req: Request, res: Response) => {
       res.setHeader('Cache-Control', 'no-cache');
       res.sendFile(path.join(distDir, 'index.html'));

@@ -19,5 +19,20 @@ import { importRoutes } from './modules/imports/imports.routes';
  * and the role-matrix test reads the same list, so a new route cannot escape the matrix.
  */
 export function routeTable(): RouteDef[] {
-  return [...healthRoutes(), ...authRoutes(), ...siteRoutes(), ...userRoutes(), ...catalogueRoutes(), ...auditRoutes(), ...mailRoutes(), ...calcRoutes(), ...supplyRoutes(), ...forecastRoutes(), ...capacityRoutes(), ...orderRoutes(), ...usageRoutes(), ...importRoutes()];
+  return [
+    ...healthRoutes(),
+    ...authRoutes(),
+    ...siteRoutes(),
+    ...userRoutes(),
+    ...catalogueRoutes(),
+    ...auditRoutes(),
+    ...mailRoutes(),
+    ...calcRoutes(),
+    ...supplyRoutes(),
+    ...forecastRoutes(),
+    ...capacityRoutes(),
+    ...orderRoutes(),
+    ...usageRoutes(),
+    ...importRoutes(),
+  ];
 }

@@ -19,7 +19,10 @@ const kb = (bytes: number) => bytes / 1024;
 export async function run(): Promise<void> {
   const out = mkdtempSync(path.join(os.tmpdir(), 'plenum-bundle-'));
   try {
-    execFileSync(process.execPath, [path.join(root, 'node_modules/vite/bin/vite.js'), 'build', '--outDir', out, '--emptyOutDir', '--logLevel', 'error'], { cwd: root, stdio: ['ignore', 'ignore', 'inherit'] });
+    execFileSync(process.execPath, [path.join(root, 'node_modules/vite/bin/vite.js'), 'build', '--outDir', out, '--emptyOutDir', '--logLevel', 'error'], {
+      cwd: root,
+      stdio: ['ignore', 'ignore', 'inherit'],
+    });
     const html = readFileSync(path.join(out, 'index.html'), 'utf8');
     const initial = new Set<string>();
     for (const m of html.matchAll(/<script[^>]*type="module"[^>]*src="([^"]+)"/g)) initial.add(m[1]);
@@ -31,7 +34,9 @@ export async function run(): Promise<void> {
     });
     const gz = files.reduce((a, f) => a + f.gzKb, 0);
     const raw = files.reduce((a, f) => a + f.rawKb, 0);
-    console.log(`bundle_initial_js_gzip: ${gz.toFixed(1)} KB in ${files.length} file(s), ${raw.toFixed(0)} KB before gzip (target ≤ ${TARGET_KB} KB; ratio ${(gz / TARGET_KB).toFixed(2)} of target)`);
+    console.log(
+      `bundle_initial_js_gzip: ${gz.toFixed(1)} KB in ${files.length} file(s), ${raw.toFixed(0)} KB before gzip (target ≤ ${TARGET_KB} KB; ratio ${(gz / TARGET_KB).toFixed(2)} of target)`,
+    );
     for (const f of files.sort((a, b) => b.gzKb - a.gzKb)) console.log(`bundle_initial_file: ${f.src} ${f.gzKb.toFixed(1)} KB gzip (${f.rawKb.toFixed(0)} KB)`);
     // The rest loads on demand: the largest lazy chunks say where a screen's weight is.
     const assets = path.join(out, 'assets');
@@ -39,10 +44,12 @@ export async function run(): Promise<void> {
       .filter((f) => f.endsWith('.js') && !initial.has(`/assets/${f}`))
       .map((f) => ({ f, gzKb: kb(gzipSync(readFileSync(path.join(assets, f)), { level: 9 }).length), rawKb: kb(statSync(path.join(assets, f)).size) }))
       .sort((a, b) => b.gzKb - a.gzKb);
-    console.log(`bundle_lazy_chunks: ${lazy.length} chunks, ${lazy.reduce((a, c) => a + c.gzKb, 0).toFixed(1)} KB gzip in all; largest ${lazy
-      .slice(0, 3)
-      .map((c) => `${c.f} ${c.gzKb.toFixed(1)} KB`)
-      .join(', ')}`);
+    console.log(
+      `bundle_lazy_chunks: ${lazy.length} chunks, ${lazy.reduce((a, c) => a + c.gzKb, 0).toFixed(1)} KB gzip in all; largest ${lazy
+        .slice(0, 3)
+        .map((c) => `${c.f} ${c.gzKb.toFixed(1)} KB`)
+        .join(', ')}`,
+    );
   } finally {
     rmSync(out, { recursive: true, force: true });
   }

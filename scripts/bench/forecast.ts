@@ -115,7 +115,8 @@ function prepareFloor(inputs: ForecastInput[]): FloorSource[] {
       };
     }
     if (src.type !== 'cylinders') throw new Error('unexpected source');
-    const contents = (g: number) => compressedContents({ gas: src.gas, waterCapacityL: src.water_capacity_L, gaugeBar: g, temperatureC: src.fill_temperature_C }).freeGasL;
+    const contents = (g: number) =>
+      compressedContents({ gas: src.gas, waterCapacityL: src.water_capacity_L, gaugeBar: g, temperatureC: src.fill_temperature_C }).freeGasL;
     const per = contents(src.fill_gauge_bar);
     const rule = src.reorder_level_cylinders !== undefined;
     return {
@@ -151,7 +152,15 @@ function floorProfile(lines: DemandLine[], p: Float64Array): Float64Array {
  * The bare recurrence: delivery, order-up-to reorder, max(demand × day multiplier, boil-off). Returns the
  * hour count at the first empty (or H) when `stopAtEmpty`, else the final contents.
  */
-function floorRun(s: FloorSource, demand: Float64Array, H: number, series: Float64Array | null, mult: Float64Array | null, dayOfRun: Uint16Array, stopAtEmpty: boolean): number {
+function floorRun(
+  s: FloorSource,
+  demand: Float64Array,
+  H: number,
+  series: Float64Array | null,
+  mult: Float64Array | null,
+  dayOfRun: Uint16Array,
+  stopAtEmpty: boolean,
+): number {
   let c = s.contents;
   let last = c;
   let arrival = -1;

@@ -72,7 +72,11 @@ export async function run(): Promise<void> {
   const fmt = (x: number) => Math.round(x).toLocaleString('en-GB');
   const f = median(full);
   const p = median(pr);
-  console.log(`gas Z(T,p) via compressibility(): ${fmt(f)} evaluations/s (target ≥ 500,000; median of ${rounds} rounds, best ${fmt(Math.max(...full))}; ${states.length} mixed states of all ten gases, one core)`);
+  console.log(
+    `gas Z(T,p) via compressibility(): ${fmt(f)} evaluations/s (target ≥ 500,000; median of ${rounds} rounds, best ${fmt(Math.max(...full))}; ${states.length} mixed states of all ten gases, one core)`,
+  );
   console.log(`gas Z(T,p) via compressibilityFactor(): ${fmt(median(zOnly))} evaluations/s`);
-  console.log(`gas Peng–Robinson 1976 Z(T,p): ${fmt(p)} evaluations/s (ratio Helmholtz/PR ${(f / p).toFixed(2)}: the Helmholtz engine takes ${(p / f).toFixed(1)}× the time of a closed-form PR cubic, and PR is 3–6 % off Z)`);
+  console.log(
+    `gas Peng–Robinson 1976 Z(T,p): ${fmt(p)} evaluations/s (ratio Helmholtz/PR ${(f / p).toFixed(2)}: the Helmholtz engine takes ${(p / f).toFixed(1)}× the time of a closed-form PR cubic, and PR is 3–6 % off Z)`,
+  );
 }

@@ -33,7 +33,15 @@ async function writeFiles(dir: string, rows: number, sourceId: number, userId: n
   const a = createWriteStream(csv);
   const b = createWriteStream(tsv);
   a.write('time,level,unit\n');
-  const fmtLocal = new Intl.DateTimeFormat('sv-SE', { timeZone: ZONE, year: 'numeric', month: '2-digit', day: '2-digit', hour: '2-digit', minute: '2-digit', hourCycle: 'h23' });
+  const fmtLocal = new Intl.DateTimeFormat('sv-SE', {
+    timeZone: ZONE,
+    year: 'numeric',
+    month: '2-digit',
+    day: '2-digit',
+    hour: '2-digit',
+    minute: '2-digit',
+    hourCycle: 'h23',
+  });
   const end = Math.floor(Date.now() / 3_600_000) * 3_600_000 - 24 * 3_600_000;
   const start = end - rows * 60_000;
   let bufA = '';
@@ -45,7 +53,10 @@ async function writeFiles(dir: string, rows: number, sourceId: number, userId: n
     const h = Math.floor(t / 3_600_000);
     if (h !== hourKey) {
       hourKey = h;
-      hourLocal = fmtLocal.format(new Date(h * 3_600_000)).replace(' ', 'T').slice(0, 14);
+      hourLocal = fmtLocal
+        .format(new Date(h * 3_600_000))
+        .replace(' ', 'T')
+        .slice(0, 14);
     }
     const minute = String(Math.floor((t % 3_600_000) / 60_000)).padStart(2, '0');
     const level = Math.round((55 + 30 * Math.sin(i / 4000) + ((i * 7919) % 13) / 10) * 10) / 10;
@@ -69,7 +80,19 @@ export async function run(): Promise<void> {
   const work = path.join(db.dir, 'files');
   try {
     const { parseEnv, setEnv } = await import('../../backend/src/config/env');
-    setEnv(parseEnv({ ...process.env, NODE_ENV: 'test', DB_PORT: String(db.port), DB_NAME: 'plenum_bench', DB_USER: 'plenum_bench', DB_PASSWORD: 'plenum-bench', LOG_LEVEL: 'error', UPLOAD_MAX_MB: '500', UPLOAD_DIR: work }));
+    setEnv(
+      parseEnv({
+        ...process.env,
+        NODE_ENV: 'test',
+        DB_PORT: String(db.port),
+        DB_NAME: 'plenum_bench',
+        DB_USER: 'plenum_bench',
+        DB_PASSWORD: 'plenum-bench',
+        LOG_LEVEL: 'error',
+        UPLOAD_MAX_MB: '500',
+        UPLOAD_DIR: work,
+      }),
+    );
     const { logger } = await import('../../backend/src/logger');
     logger.setLevel('error');
     const { createDataSource } = await import('../../backend/src/db/data-source');
@@ -87,18 +110,81 @@ export async function run(): Promise<void> {
     await mkdir(work, { recursive: true });
 
     const org = await ds.getRepository(Organisation).save({ name: 'Bench organisation' });
-    const site = await ds.getRepository(Site).save(ds.getRepository(Site).create({ organisationId: org.id, name: 'Bench site', kind: 'hospital', address: '', timeZone: ZONE, referenceCode: '15C', unitSystem: 'metric', altitudeM: 0, atmosphericBar: 1.01325, currency: 'GBP', cylinderColours: 'ISO32', storeTemperatureC: 15, beds: 100 }));
-    const user = await ds.getRepository(User).save(ds.getRepository(User).create({ organisationId: org.id, email: 'bench@bench.example', name: 'Bench', passwordHash: 'x', active: true, failedLogins: 0, lockedUntil: null, passwordChangedAt: null }));
-    const tank = await ds.getRepository(SupplySource).save(ds.getRepository(SupplySource).create({ siteId: site.id, name: 'Bench tank', type: 'bulk_liquid', gasCode: 'O2', capacityKg: CAPACITY_KG, evaporationPercentPerDay: 0.3, reorderMode: 'none', forecastBasis: 'model', modelCorrectionFactor: 1, notes: '', active: true }));
+    const site = await ds.getRepository(Site).save(
+      ds.getRepository(Site).create({
+        organisationId: org.id,
+        name: 'Bench site',
+        kind: 'hospital',
+        address: '',
+        timeZone: ZONE,
+        referenceCode: '15C',
+        unitSystem: 'metric',
+        altitudeM: 0,
+        atmosphericBar: 1.01325,
+        currency: 'GBP',
+        cylinderColours: 'ISO32',
+        storeTemperatureC: 15,
+        beds: 100,
+      }),
+    );
+    const user = await ds.getRepository(User).save(
+      ds.getRepository(User).create({
+        organisationId: org.id,
+        email: 'bench@bench.example',
+        name: 'Bench',
+        passwordHash: 'x',
+        active: true,
+        failedLogins: 0,
+        lockedUntil: null,
+        passwordChangedAt: null,
+      }),
+    );
+    const tank = await ds.getRepository(SupplySource).save(
+      ds.getRepository(SupplySource).create({
+        siteId: site.id,
+        name: 'Bench tank',
+        type: 'bulk_liquid',
+        gasCode: 'O2',
+        capacityKg: CAPACITY_KG,
+        evaporationPercentPerDay: 0.3,
+        reorderMode: 'none',
+        forecastBasis: 'model',
+        modelCorrectionFactor: 1,
+        notes: '',
+        active: true,
+      }),
+    );
     const count = async () => Number(((await ds.query('SELECT COUNT(*) AS n FROM source_reading')) as { n: string }[])[0].n);
 
     /** One upload through the product path, in a child process (its peak RSS is the upload's own). */
     function upload(file: string, rows: number): { checkS: number; importS: number; importCpuS: number; maxRssMb: number; rssAtStartMb: number } {
-      const out = spawnSync(process.execPath, [...IMPORT_WORKER_NODE_FLAGS, ...(process.env.PLENUM_BENCH_CHILD_FLAGS ?? '').split(' ').filter(Boolean), '--import', 'tsx', fileURLToPath(new URL('./lib/import-child.ts', import.meta.url))], {
-        env: { ...process.env, PLENUM_BENCH_IMPORT: JSON.stringify({ port: db.port, file, rows, siteId: site.id, sourceId: tank.id, userId: user.id, organisationId: org.id, uploadDir: work }) },
-        encoding: 'utf8',
-        maxBuffer: 1 << 24,
-      });
+      const out = spawnSync(
+        process.execPath,
+        [
+          ...IMPORT_WORKER_NODE_FLAGS,
+          ...(process.env.PLENUM_BENCH_CHILD_FLAGS ?? '').split(' ').filter(Boolean),
+          '--import',
+          'tsx',
+          fileURLToPath(new URL('./lib/import-child.ts', import.meta.url)),
+        ],
+        {
+          env: {
+            ...process.env,
+            PLENUM_BENCH_IMPORT: JSON.stringify({
+              port: db.port,
+              file,
+              rows,
+              siteId: site.id,
+              sourceId: tank.id,
+              userId: user.id,
+              organisationId: org.id,
+              uploadDir: work,
+            }),
+          },
+          encoding: 'utf8',
+          maxBuffer: 1 << 24,
+        },
+      );
       if (out.status !== 0) throw new Error(`upload process failed: ${out.stderr.slice(-2000)}`);
       return JSON.parse(out.stdout.trim().split('\n').pop()!);
     }
@@ -116,10 +202,19 @@ export async function run(): Promise<void> {
     // packet the size of the file: raised on this private server only.
     await ds.query('SET GLOBAL max_allowed_packet = 1073741824');
     const loadData = async (): Promise<number> => {
-      const conn = await mariadb.createConnection({ host: '127.0.0.1', port: db.port, user: 'plenum_bench', password: 'plenum-bench', database: 'plenum_bench', permitLocalInfile: true });
+      const conn = await mariadb.createConnection({
+        host: '127.0.0.1',
+        port: db.port,
+        user: 'plenum_bench',
+        password: 'plenum-bench',
+        database: 'plenum_bench',
+        permitLocalInfile: true,
+      });
       try {
         const l0 = performance.now();
-        await conn.query(`LOAD DATA LOCAL INFILE '${big.tsv}' INTO TABLE source_reading FIELDS TERMINATED BY '\\t' LINES TERMINATED BY '\\n' (source_id, taken_at, kind, value, detail_json, contents, method, taken_by_user_id, note)`);
+        await conn.query(
+          `LOAD DATA LOCAL INFILE '${big.tsv}' INTO TABLE source_reading FIELDS TERMINATED BY '\\t' LINES TERMINATED BY '\\n' (source_id, taken_at, kind, value, detail_json, contents, method, taken_by_user_id, note)`,
+        );
         return (performance.now() - l0) / 1000;
       } finally {
         await conn.end();
@@ -140,15 +235,29 @@ export async function run(): Promise<void> {
       await ds.query('TRUNCATE TABLE source_reading');
       await ds.query('DELETE FROM import_job');
       await ds.query('DELETE FROM import_file');
-      r = { checkS: Math.min(r.checkS, u.checkS), importS: Math.min(r.importS, u.importS), importCpuS: Math.min(r.importCpuS, u.importCpuS), maxRssMb: Math.max(r.maxRssMb, u.maxRssMb), rssAtStartMb: u.rssAtStartMb };
+      r = {
+        checkS: Math.min(r.checkS, u.checkS),
+        importS: Math.min(r.importS, u.importS),
+        importCpuS: Math.min(r.importCpuS, u.importCpuS),
+        maxRssMb: Math.max(r.maxRssMb, u.maxRssMb),
+        rssAtStartMb: u.rssAtStartMb,
+      };
     }
 
     const importRate = ROWS / r.importS;
     const loadRate = ROWS / loadS;
-    console.log(`import rows per second: ${fmt(importRate)} rows/s (${fmt(ROWS)} rows of 1-minute telemetry in ${r.importS.toFixed(1)} s, best of 2, ${r.importCpuS.toFixed(1)} s of it on the app's CPU; one transaction, batch() of ${fmt(Number(process.env.IMPORT_BATCH_ROWS ?? 5000))} rows with constant columns inlined; LOAD DATA LOCAL INFILE of the same rows: ${fmt(loadRate)} rows/s in ${loadS.toFixed(1)} s, best of 2; ratio ${(importRate / loadRate).toFixed(2)}; target ≥ 0.5)`);
-    console.log(`import check pass: ${fmt(ROWS / r.checkS)} rows/s (${r.checkS.toFixed(1)} s to read, convert and check every row and look for repeats before anything is written)`);
-    console.log(`import upload end to end: ${fmt(ROWS / (r.checkS + r.importS))} rows/s (check + import, ${(r.checkS + r.importS).toFixed(1)} s; ratio to LOAD DATA ${((ROWS / (r.checkS + r.importS)) / loadRate).toFixed(2)})`);
-    console.log(`import peak memory: ${r.maxRssMb.toFixed(0)} MB peak RSS of the upload process for ${fmt(ROWS)} rows (target < 300 MB and flat; ${s.maxRssMb.toFixed(0)} MB for ${fmt(SMALL)} rows; ${r.rssAtStartMb.toFixed(0)} MB before the upload; ${os.cpus().length} cores, shared)`);
+    console.log(
+      `import rows per second: ${fmt(importRate)} rows/s (${fmt(ROWS)} rows of 1-minute telemetry in ${r.importS.toFixed(1)} s, best of 2, ${r.importCpuS.toFixed(1)} s of it on the app's CPU; one transaction, batch() of ${fmt(Number(process.env.IMPORT_BATCH_ROWS ?? 5000))} rows with constant columns inlined; LOAD DATA LOCAL INFILE of the same rows: ${fmt(loadRate)} rows/s in ${loadS.toFixed(1)} s, best of 2; ratio ${(importRate / loadRate).toFixed(2)}; target ≥ 0.5)`,
+    );
+    console.log(
+      `import check pass: ${fmt(ROWS / r.checkS)} rows/s (${r.checkS.toFixed(1)} s to read, convert and check every row and look for repeats before anything is written)`,
+    );
+    console.log(
+      `import upload end to end: ${fmt(ROWS / (r.checkS + r.importS))} rows/s (check + import, ${(r.checkS + r.importS).toFixed(1)} s; ratio to LOAD DATA ${(ROWS / (r.checkS + r.importS) / loadRate).toFixed(2)})`,
+    );
+    console.log(
+      `import peak memory: ${r.maxRssMb.toFixed(0)} MB peak RSS of the upload process for ${fmt(ROWS)} rows (target < 300 MB and flat; ${s.maxRssMb.toFixed(0)} MB for ${fmt(SMALL)} rows; ${r.rssAtStartMb.toFixed(0)} MB before the upload; ${os.cpus().length} cores, shared)`,
+    );
     await closeBulkPool();
     await ds.destroy();
   } finally {

@@ -17,7 +17,10 @@ const WIRE_TARGET_KB = 40;
 
 async function load(url: string, cookies: string[]): Promise<{ latencies: number[]; errors: number }> {
   const { fork } = await import('node:child_process');
-  const child = fork(new URL('./lib/load-worker.ts', import.meta.url), [], { execArgv: ['--import', 'tsx'], env: { ...process.env, PLENUM_LOAD: JSON.stringify({ url, cookies, seconds: SECONDS, headers: { 'accept-encoding': 'gzip' } }) } });
+  const child = fork(new URL('./lib/load-worker.ts', import.meta.url), [], {
+    execArgv: ['--import', 'tsx'],
+    env: { ...process.env, PLENUM_LOAD: JSON.stringify({ url, cookies, seconds: SECONDS, headers: { 'accept-encoding': 'gzip' } }) },
+  });
   const out = await new Promise<{ latencies: number[]; errors: number }>((resolve, reject) => {
     child.once('message', (m) => resolve(m as { latencies: number[]; errors: number }));
     child.once('error', reject);
@@ -61,15 +64,28 @@ export async function run(): Promise<void> {
     const ovRate = ov.latencies.length / SECONDS;
     const sdRate = sd.latencies.length / SECONDS;
     const p95 = percentile(sd.latencies, 0.95);
-    console.log(`overview_p50_p95: ${percentile(ov.latencies, 0.5).toFixed(1)} / ${percentile(ov.latencies, 0.95).toFixed(1)} ms (${USERS} concurrent users, ${ov.latencies.length} requests in ${SECONDS} s, ${ov.errors} errors)`);
+    console.log(
+      `overview_p50_p95: ${percentile(ov.latencies, 0.5).toFixed(1)} / ${percentile(ov.latencies, 0.95).toFixed(1)} ms (${USERS} concurrent users, ${ov.latencies.length} requests in ${SECONDS} s, ${ov.errors} errors)`,
+    );
     console.log(`overview_throughput: ${ovRate.toFixed(0)} requests/s`);
-    console.log(`source_detail_p50: ${percentile(sd.latencies, 0.5).toFixed(1)} ms (${USERS} concurrent users, ${sd.latencies.length} requests in ${SECONDS} s, ${sd.errors} errors; ${tank.name})`);
+    console.log(
+      `source_detail_p50: ${percentile(sd.latencies, 0.5).toFixed(1)} ms (${USERS} concurrent users, ${sd.latencies.length} requests in ${SECONDS} s, ${sd.errors} errors; ${tank.name})`,
+    );
     console.log(`source_detail_p95: ${p95.toFixed(1)} ms (target ≤ ${P95_TARGET_MS} ms; ratio ${(p95 / P95_TARGET_MS).toFixed(2)} of target)`);
-    console.log(`source_detail_throughput: ${sdRate.toFixed(0)} requests/s (target ≥ a third of the overview's, ${(ovRate / 3).toFixed(0)}; ratio ${(ovRate / 3 / sdRate).toFixed(2)} of target)`);
+    console.log(
+      `source_detail_throughput: ${sdRate.toFixed(0)} requests/s (target ≥ a third of the overview's, ${(ovRate / 3).toFixed(0)}; ratio ${(ovRate / 3 / sdRate).toFixed(2)} of target)`,
+    );
     const gz = await wireBytes(detailUrl, cookies[0], 'gzip');
     const plain = await wireBytes(detailUrl, cookies[0], 'identity');
-    console.log(`source_detail_wire: ${(gz.bytes / 1024).toFixed(1)} kB (${gz.encoding}; ${(plain.bytes / 1024).toFixed(1)} kB uncompressed; target ≤ ${WIRE_TARGET_KB} kB; ratio ${(gz.bytes / 1024 / WIRE_TARGET_KB).toFixed(2)} of target)`);
-    console.log(`machine_load_average: ${os.loadavg().map((x) => x.toFixed(1)).join(' ')} (1/5/15 min, on ${os.cpus().length} cores shared with other work; latency figures are only meaningful on a quiet machine)`);
+    console.log(
+      `source_detail_wire: ${(gz.bytes / 1024).toFixed(1)} kB (${gz.encoding}; ${(plain.bytes / 1024).toFixed(1)} kB uncompressed; target ≤ ${WIRE_TARGET_KB} kB; ratio ${(gz.bytes / 1024 / WIRE_TARGET_KB).toFixed(2)} of target)`,
+    );
+    console.log(
+      `machine_load_average: ${os
+        .loadavg()
+        .map((x) => x.toFixed(1))
+        .join(' ')} (1/5/15 min, on ${os.cpus().length} cores shared with other work; latency figures are only meaningful on a quiet machine)`,
+    );
     if (ov.errors + sd.errors > 0) throw new Error(`errors under load: overview ${ov.errors}, source detail ${sd.errors}`);
   } finally {
     await app.stop();

@@ -74,23 +74,37 @@ async function startUntilHealthy(dir: string, env: Record<string, string>, t0: n
 export async function run(): Promise<void> {
   const tmp = mkdtempSync(path.join(os.tmpdir(), 'plenum-start-'));
   const dir = path.join(tmp, 'plenum');
-  const env = { PORT: String(await freePort()), DB_PORT: String(await freePort()), SMTP_PORT: String(await freePort()), PLENUM_DATA_DIR: path.join(tmp, 'data') };
+  const env = {
+    PORT: String(await freePort()),
+    DB_PORT: String(await freePort()),
+    SMTP_PORT: String(await freePort()),
+    PLENUM_DATA_DIR: path.join(tmp, 'data'),
+  };
   try {
     const t0 = performance.now();
     execFileSync('git', ['clone', '--quiet', '--no-local', root, dir], { stdio: 'ignore' });
     const cloneS = (performance.now() - t0) / 1000;
     const cold = await startUntilHealthy(dir, env, t0);
     const coldStop = await cold.stop();
-    console.log(`start_fresh_clone: ${cold.seconds.toFixed(1)} s from git clone to /api/health 200 (clone ${cloneS.toFixed(1)} s; npm ci, MariaDB, migrations, demo data, build included)`);
+    console.log(
+      `start_fresh_clone: ${cold.seconds.toFixed(1)} s from git clone to /api/health 200 (clone ${cloneS.toFixed(1)} s; npm ci, MariaDB, migrations, demo data, build included)`,
+    );
     console.log(`start_fresh_clone_steps: ${cold.steps.join(' | ')}`);
 
     const t1 = performance.now();
     const warm = await startUntilHealthy(dir, env, t1);
     const warmStop = await warm.stop();
-    console.log(`start_warm: ${warm.seconds.toFixed(1)} s to /api/health 200 (target ≤ ${WARM_TARGET_S} s; ratio ${(warm.seconds / WARM_TARGET_S).toFixed(2)} of target)`);
+    console.log(
+      `start_warm: ${warm.seconds.toFixed(1)} s to /api/health 200 (target ≤ ${WARM_TARGET_S} s; ratio ${(warm.seconds / WARM_TARGET_S).toFixed(2)} of target)`,
+    );
     console.log(`start_warm_steps: ${warm.steps.join(' | ')}`);
-    for (const [name, st] of [['fresh', coldStop], ['warm', warmStop]] as const) {
-      console.log(`start_stop_${name}: ${st.seconds.toFixed(1)} s from SIGTERM to scripts/start ending${st.killed ? ' (it did NOT stop by itself: killed after 30 s)' : ''}`);
+    for (const [name, st] of [
+      ['fresh', coldStop],
+      ['warm', warmStop],
+    ] as const) {
+      console.log(
+        `start_stop_${name}: ${st.seconds.toFixed(1)} s from SIGTERM to scripts/start ending${st.killed ? ' (it did NOT stop by itself: killed after 30 s)' : ''}`,
+      );
     }
   } finally {
     rmSync(tmp, { recursive: true, force: true });

@@ -11,7 +11,13 @@ for (const file of process.argv.slice(2)) {
     missing++;
     continue;
   }
-  const r = JSON.parse(readFileSync(file, 'utf8')) as { numPassedTests: number; numFailedTests: number; numPendingTests: number; numTodoTests: number; numFailedTestSuites: number };
+  const r = JSON.parse(readFileSync(file, 'utf8')) as {
+    numPassedTests: number;
+    numFailedTests: number;
+    numPendingTests: number;
+    numTodoTests: number;
+    numFailedTestSuites: number;
+  };
   passed += r.numPassedTests;
   failed += r.numFailedTests + (r.numFailedTestSuites > 0 && r.numFailedTests === 0 ? r.numFailedTestSuites : 0);
   skipped += r.numPendingTests + r.numTodoTests;

@@ -80,7 +80,8 @@ function load(clients: Client[], siteId: number, tag: string) {
 }
 
 const show = (o: Outcome) => `${o.what} → ${o.status} ${o.code ?? ''} retry-after=${o.retryAfter ?? '-'}`;
-const clean = (o: Outcome) => (typeof o.status === 'number' && o.status >= 200 && o.status < 300) || (o.status === 503 && o.retryAfter !== null && o.retryAfter !== undefined);
+const clean = (o: Outcome) =>
+  (typeof o.status === 'number' && o.status >= 200 && o.status < 300) || (o.status === 503 && o.retryAfter !== null && o.retryAfter !== undefined);
 
 /**
  * Outages within [from, to): each runs from a refusal that follows a success to the next success (first
@@ -116,7 +117,12 @@ function checksums(i: number): Map<string, string> {
     .trim()
     .split('\n');
   const out = cluster.sql(i, `CHECKSUM TABLE ${tables.map((t) => `\`${DATABASE}\`.\`${t}\``).join(', ')}`);
-  return new Map(out.trim().split('\n').map((l) => l.split('\t') as [string, string]));
+  return new Map(
+    out
+      .trim()
+      .split('\n')
+      .map((l) => l.split('\t') as [string, string]),
+  );
 }
 
 beforeAll(async () => {
@@ -125,7 +131,14 @@ beforeAll(async () => {
   ds = createDataSource({ port: cluster.sqlPort, database: DATABASE, poolSize: 2 });
   await ds.initialize();
   org = await createTestOrg(ds, 1);
-  const env = { DB_PORT: String(cluster.sqlPort), DB_NAME: DATABASE, LOG_LEVEL: 'error', LOGIN_RATE_LIMIT_PER_15_MIN: '100000', DB_POOL_SIZE: '5', TRUST_PROXY: '127.0.0.1' };
+  const env = {
+    DB_PORT: String(cluster.sqlPort),
+    DB_NAME: DATABASE,
+    LOG_LEVEL: 'error',
+    LOGIN_RATE_LIMIT_PER_15_MIN: '100000',
+    DB_POOL_SIZE: '5',
+    TRUST_PROXY: '127.0.0.1',
+  };
   apps.push(await startChildApp(env), await startChildApp(env));
   httpPort = await cluster.httpProxy(apps.map((a) => Number(new URL(a.baseUrl).port)));
   // Both app processes in rotation before the load starts.
@@ -166,7 +179,10 @@ describe('a Galera node dies under load', () => {
     cluster.startNode(1);
     await cluster.waitSynced(1, 3);
     const rejoinedAt = Date.now();
-    const transfer = (await import('node:fs')).readFileSync(`${cluster.dir}/node1/error.log`, 'utf8').split('\n').filter((l) => /IST received|SST .*complete|State transfer required|Recovered position|Prepared IST receiver/.test(l));
+    const transfer = (await import('node:fs'))
+      .readFileSync(`${cluster.dir}/node1/error.log`, 'utf8')
+      .split('\n')
+      .filter((l) => /IST received|SST .*complete|State transfer required|Recovered position|Prepared IST receiver/.test(l));
     console.log(`node 1 rejoin:\n${transfer.slice(-6).join('\n')}`);
     // HAProxy moves back to node 1 once it reports Synced; keep the load on through that too.
     await sleep(4_000);
@@ -186,11 +202,17 @@ describe('a Galera node dies under load', () => {
     // The last seconds (after failing back to node 1) all succeed.
     const tail = outcomes.filter((o) => o.at > Date.now() - 1_500);
     expect(tail.length).toBeGreaterThan(5);
-    console.log(`node kill: failover ${f.ms} ms (first refusal to first success), ${f.refused} refused; rejoin and fail-back: longest outage ${back.ms} ms (${back.outages} outages, ${back.refused} refused); ${outcomes.length} requests; node rejoined ${rejoinedAt - restartAt} ms after its restart`);
+    console.log(
+      `node kill: failover ${f.ms} ms (first refusal to first success), ${f.refused} refused; rejoin and fail-back: longest outage ${back.ms} ms (${back.outages} outages, ${back.refused} refused); ${outcomes.length} requests; node rejoined ${rejoinedAt - restartAt} ms after its restart`,
+    );
 
     // The same rows on every node: every table's checksum (a write may still be applying for a moment).
     let sums = [1, 2, 3].map(checksums);
-    for (let t = 0; t < 40 && !(JSON.stringify([...sums[0]]) === JSON.stringify([...sums[1]]) && JSON.stringify([...sums[1]]) === JSON.stringify([...sums[2]])); t++) {
+    for (
+      let t = 0;
+      t < 40 && !(JSON.stringify([...sums[0]]) === JSON.stringify([...sums[1]]) && JSON.stringify([...sums[1]]) === JSON.stringify([...sums[2]]));
+      t++
+    ) {
       await sleep(250);
       sums = [1, 2, 3].map(checksums);
     }
@@ -202,7 +224,10 @@ describe('a Galera node dies under load', () => {
     const writes = outcomes.filter((o) => o.what === 'write');
     expect(writes.filter((o) => o.status === 200).length).toBeGreaterThan(10);
     for (const node of [1, 2, 3]) {
-      const rows = cluster.sql(node, `SELECT name, COUNT(*) FROM \`${DATABASE}\`.ward WHERE site_id = ${siteId} AND name LIKE 'Node kill ward %' GROUP BY name`);
+      const rows = cluster.sql(
+        node,
+        `SELECT name, COUNT(*) FROM \`${DATABASE}\`.ward WHERE site_id = ${siteId} AND name LIKE 'Node kill ward %' GROUP BY name`,
+      );
       const stored = new Map(
         rows
           .trim()

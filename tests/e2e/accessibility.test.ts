@@ -65,7 +65,12 @@ async function axeViolations(page: Page): Promise<AxeViolation[]> {
   return page.evaluate(async () => {
     const axe = (window as unknown as { axe: { run: (ctx: Document, opts: unknown) => Promise<{ violations: AxeViolation[] }> } }).axe;
     const r = await axe.run(document, { runOnly: { type: 'tag', values: ['wcag2a', 'wcag2aa', 'wcag21a', 'wcag21aa'] }, resultTypes: ['violations'] });
-    return r.violations.map((v) => ({ id: v.id, impact: v.impact, help: v.help, nodes: v.nodes.slice(0, 5).map((n) => ({ target: n.target, html: n.html.slice(0, 200), failureSummary: n.failureSummary })) }));
+    return r.violations.map((v) => ({
+      id: v.id,
+      impact: v.impact,
+      help: v.help,
+      nodes: v.nodes.slice(0, 5).map((n) => ({ target: n.target, html: n.html.slice(0, 200), failureSummary: n.failureSummary })),
+    }));
   });
 }
 
@@ -81,7 +86,8 @@ async function colourOnlyStatus(page: Page): Promise<string[]> {
       const s = getComputedStyle(el);
       return r.width > 0 && r.height > 0 && s.visibility !== 'hidden' && s.display !== 'none';
     };
-    const says = (el: Element) => (el.textContent ?? '').trim().length > 0 || el.getAttribute('aria-label') || el.getAttribute('title') || el.querySelector('title,[aria-label]');
+    const says = (el: Element) =>
+      (el.textContent ?? '').trim().length > 0 || el.getAttribute('aria-label') || el.getAttribute('title') || el.querySelector('title,[aria-label]');
     const out: string[] = [];
     for (const el of Array.from(document.querySelectorAll('[class]'))) {
       const cls = el.getAttribute('class') ?? '';
@@ -110,7 +116,10 @@ describe('every screen is in the list', () => {
 
 describe('accessibility of every screen (axe-core, WCAG 2.1 AA)', () => {
   for (const screen of SCREENS) {
-    for (const [device, viewport] of [['desktop', DESKTOP], ['phone', PHONE]] as const) {
+    for (const [device, viewport] of [
+      ['desktop', DESKTOP],
+      ['phone', PHONE],
+    ] as const) {
       it(`${screen.name} on a ${device}: no serious or critical violation, status in words`, async (ctx) => {
         const context = await contextFor(screen.as, viewport);
         const path = await resolvePath(screen, context);
@@ -121,7 +130,11 @@ describe('accessibility of every screen (axe-core, WCAG 2.1 AA)', () => {
           await open(page, path);
           await screenshot(page, `screen-${screen.name}-${device}`);
           const serious = (await axeViolations(page)).filter((v) => v.impact === 'serious' || v.impact === 'critical');
-          expect(serious.map((v) => `${v.impact} ${v.id}: ${v.help}\n${v.nodes.map((n) => `   ${n.target.join(' ')} ${n.html}\n   ${n.failureSummary ?? ''}`).join('\n')}`)).toEqual([]);
+          expect(
+            serious.map(
+              (v) => `${v.impact} ${v.id}: ${v.help}\n${v.nodes.map((n) => `   ${n.target.join(' ')} ${n.html}\n   ${n.failureSummary ?? ''}`).join('\n')}`,
+            ),
+          ).toEqual([]);
           expect(await colourOnlyStatus(page)).toEqual([]);
           expect(errors.filter((e) => !/status of 404/.test(e) || screen.name !== 'not-found')).toEqual([]);
         } finally {

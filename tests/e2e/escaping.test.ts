@@ -39,8 +39,24 @@ describe('HTML in names is shown as text', () => {
     const setup = await browser.newContext();
     const admin = await api(setup.request, 'admin');
     // Named to sort last, so that the demo sites stay first in every list other journeys read.
-    await admin.post('/api/sites', { name: `Zz ${PAYLOAD} site ${tag}`, kind: 'clinic', address: PAYLOAD, timeZone: 'Europe/London', referenceCode: '15C', unitSystem: 'metric', altitudeM: 0, currency: 'GBP', cylinderColours: 'ISO32', storeTemperatureC: 15 });
-    await admin.post('/api/suppliers', { name: `${PAYLOAD} supplier ${tag}`, orderEmail: `orders-${tag}@supplier.example`, leadTimeHours: 24, currency: 'GBP' });
+    await admin.post('/api/sites', {
+      name: `Zz ${PAYLOAD} site ${tag}`,
+      kind: 'clinic',
+      address: PAYLOAD,
+      timeZone: 'Europe/London',
+      referenceCode: '15C',
+      unitSystem: 'metric',
+      altitudeM: 0,
+      currency: 'GBP',
+      cylinderColours: 'ISO32',
+      storeTemperatureC: 15,
+    });
+    await admin.post('/api/suppliers', {
+      name: `${PAYLOAD} supplier ${tag}`,
+      orderEmail: `orders-${tag}@supplier.example`,
+      leadTimeHours: 24,
+      currency: 'GBP',
+    });
     await setup.close();
     const fmContext = await browser.newContext();
     const fm = await api(fmContext.request, 'facilities');

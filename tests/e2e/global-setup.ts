@@ -23,7 +23,8 @@ declare module 'vitest' {
  */
 export default async function setup(project: TestProject): Promise<() => Promise<void>> {
   if (!process.env.PLENUM_TEST_DB) throw new Error('Browser tests need the throw-away MariaDB started by scripts/test. Run scripts/test.');
-  if (!existsSync(new URL('../../dist/index.html', import.meta.url))) throw new Error('No front-end build in dist/: scripts/test builds it before the browser tests.');
+  if (!existsSync(new URL('../../dist/index.html', import.meta.url)))
+    throw new Error('No front-end build in dist/: scripts/test builds it before the browser tests.');
   const database = 'plenum_e2e';
   setEnv(parseEnv({ ...process.env, DB_NAME: database, NODE_ENV: 'test', SERVE_FRONTEND: 'true', LOG_LEVEL: 'error' }));
   logger.setLevel('error');

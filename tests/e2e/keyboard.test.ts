@@ -82,7 +82,10 @@ describe('keyboard only', () => {
     const sourceIds: number[] = overview.sites.flatMap((s: { sources: { id: number }[] }) => s.sources.map((x) => x.id));
     let requestId: number | null = null;
     for (const sourceId of sourceIds) {
-      const res = await setup.request.post(`${baseUrl}/api/requests`, { data: { sourceId, submit: true, note: 'keyboard journey' }, headers: { 'x-csrf-token': csrf } });
+      const res = await setup.request.post(`${baseUrl}/api/requests`, {
+        data: { sourceId, submit: true, note: 'keyboard journey' },
+        headers: { 'x-csrf-token': csrf },
+      });
       const body = await res.json();
       if (res.ok() && body.status === 'submitted') {
         requestId = body.id;
@@ -108,7 +111,10 @@ describe('keyboard only', () => {
     await tabTo(page, (f) => f.tag === 'button' && /^Approve\b/.test(f.label), 'the Approve button', 120);
     await screenshot(page, 'keyboard-approve-focused-desktop');
     await page.keyboard.press('Enter');
-    await page.getByText(/Approved: |First approval recorded/).first().waitFor({ timeout: 20_000 });
+    await page
+      .getByText(/Approved: |First approval recorded/)
+      .first()
+      .waitFor({ timeout: 20_000 });
     await screenshot(page, 'keyboard-approved-desktop');
 
     const after = await (await context.request.get(`${baseUrl}/api/requests/${requestId}`)).json();
@@ -178,7 +184,10 @@ describe('keyboard only', () => {
     expect([...after.wardIds].sort()).toEqual([...before.wardIds, extra!.id].sort());
     // Leave the demo as it was for the other journeys.
     const csrf = (await (await context.request.get(`${baseUrl}/api/auth/csrf`)).json()).token as string;
-    const restored = await context.request.put(`${baseUrl}/api/users/${lead.id}/wards`, { data: { wardIds: before.wardIds }, headers: { 'x-csrf-token': csrf } });
+    const restored = await context.request.put(`${baseUrl}/api/users/${lead.id}/wards`, {
+      data: { wardIds: before.wardIds },
+      headers: { 'x-csrf-token': csrf },
+    });
     expect(restored.ok()).toBe(true);
     expect(errors).toEqual([]);
     await context.close();

@@ -22,7 +22,10 @@ afterAll(async () => {
 
 describe('sign in as each demo role, reach the overview, sign out', () => {
   for (const [email, name] of DEMO) {
-    for (const [device, viewport] of [['desktop', DESKTOP], ['phone', PHONE]] as const) {
+    for (const [device, viewport] of [
+      ['desktop', DESKTOP],
+      ['phone', PHONE],
+    ] as const) {
       it(`${name} on a ${device}`, async () => {
         const context = await browser.newContext({ viewport });
         context.setDefaultTimeout(45_000);
@@ -37,7 +40,10 @@ describe('sign in as each demo role, reach the overview, sign out', () => {
         await page.getByRole('button', { name: 'Sign in' }).click();
         await page.getByRole('heading', { name: 'Today', exact: true }).waitFor({ timeout: 20_000 });
         // The overview lists the demo sources with their status in words.
-        await page.getByText(/Main VIE|Clinic oxygen manifold/).first().waitFor({ timeout: 20_000 });
+        await page
+          .getByText(/Main VIE|Clinic oxygen manifold/)
+          .first()
+          .waitFor({ timeout: 20_000 });
         await screenshot(page, `overview-${name}-${device}`);
         if (device === 'phone') await page.getByRole('button', { name: 'Menu' }).click();
         await page.getByRole('button', { name: 'Sign out' }).first().click();

@@ -28,7 +28,10 @@ describe('a facilities manager reads the bulk tank’s forecast and enters a lev
       await page.getByRole('heading', { name: 'Today', exact: true }).waitFor({ timeout: 20_000 });
 
       // Today's card of the demo tank opens its page
-      await page.getByRole('link', { name: /Main VIE/ }).first().click({ timeout: 20_000 });
+      await page
+        .getByRole('link', { name: /Main VIE/ })
+        .first()
+        .click({ timeout: 20_000 });
       await page.waitForURL(/\/sources\/\d+/, { timeout: 20_000 });
       await page.getByRole('heading', { level: 1, name: /Main VIE/ }).waitFor({ timeout: 20_000 });
 

@@ -29,7 +29,9 @@ function open(database: string): Promise<DataSource> {
 
 /** Row count and checksum of every base table, by name. */
 async function fingerprint(ds: DataSource): Promise<Record<string, string>> {
-  const tables: { name: string }[] = await ds.query(`SELECT table_name AS name FROM information_schema.tables WHERE table_schema = DATABASE() AND table_type = 'BASE TABLE' ORDER BY table_name`);
+  const tables: { name: string }[] = await ds.query(
+    `SELECT table_name AS name FROM information_schema.tables WHERE table_schema = DATABASE() AND table_type = 'BASE TABLE' ORDER BY table_name`,
+  );
   const out: Record<string, string> = {};
   for (const { name } of tables) {
     const [{ n }] = await ds.query(`SELECT COUNT(*) AS n FROM \`${name}\``);

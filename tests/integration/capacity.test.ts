@@ -34,12 +34,37 @@ const runBody = (over: Record<string, unknown> = {}) => ({ name: uniq('Run'), le
 
 async function makeCylinder(o: TestOrg, waterCapacityL: number, fillPressureBar: number) {
   const repo = app.ds.getRepository(CylinderType);
-  return repo.save(repo.create({ organisationId: o.organisationId, gasCode: 'O2', waterCapacityL, fillPressureBar, tareKg: null, maxFillingRatioKgPerL: null, material: 'steel', valveNotes: '', active: true }));
+  return repo.save(
+    repo.create({
+      organisationId: o.organisationId,
+      gasCode: 'O2',
+      waterCapacityL,
+      fillPressureBar,
+      tareKg: null,
+      maxFillingRatioKgPerL: null,
+      material: 'steel',
+      valveNotes: '',
+      active: true,
+    }),
+  );
 }
 
 async function makeSource(siteId: number, fields: Partial<SupplySource>) {
   const repo = app.ds.getRepository(SupplySource);
-  return repo.save(repo.create({ siteId, name: uniq('Source'), gasCode: 'O2', supplierId: null, reorderMode: 'none', forecastBasis: 'model', modelCorrectionFactor: 1, notes: '', active: true, ...fields }));
+  return repo.save(
+    repo.create({
+      siteId,
+      name: uniq('Source'),
+      gasCode: 'O2',
+      supplierId: null,
+      reorderMode: 'none',
+      forecastBasis: 'model',
+      modelCorrectionFactor: 1,
+      notes: '',
+      active: true,
+      ...fields,
+    }),
+  );
 }
 
 describe('zones and pipe runs: create, read, update, delete, audited', () => {
@@ -47,7 +72,15 @@ describe('zones and pipe runs: create, read, update, delete, audited', () => {
     const siteId = org.siteIds[0];
     const created = await biomed.post(`/api/sites/${siteId}/zones`, zoneBody({ name: 'CRUD ward', terminalUnits: 8 }));
     expect(created.status, JSON.stringify(created.body)).toBe(200);
-    expect(created.body).toMatchObject({ name: 'CRUD ward', gasCode: 'O2', department: 'ward', terminalUnits: 8, builtinRuleSet: 'default', diversityMethod: 'rule_set', pipeRuns: [] });
+    expect(created.body).toMatchObject({
+      name: 'CRUD ward',
+      gasCode: 'O2',
+      department: 'ward',
+      terminalUnits: 8,
+      builtinRuleSet: 'default',
+      diversityMethod: 'rule_set',
+      pipeRuns: [],
+    });
     const zoneId = created.body.id as number;
 
     const run = await biomed.post(`/api/zones/${zoneId}/pipe-runs`, runBody({ name: 'Riser', lengthM: 42.5 }));
@@ -81,7 +114,12 @@ describe('zones and pipe runs: create, read, update, delete, audited', () => {
     expect(await countRows('pipe_run', 'zone_id = ?', [zoneId])).toBe(0);
     expect((await biomed.get(`/api/zones/${zoneId}`)).status).toBe(404);
 
-    const audit = await countRows('audit_log', "entity IN ('pipeline_zone', 'pipe_run') AND entity_id IN (?, ?, ?) AND user_id = ?", [String(zoneId), String(run.body.id), String(second.body.id), org.userIds.biomedical_engineer]);
+    const audit = await countRows('audit_log', "entity IN ('pipeline_zone', 'pipe_run') AND entity_id IN (?, ?, ?) AND user_id = ?", [
+      String(zoneId),
+      String(run.body.id),
+      String(second.body.id),
+      org.userIds.biomedical_engineer,
+    ]);
     // zone create, update, delete; run create, update; second run create, delete
     expect(audit).toBe(7);
   });
@@ -128,7 +166,19 @@ describe('validation: 400 with field paths, nothing written', () => {
     const res = await biomed.post(`/api/sites/${siteId}/zones`, zoneBody({ diversityMethod: 'binomial', unitFlowLMin: 10 }));
     expect(res.status).toBe(400);
     expect(paths(res)).toEqual(['confidence', 'useProbability']);
-    const airCyl = await app.ds.getRepository(CylinderType).save(app.ds.getRepository(CylinderType).create({ organisationId: org.organisationId, gasCode: 'AIR', waterCapacityL: 50, fillPressureBar: 200, tareKg: null, maxFillingRatioKgPerL: null, material: 'steel', valveNotes: '', active: true }));
+    const airCyl = await app.ds.getRepository(CylinderType).save(
+      app.ds.getRepository(CylinderType).create({
+        organisationId: org.organisationId,
+        gasCode: 'AIR',
+        waterCapacityL: 50,
+        fillPressureBar: 200,
+        tareKg: null,
+        maxFillingRatioKgPerL: null,
+        material: 'steel',
+        valveNotes: '',
+        active: true,
+      }),
+    );
     const air = await makeSource(siteId, { type: 'manifold', gasCode: 'AIR', cylinderTypeId: airCyl.id, cylindersPerBank: 2 });
     const wrongGas = await biomed.post(`/api/sites/${siteId}/zones`, zoneBody({ sourceId: air.id }));
     expect(wrongGas.status).toBe(400);
@@ -181,7 +231,8 @@ describe('diversity rule sets: shipped defaults with sources, copied and edited 
     expect(zone.status, JSON.stringify(zone.body)).toBe(200);
     // Default O2 ward rule (from memory): 10 + (11 − 1)·6/4 = 25 L/min.
     let cap = await biomed.get(`/api/sites/${org.siteIds[1]}/capacity`);
-    const flowOf = (c: typeof cap) => c.body.gases.find((g: { gasCode: string }) => g.gasCode === 'O2').zones.find((z: { name: string }) => z.name === 'Rule-set ward');
+    const flowOf = (c: typeof cap) =>
+      c.body.gases.find((g: { gasCode: string }) => g.gasCode === 'O2').zones.find((z: { name: string }) => z.name === 'Rule-set ward');
     expect(flowOf(cap).designFlowLMin).toBeCloseTo(25, 9);
     expect(flowOf(cap).warning).toBe('from memory, not verified');
 
@@ -237,11 +288,21 @@ describe('the capacity check of a small site against a hand calculation', () => 
     const siteId = org.siteIds[1];
     const cyl = await makeCylinder(org, 47, 137);
     const manifold = await makeSource(siteId, { name: 'O2 manifold', type: 'manifold', cylinderTypeId: cyl.id, cylindersPerBank: 10, regulatorLMin: 200 });
-    const erm = await makeSource(siteId, { name: 'O2 emergency reserve', type: 'emergency_reserve', cylinderTypeId: cyl.id, cylindersPerBank: 4, backsUpJson: JSON.stringify([manifold.id]) });
+    const erm = await makeSource(siteId, {
+      name: 'O2 emergency reserve',
+      type: 'emergency_reserve',
+      cylinderTypeId: cyl.id,
+      cylindersPerBank: 4,
+      backsUpJson: JSON.stringify([manifold.id]),
+    });
     // Demand model: one ward fed by the manifold, 10 patients on nasal cannulae at 2 L/min all day = 20 L/min.
-    const ward = await app.ds.getRepository(Ward).save(app.ds.getRepository(Ward).create({ siteId, name: uniq('Ward'), department: 'ward', beds: 20, leakagePercent: 0, active: true }));
+    const ward = await app.ds
+      .getRepository(Ward)
+      .save(app.ds.getRepository(Ward).create({ siteId, name: uniq('Ward'), department: 'ward', beds: 20, leakagePercent: 0, active: true }));
     await app.ds.getRepository(WardFeed).insert({ wardId: ward.id, sourceId: manifold.id, gasCode: 'O2', role: 'primary' });
-    await app.ds.getRepository(TherapyLineRow).insert({ wardId: ward.id, gasCode: 'O2', device: 'nasal_cannula', patients: 10, flowLMin: 2, hoursJson: null, weekdaysJson: null, label: '' });
+    await app.ds
+      .getRepository(TherapyLineRow)
+      .insert({ wardId: ward.id, gasCode: 'O2', device: 'nasal_cannula', patients: 10, flowLMin: 2, hoursJson: null, weekdaysJson: null, label: '' });
 
     // The zone from the rule-set test uses another set; this site's O2 zones all use the shipped default.
     await app.ds.query('DELETE FROM pipeline_zone WHERE site_id = ?', [siteId]);
@@ -356,7 +417,10 @@ describe('the capacity check of a small site against a hand calculation', () => 
   });
 
   it('a small zone by the binomial method: 6 units of 10 L/min, p = 0.2, 99 % → 4 in use, 40 L/min', async () => {
-    const z = await biomed.post(`/api/sites/${org.siteIds[0]}/zones`, zoneBody({ name: 'Binomial bay', terminalUnits: 6, diversityMethod: 'binomial', unitFlowLMin: 10, useProbability: 0.2, confidence: 0.99 }));
+    const z = await biomed.post(
+      `/api/sites/${org.siteIds[0]}/zones`,
+      zoneBody({ name: 'Binomial bay', terminalUnits: 6, diversityMethod: 'binomial', unitFlowLMin: 10, useProbability: 0.2, confidence: 0.99 }),
+    );
     expect(z.status, JSON.stringify(z.body)).toBe(200);
     const cap = await biomed.get(`/api/sites/${org.siteIds[0]}/capacity`);
     const zone = cap.body.gases.find((g: { gasCode: string }) => g.gasCode === 'O2').zones.find((x: { name: string }) => x.name === 'Binomial bay');
@@ -392,7 +456,10 @@ describe('isolation', () => {
     expect((await biomed.get('/api/rule-sets')).body.map((s: { id: number | null }) => s.id)).not.toContain(set.body.id);
 
     const theirCap = await theirBiomed.get(`/api/sites/${other.siteIds[0]}/capacity`);
-    const theirSignoff = await theirBiomed.post(`/api/sites/${other.siteIds[0]}/capacity/signoffs`, { engineerName: 'Their engineer', inputsHash: theirCap.body.inputsHash });
+    const theirSignoff = await theirBiomed.post(`/api/sites/${other.siteIds[0]}/capacity/signoffs`, {
+      engineerName: 'Their engineer',
+      inputsHash: theirCap.body.inputsHash,
+    });
     expect(theirSignoff.status, JSON.stringify(theirSignoff.body)).toBe(200);
     expect((await biomed.get(`/api/capacity-signoffs/${theirSignoff.body.id}`)).status).toBe(404);
     expect((await biomed.get(`/api/sites/${other.siteIds[0]}/capacity/signoffs`)).status).toBe(404);
@@ -420,19 +487,32 @@ describe("the engineer's sign-off", () => {
     const cap = await biomed.get(`/api/sites/${siteId}/capacity?flowPerPatientLMin=30`);
     expect(cap.status).toBe(200);
     const before = Date.now();
-    const res = await biomed.post(`/api/sites/${siteId}/capacity/signoffs`, { engineerName: 'A. Engineer', inputsHash: cap.body.inputsHash, flowPerPatientLMin: 30, note: 'Checked against the drawings' });
+    const res = await biomed.post(`/api/sites/${siteId}/capacity/signoffs`, {
+      engineerName: 'A. Engineer',
+      inputsHash: cap.body.inputsHash,
+      flowPerPatientLMin: 30,
+      note: 'Checked against the drawings',
+    });
     expect(res.status, JSON.stringify(res.body)).toBe(200);
     expect(res.body.engineerName).toBe('A. Engineer');
     const signedAt = Date.parse(res.body.signedAt);
     expect(signedAt).toBeGreaterThanOrEqual(before - 1000);
     expect(signedAt).toBeLessThanOrEqual(Date.now() + 1000);
 
-    const rows: { engineer_name: string; user_id: number; inputs_hash: string; summary_json: string }[] = await app.ds.query('SELECT engineer_name, user_id, inputs_hash, summary_json FROM capacity_signoff WHERE id = ?', [res.body.id]);
+    const rows: { engineer_name: string; user_id: number; inputs_hash: string; summary_json: string }[] = await app.ds.query(
+      'SELECT engineer_name, user_id, inputs_hash, summary_json FROM capacity_signoff WHERE id = ?',
+      [res.body.id],
+    );
     expect(rows[0]).toMatchObject({ engineer_name: 'A. Engineer', user_id: org.userIds.biomedical_engineer, inputs_hash: cap.body.inputsHash });
     const stored = JSON.parse(rows[0].summary_json);
     expect(stored.options.flowPerPatientLMin).toBe(30);
     expect(stored.caution).toMatch(/Authorised Person/);
-    expect(await countRows('audit_log', "entity = 'capacity_signoff' AND action = 'sign_off' AND entity_id = ? AND user_id = ?", [String(res.body.id), org.userIds.biomedical_engineer])).toBe(1);
+    expect(
+      await countRows('audit_log', "entity = 'capacity_signoff' AND action = 'sign_off' AND entity_id = ? AND user_id = ?", [
+        String(res.body.id),
+        org.userIds.biomedical_engineer,
+      ]),
+    ).toBe(1);
 
     const again = await biomed.get(`/api/sites/${siteId}/capacity?flowPerPatientLMin=30`);
     expect(again.body.latestSignoff).toMatchObject({ id: res.body.id, engineerName: 'A. Engineer', current: true });
@@ -443,7 +523,11 @@ describe("the engineer's sign-off", () => {
     await biomed.post(`/api/sites/${siteId}/zones`, zoneBody({ name: uniq('Late zone') }));
     const later = await biomed.get(`/api/sites/${siteId}/capacity?flowPerPatientLMin=30`);
     expect(later.body.latestSignoff.current).toBe(false);
-    const stale = await biomed.post(`/api/sites/${siteId}/capacity/signoffs`, { engineerName: 'A. Engineer', inputsHash: cap.body.inputsHash, flowPerPatientLMin: 30 });
+    const stale = await biomed.post(`/api/sites/${siteId}/capacity/signoffs`, {
+      engineerName: 'A. Engineer',
+      inputsHash: cap.body.inputsHash,
+      flowPerPatientLMin: 30,
+    });
     expect(stale.status).toBe(409);
     expect(stale.body.error.code).toBe('inputs_changed');
   });
@@ -454,7 +538,9 @@ describe("the engineer's sign-off", () => {
     const signed = await biomed.post(`/api/sites/${siteId}/capacity/signoffs`, { engineerName: 'A. Engineer', inputsHash: cap.body.inputsHash });
     expect(signed.status, JSON.stringify(signed.body)).toBe(200);
     const [ward]: { id: number }[] = await app.ds.query('SELECT w.id FROM ward w JOIN ward_feed f ON f.ward_id = w.id WHERE w.site_id = ? LIMIT 1', [siteId]);
-    await app.ds.getRepository(TherapyLineRow).insert({ wardId: ward.id, gasCode: 'O2', device: 'hfno', patients: 2, flowLMin: 40, hoursJson: null, weekdaysJson: null, label: '' });
+    await app.ds
+      .getRepository(TherapyLineRow)
+      .insert({ wardId: ward.id, gasCode: 'O2', device: 'hfno', patients: 2, flowLMin: 40, hoursJson: null, weekdaysJson: null, label: '' });
     const after = await biomed.get(`/api/sites/${siteId}/capacity`);
     const src = after.body.gases.find((g: { gasCode: string }) => g.gasCode === 'O2').sources[0];
     // 20 L/min before, plus 2 × 40 = 100 L/min mean demand now.

@@ -12,7 +12,11 @@ let sourceId: number;
 let wardId: number;
 
 /** A raw GET (fetch would decompress and hide the encoding): status, headers and the bytes as sent. */
-function raw(c: Client, path: string, headers: Record<string, string> = {}): Promise<{ status: number; headers: Record<string, string | string[] | undefined>; body: Buffer }> {
+function raw(
+  c: Client,
+  path: string,
+  headers: Record<string, string> = {},
+): Promise<{ status: number; headers: Record<string, string | string[] | undefined>; body: Buffer }> {
   const url = new URL(app.baseUrl + path);
   const cookie = [...c.cookies].map(([k, v]) => `${k}=${v}`).join('; ');
   return new Promise((resolve, reject) => {
@@ -32,7 +36,14 @@ beforeAll(async () => {
   org = await createTestOrg(app.ds);
   siteId = org.siteIds[0];
   fm = await signedIn(app, org.users.facilities_manager);
-  const src = await fm.post(`/api/sites/${siteId}/sources`, { name: 'Gzip tank', type: 'bulk_liquid', gasCode: 'O2', capacityKg: 10_000, evaporationPercentPerDay: 0.5, leadTimeHours: 48 });
+  const src = await fm.post(`/api/sites/${siteId}/sources`, {
+    name: 'Gzip tank',
+    type: 'bulk_liquid',
+    gasCode: 'O2',
+    capacityKg: 10_000,
+    evaporationPercentPerDay: 0.5,
+    leadTimeHours: 48,
+  });
   sourceId = src.body.id;
   const ward = await fm.post(`/api/sites/${siteId}/wards`, { name: 'Gzip ward', department: 'ward', beds: 20 });
   wardId = ward.body.id;

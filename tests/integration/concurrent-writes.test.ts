@@ -24,8 +24,14 @@ describe('concurrent writes at one site', () => {
     const siteId = org.siteIds[0];
     const names = Array.from({ length: 24 }, (_, i) => `Concurrent ward ${i + 1}`);
     const results = await Promise.all(names.map((name, i) => (i % 2 ? a : b).post(`/api/sites/${siteId}/wards`, { name, department: 'ward', beds: 12 })));
-    expect(results.map((r) => r.status).filter((s) => s !== 200), JSON.stringify(results.find((r) => r.status !== 200)?.body)).toEqual([]);
-    const rows: { name: string; n: number }[] = await app.ds.query(`SELECT name, COUNT(*) AS n FROM ward WHERE site_id = ? AND name LIKE 'Concurrent ward %' GROUP BY name`, [siteId]);
+    expect(
+      results.map((r) => r.status).filter((s) => s !== 200),
+      JSON.stringify(results.find((r) => r.status !== 200)?.body),
+    ).toEqual([]);
+    const rows: { name: string; n: number }[] = await app.ds.query(
+      `SELECT name, COUNT(*) AS n FROM ward WHERE site_id = ? AND name LIKE 'Concurrent ward %' GROUP BY name`,
+      [siteId],
+    );
     expect(rows).toHaveLength(names.length);
     expect(rows.every((r) => Number(r.n) === 1)).toBe(true);
     // Every write moved the site's data version on (the overview cache depends on it).

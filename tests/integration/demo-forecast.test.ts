@@ -43,14 +43,22 @@ describe('Monte Carlo persistence on the demo history', () => {
     expect(f.monteCarlo).toEqual({ demandCv: mc.cv, persistence: mc.persistence });
     // measurement for the record: the empty-time band of the tank without its reorder rule and deliveries,
     // over 30 days, with the fitted persistence against independent days
-    const bare = { ...o.input!, horizon_days: 30, deliveries: [], draws: 2000, source: { ...o.input!.source, reorder_level_kg: undefined, reorder_level_percent: undefined, reorder_level_days: undefined, order_up_to_kg: undefined } } as ForecastInput;
+    const bare = {
+      ...o.input!,
+      horizon_days: 30,
+      deliveries: [],
+      draws: 2000,
+      source: { ...o.input!.source, reorder_level_kg: undefined, reorder_level_percent: undefined, reorder_level_days: undefined, order_up_to_kg: undefined },
+    } as ForecastInput;
     const rel = (phi: number) => {
       const b = forecastSource({ ...bare, demand_persistence: phi }).bands!;
       return { p10Below: 1 - b.p10! / b.p50!, p90Above: b.p90! / b.p50! - 1, p50: b.p50! };
     };
     const fitted = rel(mc.persistence);
     const independent = rel(0);
-    console.log(`demo VIE: cv ${mc.cv.toFixed(3)}, fitted φ ${mc.persistence.toFixed(3)} over ${mc.days} days; P10 ${(fitted.p10Below * 100).toFixed(2)} % below P50 (independent days: ${(independent.p10Below * 100).toFixed(2)} %), P90 ${(fitted.p90Above * 100).toFixed(2)} % above (independent ${(independent.p90Above * 100).toFixed(2)} %), median ${fitted.p50.toFixed(0)} h`);
+    console.log(
+      `demo VIE: cv ${mc.cv.toFixed(3)}, fitted φ ${mc.persistence.toFixed(3)} over ${mc.days} days; P10 ${(fitted.p10Below * 100).toFixed(2)} % below P50 (independent days: ${(independent.p10Below * 100).toFixed(2)} %), P90 ${(fitted.p90Above * 100).toFixed(2)} % above (independent ${(independent.p90Above * 100).toFixed(2)} %), median ${fitted.p50.toFixed(0)} h`,
+    );
     expect(fitted.p10Below).toBeGreaterThanOrEqual(independent.p10Below);
   }, 120_000);
 });

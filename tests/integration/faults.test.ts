@@ -21,7 +21,14 @@ let ds: DataSource;
 let org: TestOrg;
 const children: ChildApp[] = [];
 
-const appEnv = (extra: Record<string, string> = {}) => ({ DB_PORT: String(mariadb.port), DB_NAME: DATABASE, LOG_LEVEL: 'error', LOGIN_RATE_LIMIT_PER_15_MIN: '100000', DB_POOL_SIZE: '10', ...extra });
+const appEnv = (extra: Record<string, string> = {}) => ({
+  DB_PORT: String(mariadb.port),
+  DB_NAME: DATABASE,
+  LOG_LEVEL: 'error',
+  LOGIN_RATE_LIMIT_PER_15_MIN: '100000',
+  DB_POOL_SIZE: '10',
+  ...extra,
+});
 
 async function startApp(extra: Record<string, string> = {}): Promise<ChildApp> {
   const child = await startChildApp(appEnv(extra));
@@ -77,7 +84,14 @@ describe('the database stops under load and comes back', () => {
 
   it('answers 503 with a message while it is down, keeps sessions, recovers by itself, loses and doubles no write', async () => {
     const app = await startApp();
-    const users = [org.users.facilities_manager, org.users.ward_lead, org.users.administrator, org.users.facilities_manager, org.users.purchasing_officer, org.users.biomedical_engineer];
+    const users = [
+      org.users.facilities_manager,
+      org.users.ward_lead,
+      org.users.administrator,
+      org.users.facilities_manager,
+      org.users.purchasing_officer,
+      org.users.biomedical_engineer,
+    ];
     const clients = await Promise.all(users.map((u) => signIn(app.baseUrl, u)));
     const siteId = org.siteIds[0];
     let phase: Outcome['phase'] = 'before';
@@ -90,10 +104,25 @@ describe('the database stops under load and comes back', () => {
       try {
         const res = await Promise.race([c.request(method, path, body), sleep(20_000).then(() => null)]);
         if (!res) return outcomes.push({ phase: started, endPhase: phase, what, status: 'no answer' });
-        outcomes.push({ phase: started, endPhase: phase, what, status: res.status, code: res.body?.error?.code, message: res.body?.error?.message, retryAfter: res.headers.get('retry-after'), ward });
+        outcomes.push({
+          phase: started,
+          endPhase: phase,
+          what,
+          status: res.status,
+          code: res.body?.error?.code,
+          message: res.body?.error?.message,
+          retryAfter: res.headers.get('retry-after'),
+          ward,
+        });
       } catch (e) {
         const cause = (e as { cause?: { code?: string; message?: string } }).cause;
-        outcomes.push({ phase: started, endPhase: phase, what, status: 'no answer', message: `${(e as Error).message}${cause ? ` (${cause.code ?? ''} ${cause.message ?? ''})` : ''}` });
+        outcomes.push({
+          phase: started,
+          endPhase: phase,
+          what,
+          status: 'no answer',
+          message: `${(e as Error).message}${cause ? ` (${cause.code ?? ''} ${cause.message ?? ''})` : ''}`,
+        });
       }
     };
 
@@ -150,7 +179,10 @@ describe('the database stops under load and comes back', () => {
     expect(app.proc.exitCode).toBeNull();
 
     // Writes: each acknowledged one is there once; each refused one is not there at all.
-    const rows: { name: string; n: number }[] = await ds.query(`SELECT name, COUNT(*) AS n FROM ward WHERE site_id = ? AND name LIKE 'Fault ward %' GROUP BY name`, [siteId]);
+    const rows: { name: string; n: number }[] = await ds.query(
+      `SELECT name, COUNT(*) AS n FROM ward WHERE site_id = ? AND name LIKE 'Fault ward %' GROUP BY name`,
+      [siteId],
+    );
     const stored = new Map(rows.map((r) => [r.name, Number(r.n)]));
     const writes = outcomes.filter((o) => o.what === 'write');
     expect(writes.filter((o) => o.status === 200).length).toBeGreaterThan(5);
@@ -170,12 +202,27 @@ describe('the mail service is away for a while', () => {
     const { enqueueMail } = await import('@backend/modules/orders/outbox.service');
     const { startMailService, stopMailService } = await import('@backend/mail/mail-service');
     const smtpPort = await freePort();
-    const jobs = { JOBS_ENABLED: 'true', SMTP_PORT: String(smtpPort), OUTBOX_POLL_MS: '200', OUTBOX_BACKOFF_BASE_MS: '200', OUTBOX_BACKOFF_MAX_MS: '1000', ORDERS_SCAN_MS: '3600000', ALERTS_POLL_MS: '3600000' };
+    const jobs = {
+      JOBS_ENABLED: 'true',
+      SMTP_PORT: String(smtpPort),
+      OUTBOX_POLL_MS: '200',
+      OUTBOX_BACKOFF_BASE_MS: '200',
+      OUTBOX_BACKOFF_MAX_MS: '1000',
+      ORDERS_SCAN_MS: '3600000',
+      ALERTS_POLL_MS: '3600000',
+    };
     const apps = [await startApp(jobs), await startApp(jobs)];
     const tag = `fault-mail-${Date.now()}`;
     const N = 12;
     await ds.transaction(async (m) => {
-      for (let i = 1; i <= N; i++) await enqueueMail(m, { organisationId: org.organisationId, kind: 'alert', to: `ward-${i}@test.example`, subject: `${tag} #${i}`, text: `Message ${i} of ${N}` });
+      for (let i = 1; i <= N; i++)
+        await enqueueMail(m, {
+          organisationId: org.organisationId,
+          kind: 'alert',
+          to: `ward-${i}@test.example`,
+          subject: `${tag} #${i}`,
+          text: `Message ${i} of ${N}`,
+        });
     });
     // No mail service: the workers try, fail and keep the messages.
     await until('failed attempts while the mail service is away', async () => {
@@ -187,12 +234,19 @@ describe('the mail service is away for a while', () => {
 
     const mail = await startMailService(ds, smtpPort);
     try {
-      await until('every message sent', async () => {
-        const [r] = await ds.query(`SELECT COUNT(*) AS n FROM mail_outbox WHERE subject LIKE ? AND status = 'sent'`, [`${tag} %`]);
-        return Number(r.n) === N;
-      }, 45_000);
+      await until(
+        'every message sent',
+        async () => {
+          const [r] = await ds.query(`SELECT COUNT(*) AS n FROM mail_outbox WHERE subject LIKE ? AND status = 'sent'`, [`${tag} %`]);
+          return Number(r.n) === N;
+        },
+        45_000,
+      );
       await sleep(1_500); // a late duplicate would arrive by now
-      const received: { subject: string; n: number }[] = await ds.query(`SELECT subject, COUNT(*) AS n FROM mail_message WHERE subject LIKE ? GROUP BY subject`, [`${tag} %`]);
+      const received: { subject: string; n: number }[] = await ds.query(
+        `SELECT subject, COUNT(*) AS n FROM mail_message WHERE subject LIKE ? GROUP BY subject`,
+        [`${tag} %`],
+      );
       expect(received).toHaveLength(N);
       expect(received.filter((r) => Number(r.n) !== 1)).toEqual([]);
     } finally {
@@ -213,7 +267,13 @@ describe('the app is killed during a CSV import', () => {
     let app = await startApp({ IMPORT_BATCH_ROWS: '500', IMPORT_POLL_MS: '100' });
     const fm = await signIn(app.baseUrl, org.users.facilities_manager);
     const siteId = org.siteIds[0];
-    const tank = await fm.post(`/api/sites/${siteId}/sources`, { name: `Fault tank ${Date.now()}`, type: 'bulk_liquid', gasCode: 'O2', capacityKg: 10000, evaporationPercentPerDay: 0.5 });
+    const tank = await fm.post(`/api/sites/${siteId}/sources`, {
+      name: `Fault tank ${Date.now()}`,
+      type: 'bulk_liquid',
+      gasCode: 'O2',
+      capacityKg: 10000,
+      evaporationPercentPerDay: 0.5,
+    });
     expect(tank.status, JSON.stringify(tank.body)).toBe(200);
     const sourceId = tank.body.id as number;
 
@@ -227,18 +287,34 @@ describe('the app is killed during a CSV import', () => {
     form.append('unit', '%');
     form.append('file', new Blob([csv], { type: 'text/csv' }), 'telemetry.csv');
     const cookie = () => `plenum.sid=${fm.cookies.get('plenum.sid')}`;
-    const up = await fetch(`${app.baseUrl}/api/sites/${siteId}/imports`, { method: 'POST', body: form, headers: { cookie: cookie(), 'x-csrf-token': fm.csrf! } });
+    const up = await fetch(`${app.baseUrl}/api/sites/${siteId}/imports`, {
+      method: 'POST',
+      body: form,
+      headers: { cookie: cookie(), 'x-csrf-token': fm.csrf! },
+    });
     const job = (await up.json()) as { id: number; status: string };
     expect(up.status, JSON.stringify(job)).toBe(200);
-    const status = async () => ((await ds.query('SELECT status, processed_rows, message FROM import_job WHERE id = ?', [job.id])) as { status: string; processed_rows: number; message: string }[])[0];
+    const status = async () =>
+      (
+        (await ds.query('SELECT status, processed_rows, message FROM import_job WHERE id = ?', [job.id])) as {
+          status: string;
+          processed_rows: number;
+          message: string;
+        }[]
+      )[0];
     await until('the file to be checked', async () => (await status()).status === 'ready', 60_000).catch(async (e) => {
       throw new Error(`${(e as Error).message}: ${JSON.stringify(await status())}`);
     });
     expect((await fm.post(`/api/imports/${job.id}/commit`, {})).status).toBe(200);
-    await until('the import to be under way', async () => {
-      const s = await status();
-      return s.status === 'running' && Number(s.processed_rows) > 0;
-    }, 60_000, 20);
+    await until(
+      'the import to be under way',
+      async () => {
+        const s = await status();
+        return s.status === 'running' && Number(s.processed_rows) > 0;
+      },
+      60_000,
+      20,
+    );
 
     app.proc.kill('SIGKILL');
     await app.exited;
@@ -250,7 +326,10 @@ describe('the app is killed during a CSV import', () => {
     app = await startApp({ IMPORT_BATCH_ROWS: '5000', IMPORT_POLL_MS: '100' });
     await until('the import to finish after the restart', async () => (await status()).status === 'done', 90_000, 250);
     expect(await count()).toBe(ROWS);
-    const [dupes] = await ds.query('SELECT COUNT(*) AS n FROM (SELECT taken_at FROM source_reading WHERE source_id = ? GROUP BY taken_at HAVING COUNT(*) > 1) d', [sourceId]);
+    const [dupes] = await ds.query(
+      'SELECT COUNT(*) AS n FROM (SELECT taken_at FROM source_reading WHERE source_id = ? GROUP BY taken_at HAVING COUNT(*) > 1) d',
+      [sourceId],
+    );
     expect(Number(dupes.n)).toBe(0);
     await app.stop();
   }, 240_000);

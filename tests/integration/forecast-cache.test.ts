@@ -25,11 +25,22 @@ afterAll(async () => {
 const kgPerH = () => 12_000 / freeGasLitresPerKg('O2', '15C');
 
 async function tankFeedingWard(name: string, extra: Record<string, unknown> = {}) {
-  const src = await fm.post(`/api/sites/${siteId}/sources`, { name, type: 'bulk_liquid', gasCode: 'O2', capacityKg: 10_000, evaporationPercentPerDay: 0.5, leadTimeHours: 48, ...extra });
+  const src = await fm.post(`/api/sites/${siteId}/sources`, {
+    name,
+    type: 'bulk_liquid',
+    gasCode: 'O2',
+    capacityKg: 10_000,
+    evaporationPercentPerDay: 0.5,
+    leadTimeHours: 48,
+    ...extra,
+  });
   expect(src.status).toBe(200);
   const ward = await fm.post(`/api/sites/${siteId}/wards`, { name: `${name} ward`, department: 'ward', beds: 20 });
   expect((await fm.put(`/api/wards/${ward.body.id}/feeds`, { feeds: [{ sourceId: src.body.id, gasCode: 'O2', role: 'primary' }] })).status).toBe(200);
-  expect((await fm.put(`/api/wards/${ward.body.id}/therapy`, { lines: [{ gasCode: 'O2', device: 'custom', patients: 20, flowLMin: 10, label: 'constant' }] })).status).toBe(200);
+  expect(
+    (await fm.put(`/api/wards/${ward.body.id}/therapy`, { lines: [{ gasCode: 'O2', device: 'custom', patients: 20, flowLMin: 10, label: 'constant' }] }))
+      .status,
+  ).toBe(200);
   return { sourceId: src.body.id as number, wardId: ward.body.id as number };
 }
 
@@ -80,7 +91,9 @@ describe('cached forecast answers are never stale', () => {
     // 20 × 10 L/min × 1440 min = 288,000 L/day (no leakage entered).
     expect(before.body.perGas[0].modelledLPerDay).toBeCloseTo(288_000, 6);
     await fm.get(`/api/sources/${sourceId}?draws=0`);
-    expect((await fm.put(`/api/wards/${wardId}/therapy`, { lines: [{ gasCode: 'O2', device: 'custom', patients: 5, flowLMin: 10, label: 'fewer' }] })).status).toBe(200);
+    expect(
+      (await fm.put(`/api/wards/${wardId}/therapy`, { lines: [{ gasCode: 'O2', device: 'custom', patients: 5, flowLMin: 10, label: 'fewer' }] })).status,
+    ).toBe(200);
     const after = await fm.get(`/api/wards/${wardId}`);
     // 5 × 10 × 1440 = 72,000 L/day.
     expect(after.body.perGas[0].modelledLPerDay).toBeCloseTo(72_000, 6);
@@ -96,7 +109,10 @@ describe('cached forecast answers are never stale', () => {
     const { sourceId } = await tankFeedingWard('Cache tank C', { leadTimeHours: null, supplierId: sup.body.id });
     await fm.post(`/api/sources/${sourceId}/readings`, { kind: 'level_percent', value: 60, takenAt: hoursAgo(1) });
     expect((await fm.get(`/api/sources/${sourceId}?draws=0`)).body.outlook.leadTimeHours).toBe(24);
-    expect((await admin.put(`/api/suppliers/${sup.body.id}`, { name: 'Cache supplier', orderEmail: 'orders@example.test', leadTimeHours: 72, currency: 'GBP' })).status).toBe(200);
+    expect(
+      (await admin.put(`/api/suppliers/${sup.body.id}`, { name: 'Cache supplier', orderEmail: 'orders@example.test', leadTimeHours: 72, currency: 'GBP' }))
+        .status,
+    ).toBe(200);
     const after = await fm.get(`/api/sources/${sourceId}?draws=0`);
     expect(after.body.outlook.leadTimeHours).toBe(72);
     expect(after.body.method.leadTimeHours).toBe(72);

@@ -52,7 +52,10 @@ async function openRequests(sourceId: number) {
 
 /** Messages the local mail service received whose subject has `text` (and, when given, sent to `to`). */
 async function messagesAbout(text: string, to?: string) {
-  const qb = app.ds.getRepository(MailMessage).createQueryBuilder('m').where('m.subject LIKE :q', { q: `%${text}%` });
+  const qb = app.ds
+    .getRepository(MailMessage)
+    .createQueryBuilder('m')
+    .where('m.subject LIKE :q', { q: `%${text}%` });
   if (to) qb.andWhere('m.mail_to LIKE :to', { to: `%${to}%` });
   return qb.getMany();
 }
@@ -71,7 +74,12 @@ describe('reorder requests raised from the forecast', () => {
   it('raises one request for a crossing however often the forecast runs, with the quantity from the order-up-to level', async () => {
     // 8 full cylinders, below the reorder level of 10: the forecast orders at once, arriving after 24 h.
     const st = await cylinderStore(app.ds, org, siteId, { full: 8, countedAt: thisHour() });
-    const runs = await Promise.all([raiseRequestsForCrossings([siteId]), raiseRequestsForCrossings([siteId]), raiseRequestsForCrossings([siteId]), raiseRequestsForCrossings([siteId])]);
+    const runs = await Promise.all([
+      raiseRequestsForCrossings([siteId]),
+      raiseRequestsForCrossings([siteId]),
+      raiseRequestsForCrossings([siteId]),
+      raiseRequestsForCrossings([siteId]),
+    ]);
     for (let i = 0; i < 3; i++) runs.push(await raiseRequestsForCrossings([siteId]));
     const scan = await fm.post('/api/requests/scan');
     expect(scan.status).toBe(200);
@@ -334,7 +342,29 @@ describe('approval, purchase order and e-mail', () => {
     for (let i = 0; i < 50; i++) {
       const st = await cylinderStore(app.ds, org2, org2.siteIds[0], { full: 25, countedAt: thisHour() });
       const r = await app.ds.getRepository(ReorderRequest).save(
-        app.ds.getRepository(ReorderRequest).create({ organisationId: org2.organisationId, siteId: org2.siteIds[0], sourceId: st.source.id, supplierId: st.supplier.id, origin: 'auto', status: 'submitted', unit: 'cylinders', gasCode: 'O2', cylinderTypeId: st.cylinderType.id, suggestedQuantity: 5, quantity: 5, quantityReason: '', unitPriceMinor: 2600, totalMinor: 13_000, currency: 'GBP', neededBy: null, triggerJson: null, problem: '', note: '', requestedByUserId: null, version: 1 }),
+        app.ds.getRepository(ReorderRequest).create({
+          organisationId: org2.organisationId,
+          siteId: org2.siteIds[0],
+          sourceId: st.source.id,
+          supplierId: st.supplier.id,
+          origin: 'auto',
+          status: 'submitted',
+          unit: 'cylinders',
+          gasCode: 'O2',
+          cylinderTypeId: st.cylinderType.id,
+          suggestedQuantity: 5,
+          quantity: 5,
+          quantityReason: '',
+          unitPriceMinor: 2600,
+          totalMinor: 13_000,
+          currency: 'GBP',
+          neededBy: null,
+          triggerJson: null,
+          problem: '',
+          note: '',
+          requestedByUserId: null,
+          version: 1,
+        }),
       );
       ids.push(r.id);
     }
@@ -355,7 +385,23 @@ describe('the mail outbox', () => {
   async function queue(n: number, tag: string) {
     await app.ds.transaction(async (m) => {
       for (let i = 0; i < n; i++) {
-        await m.getRepository(MailOutbox).insert({ organisationId: org.organisationId, kind: 'alert', toAddress: 'someone@test.example', ccAddress: '', subject: `${tag} message ${i}`, textBody: 'test', purchaseOrderId: null, requestId: null, dedupeKey: null, status: 'pending', attempts: 0, nextAttemptAt: new Date(), lastError: '', messageId: null, sentAt: null });
+        await m.getRepository(MailOutbox).insert({
+          organisationId: org.organisationId,
+          kind: 'alert',
+          toAddress: 'someone@test.example',
+          ccAddress: '',
+          subject: `${tag} message ${i}`,
+          textBody: 'test',
+          purchaseOrderId: null,
+          requestId: null,
+          dedupeKey: null,
+          status: 'pending',
+          attempts: 0,
+          nextAttemptAt: new Date(),
+          lastError: '',
+          messageId: null,
+          sentAt: null,
+        });
       }
     });
   }
@@ -384,14 +430,24 @@ describe('the mail outbox', () => {
     await stopMailService(mail);
     await queue(5, tag);
     await drainOutbox(app.ds);
-    const waiting = await app.ds.getRepository(MailOutbox).createQueryBuilder('o').where('o.subject LIKE :q', { q: `${tag}%` }).getMany();
+    const waiting = await app.ds
+      .getRepository(MailOutbox)
+      .createQueryBuilder('o')
+      .where('o.subject LIKE :q', { q: `${tag}%` })
+      .getMany();
     expect(waiting.every((o) => o.status === 'pending' && o.attempts >= 1 && o.lastError !== '')).toBe(true);
     // Refused connections are retried until the service answers (never marked failed, however many attempts).
     for (let i = 0; i < 4; i++) {
       await new Promise((r) => setTimeout(r, 120));
       await drainOutbox(app.ds);
     }
-    expect((await app.ds.getRepository(MailOutbox).createQueryBuilder('o').where('o.subject LIKE :q AND o.status = :s', { q: `${tag}%`, s: 'pending' }).getCount())).toBe(5);
+    expect(
+      await app.ds
+        .getRepository(MailOutbox)
+        .createQueryBuilder('o')
+        .where('o.subject LIKE :q AND o.status = :s', { q: `${tag}%`, s: 'pending' })
+        .getCount(),
+    ).toBe(5);
     mail = await startMailService(app.ds, smtpPort);
     for (let i = 0; i < 5 && (await messagesAbout(tag)).length < 5; i++) {
       await new Promise((r) => setTimeout(r, 120));
@@ -427,7 +483,9 @@ describe('deliveries', () => {
     expect(after.body.outlook.daysOfStock - before.body.outlook.daysOfStock).toBeCloseTo((short * perCylL) / 14_400, 1);
     const reading = await app.ds.getRepository(SourceReading).findOneByOrFail({ sourceId: st.source.id, method: 'delivery_note' });
     expect(JSON.parse(reading.detailJson!).full).toBe(8 + short);
-    const sd = await app.ds.getRepository(ScheduledDelivery).findOneByOrFail({ id: (await app.ds.getRepository(PurchaseOrder).findOneByOrFail({ id: orderId })).scheduledDeliveryId! });
+    const sd = await app.ds
+      .getRepository(ScheduledDelivery)
+      .findOneByOrFail({ id: (await app.ds.getRepository(PurchaseOrder).findOneByOrFail({ id: orderId })).scheduledDeliveryId! });
     expect(sd.status).toBe('delivered');
     const req = await po.get(`/api/requests/${r.id}`);
     expect(req.body.status).toBe('part_delivered');
@@ -444,7 +502,12 @@ describe('spend, rental and alerts', () => {
     const c = await signedIn(app, officer.email);
     const dayStart = new Date(Math.floor(Date.now() / 86_400_000) * 86_400_000);
     // Counted 3 days ago at midnight UTC: that day, the next two and today = 4 cylinder-days per cylinder.
-    const st = await cylinderStore(app.ds, org3, org3.siteIds[0], { full: 8, countedAt: new Date(dayStart.getTime() - 3 * 86_400_000), supplierName: '=HYPERLINK("x")', rentalMinorPerCylinderDay: 9 });
+    const st = await cylinderStore(app.ds, org3, org3.siteIds[0], {
+      full: 8,
+      countedAt: new Date(dayStart.getTime() - 3 * 86_400_000),
+      supplierName: '=HYPERLINK("x")',
+      rentalMinorPerCylinderDay: 9,
+    });
     await raiseRequestsForCrossings([org3.siteIds[0]]);
     const [r] = await app.ds.getRepository(ReorderRequest).findBy({ sourceId: st.source.id });
     expect((await c.post(`/api/requests/${r.id}/approve`, {})).status).toBe(200);

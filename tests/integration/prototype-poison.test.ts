@@ -15,7 +15,29 @@ import { idFixtures, type IdFixtures } from '../support/fixtures';
  */
 const POISON = ['__proto__', 'constructor', 'prototype', 'toString', 'hasOwnProperty', 'valueOf'];
 /** Query keys of the list and report routes (the shared query schemas), each poisoned on its own. */
-const QUERY_KEYS = ['sort', 'dir', 'q', 'page', 'pageSize', 'siteId', 'entity', 'scenario', 'kind', 'status', 'from', 'to', 'table', 'date', 'days', 'draws', 'horizonDays', 'flowPerPatientLMin', 'vaporiserDerating', 'peakHoursPerDay', 'download'];
+const QUERY_KEYS = [
+  'sort',
+  'dir',
+  'q',
+  'page',
+  'pageSize',
+  'siteId',
+  'entity',
+  'scenario',
+  'kind',
+  'status',
+  'from',
+  'to',
+  'table',
+  'date',
+  'days',
+  'draws',
+  'horizonDays',
+  'flowPerPatientLMin',
+  'vaporiserDerating',
+  'peakHoursPerDay',
+  'download',
+];
 const ROLES: Role[] = ['administrator', 'facilities_manager'];
 const PARALLEL = 6;
 
@@ -47,7 +69,8 @@ function fixtureFor(route: RouteDef, name: string): string {
 /** Every address to try on one route: each `:param` poisoned in turn, all of them, and an extra segment. */
 function poisonedPaths(route: RouteDef, word: string): string[] {
   const params = [...route.path.matchAll(/:(\w+)/g)].map((m) => m[1]);
-  const withValues = (poisoned: Set<string>) => route.path.replace(/:(\w+)/g, (_m, name: string) => (poisoned.has(name) ? encodeURIComponent(word) : fixtureFor(route, name)));
+  const withValues = (poisoned: Set<string>) =>
+    route.path.replace(/:(\w+)/g, (_m, name: string) => (poisoned.has(name) ? encodeURIComponent(word) : fixtureFor(route, name)));
   const out = new Set<string>();
   for (const p of params) out.add(withValues(new Set([p])));
   if (params.length > 1) out.add(withValues(new Set(params)));
@@ -102,9 +125,11 @@ async function stillServes(reader: Client, signIn = false): Promise<string | nul
 
 async function inParallel<T>(items: T[], n: number, f: (item: T) => Promise<void>): Promise<void> {
   let next = 0;
-  await Promise.all(Array.from({ length: n }, async () => {
-    while (next < items.length) await f(items[next++]);
-  }));
+  await Promise.all(
+    Array.from({ length: n }, async () => {
+      while (next < items.length) await f(items[next++]);
+    }),
+  );
 }
 
 describe('prototype names in every query value and path segment of every GET route', () => {

@@ -1,13 +1,6 @@
-import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import type { Logger, QueryRunner } from "typeorm";
-import {
-  createTestOrg,
-  signedIn,
-  startTestApp,
-  type Client,
-  type TestApp,
-  type TestOrg,
-} from "../support/test-app";
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import type { Logger, QueryRunner } from 'typeorm';
+import { createTestOrg, signedIn, startTestApp, type Client, type TestApp, type TestOrg } from '../support/test-app';
 
 /**
  * The hot reads of source_reading stay bounded at health-system size: every SELECT the app sends on
@@ -47,7 +40,7 @@ async function insertTelemetry(sourceId: number, hours: number) {
       values.push(sourceId, new Date(end - h * 3_600_000), pct, pct * 100);
     }
     await app.ds.query(
-      `INSERT INTO source_reading (source_id, taken_at, kind, value, detail_json, contents, method, taken_by_user_id, note) VALUES ${rows.join(",")}`,
+      `INSERT INTO source_reading (source_id, taken_at, kind, value, detail_json, contents, method, taken_by_user_id, note) VALUES ${rows.join(',')}`,
       values,
     );
   }
@@ -60,9 +53,9 @@ beforeAll(async () => {
   fm = await signedIn(app, org.users.facilities_manager);
   purchasing = await signedIn(app, org.users.purchasing_officer);
   const tank = await fm.post(`/api/sites/${siteId}/sources`, {
-    name: "Plan tank",
-    type: "bulk_liquid",
-    gasCode: "O2",
+    name: 'Plan tank',
+    type: 'bulk_liquid',
+    gasCode: 'O2',
     capacityKg: 10_000,
     evaporationPercentPerDay: 0.4,
     leadTimeHours: 48,
@@ -70,15 +63,15 @@ beforeAll(async () => {
   expect(tank.status).toBe(200);
   tankId = tank.body.id;
   const ward = await fm.post(`/api/sites/${siteId}/wards`, {
-    name: "Plan ward",
-    department: "ward",
+    name: 'Plan ward',
+    department: 'ward',
     beds: 20,
   });
   expect(ward.status).toBe(200);
   expect(
     (
       await fm.put(`/api/wards/${ward.body.id}/feeds`, {
-        feeds: [{ sourceId: tankId, gasCode: "O2", role: "primary" }],
+        feeds: [{ sourceId: tankId, gasCode: 'O2', role: 'primary' }],
       })
     ).status,
   ).toBe(200);
@@ -87,11 +80,11 @@ beforeAll(async () => {
       await fm.put(`/api/wards/${ward.body.id}/therapy`, {
         lines: [
           {
-            gasCode: "O2",
-            device: "custom",
+            gasCode: 'O2',
+            device: 'custom',
             patients: 10,
             flowLMin: 10,
-            label: "constant",
+            label: 'constant',
           },
         ],
       })
@@ -103,40 +96,33 @@ beforeAll(async () => {
   const otherOrg = await createTestOrg(app.ds);
   const otherFm = await signedIn(app, otherOrg.users.facilities_manager);
   for (let k = 0; k < OTHER_TANKS; k++) {
-    const other = await otherFm.post(
-      `/api/sites/${otherOrg.siteIds[0]}/sources`,
-      {
-        name: `Other tank ${k + 1}`,
-        type: "bulk_liquid",
-        gasCode: "O2",
-        capacityKg: 10_000,
-        evaporationPercentPerDay: 0.4,
-        leadTimeHours: 48,
-      },
-    );
+    const other = await otherFm.post(`/api/sites/${otherOrg.siteIds[0]}/sources`, {
+      name: `Other tank ${k + 1}`,
+      type: 'bulk_liquid',
+      gasCode: 'O2',
+      capacityKg: 10_000,
+      evaporationPercentPerDay: 0.4,
+      leadTimeHours: 48,
+    });
     expect(other.status).toBe(200);
     await insertTelemetry(other.body.id, HOURS);
   }
   const second = await fm.post(`/api/sites/${siteId}/sources`, {
-    name: "Plan tank 2",
-    type: "bulk_liquid",
-    gasCode: "O2",
+    name: 'Plan tank 2',
+    type: 'bulk_liquid',
+    gasCode: 'O2',
     capacityKg: 10_000,
     evaporationPercentPerDay: 0.4,
     leadTimeHours: 48,
   });
   expect(second.status).toBe(200);
   await insertTelemetry(second.body.id, HOURS);
-  await app.ds.query("ANALYZE TABLE source_reading");
+  await app.ds.query('ANALYZE TABLE source_reading');
 
   // Capture every query the app sends from here on (the logger is called before each query runs).
   const logger = app.ds.logger as Logger;
   const original = logger.logQuery.bind(logger);
-  logger.logQuery = (
-    query: string,
-    parameters?: unknown[],
-    runner?: QueryRunner,
-  ) => {
+  logger.logQuery = (query: string, parameters?: unknown[], runner?: QueryRunner) => {
     captured.push({ sql: query, params: parameters ?? [] });
     return original(query, parameters, runner);
   };
@@ -152,14 +138,9 @@ afterAll(async () => {
 
 /** The names a statement gives source_reading (the table itself and each alias). */
 function readingAliases(sql: string): Set<string> {
-  const out = new Set(["source_reading"]);
-  for (const m of sql.matchAll(
-    /`?source_reading`?\s+(?:AS\s+)?`?([A-Za-z_][A-Za-z0-9_]*)`?/gi,
-  )) {
-    if (
-      !/^(WHERE|JOIN|LEFT|INNER|ON|GROUP|ORDER|LIMIT|SET|VALUES)$/i.test(m[1])
-    )
-      out.add(m[1]);
+  const out = new Set(['source_reading']);
+  for (const m of sql.matchAll(/`?source_reading`?\s+(?:AS\s+)?`?([A-Za-z_][A-Za-z0-9_]*)`?/gi)) {
+    if (!/^(WHERE|JOIN|LEFT|INNER|ON|GROUP|ORDER|LIMIT|SET|VALUES)$/i.test(m[1])) out.add(m[1]);
   }
   return out;
 }
@@ -189,15 +170,15 @@ type PlanRow = {
   Extra: string | null;
 };
 
-describe("hot queries on source_reading use an index", () => {
-  it("no plan of the overview, source detail, readings list, reconciliation or spend scans the whole readings table", async () => {
+describe('hot queries on source_reading use an index', () => {
+  it('no plan of the overview, source detail, readings list, reconciliation or spend scans the whole readings table', async () => {
     const calls: [string, Client][] = [
-      ["/api/overview", fm],
+      ['/api/overview', fm],
       [`/api/sources/${tankId}?draws=20`, fm],
       [`/api/sources/${tankId}/readings?page=3&pageSize=50`, fm],
       [`/api/sources/${tankId}/reconciliation?days=60`, fm],
       [`/api/sites/${siteId}/reconciliation?days=60`, fm],
-      ["/api/spend", purchasing],
+      ['/api/spend', purchasing],
     ];
     const perRoute = new Map<string, number>();
     const rowsRead = new Map<string, number>();
@@ -205,26 +186,14 @@ describe("hot queries on source_reading use an index", () => {
     for (const [path, client] of calls) {
       const before = captured.length;
       const res = await client.get(path);
-      expect(
-        res.status,
-        `${path}: ${JSON.stringify(res.body).slice(0, 300)}`,
-      ).toBe(200);
-      const reads = captured
-        .slice(before)
-        .filter(
-          (q) => /source_reading/i.test(q.sql) && /^\s*SELECT/i.test(q.sql),
-        );
+      expect(res.status, `${path}: ${JSON.stringify(res.body).slice(0, 300)}`).toBe(200);
+      const reads = captured.slice(before).filter((q) => /source_reading/i.test(q.sql) && /^\s*SELECT/i.test(q.sql));
       perRoute.set(path, reads.length);
-      if (path === "/api/overview")
-        overviewSql = [...new Set(reads.map((q) => q.sql))];
+      if (path === '/api/overview') overviewSql = [...new Set(reads.map((q) => q.sql))];
     }
     // Each hot path read the readings table (otherwise this test would check nothing); spend reads it
     // only for cylinder sources with rental, which this organisation has none of.
-    for (const [path, n] of perRoute)
-      if (!path.startsWith("/api/spend"))
-        expect(n, `${path} sent no SELECT on source_reading`).toBeGreaterThan(
-          0,
-        );
+    for (const [path, n] of perRoute) if (!path.startsWith('/api/spend')) expect(n, `${path} sent no SELECT on source_reading`).toBeGreaterThan(0);
 
     const seen = new Set<string>();
     const scans: string[] = [];
@@ -232,23 +201,13 @@ describe("hot queries on source_reading use an index", () => {
     await runner.connect();
     try {
       for (const q of captured) {
-        if (
-          !/source_reading/i.test(q.sql) ||
-          !/^\s*SELECT/i.test(q.sql) ||
-          seen.has(q.sql)
-        )
-          continue;
+        if (!/source_reading/i.test(q.sql) || !/^\s*SELECT/i.test(q.sql) || seen.has(q.sql)) continue;
         seen.add(q.sql);
-        const plan = (await runner.query(
-          `EXPLAIN ${q.sql}`,
-          q.params,
-        )) as PlanRow[];
+        const plan = (await runner.query(`EXPLAIN ${q.sql}`, q.params)) as PlanRow[];
         const aliases = readingAliases(q.sql);
         const read = await handlerReads(runner, q);
         rowsRead.set(q.sql, read);
-        console.log(
-          `\nEXPLAIN ${q.sql.replace(/\s+/g, " ").slice(0, 400)}\n(index and row reads when run: ${read})`,
-        );
+        console.log(`\nEXPLAIN ${q.sql.replace(/\s+/g, ' ').slice(0, 400)}\n(index and row reads when run: ${read})`);
         console.table(
           plan.map((r) => ({
             id: r.id,
@@ -260,28 +219,20 @@ describe("hot queries on source_reading use an index", () => {
             Extra: r.Extra,
           })),
         );
-        for (const r of plan)
-          if (r.type === "ALL" && r.table && aliases.has(r.table))
-            scans.push(
-              `${r.table} in: ${q.sql.replace(/\s+/g, " ").slice(0, 300)}`,
-            );
+        for (const r of plan) if (r.type === 'ALL' && r.table && aliases.has(r.table)) scans.push(`${r.table} in: ${q.sql.replace(/\s+/g, ' ').slice(0, 300)}`);
       }
     } finally {
       await runner.release();
     }
     expect(seen.size).toBeGreaterThanOrEqual(4);
-    expect(scans, "full scans of source_reading").toEqual([]);
+    expect(scans, 'full scans of source_reading').toEqual([]);
 
     // Bounded, not only indexed: the overview's reads of source_reading (the newest reading of each
     // source and the last 21 days) stay well below the site's whole history of 2 × 2,160 readings; a
     // plan that walks every reading of the site's sources (and asks of each whether it is the newest)
     // reads all of it. 21 days × 24 h × 2 tanks = 1,008 recent readings, plus a few per source.
-    const overviewReads = overviewSql
-      .filter((q) => rowsRead.has(q))
-      .reduce((sum, q) => sum + rowsRead.get(q)!, 0);
-    console.log(
-      `overview: ${overviewReads} index and row reads of source_reading (history: ${2 * HOURS})`,
-    );
+    const overviewReads = overviewSql.filter((q) => rowsRead.has(q)).reduce((sum, q) => sum + rowsRead.get(q)!, 0);
+    console.log(`overview: ${overviewReads} index and row reads of source_reading (history: ${2 * HOURS})`);
     expect(overviewReads).toBeGreaterThan(0);
     expect(overviewReads).toBeLessThan(2 * HOURS * 0.5);
   });

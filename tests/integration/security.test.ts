@@ -53,7 +53,12 @@ describe('sign-in brute force', () => {
     expect(right.status).toBe(429);
     expect(right.body.csrfToken).toBeUndefined();
     // Another address (behind the configured proxy) has its own allowance.
-    const other = await new Client(app.baseUrl).request('POST', '/api/auth/login', { email: org.users.facilities_manager, password: PASSWORD }, { headers: { 'x-forwarded-for': '203.0.113.7' } });
+    const other = await new Client(app.baseUrl).request(
+      'POST',
+      '/api/auth/login',
+      { email: org.users.facilities_manager, password: PASSWORD },
+      { headers: { 'x-forwarded-for': '203.0.113.7' } },
+    );
     expect(other.status).toBe(200);
   });
 
@@ -62,7 +67,8 @@ describe('sign-in brute force', () => {
     const email = org.users.ward_lead;
     const from = (i: number) => ({ headers: { 'x-forwarded-for': `198.51.100.${i + 1}` } });
     const c = new Client(app.baseUrl);
-    for (let i = 1; i < LOGIN_MAX_FAILURES; i++) expect((await c.request('POST', '/api/auth/login', { email, password: `wrong-${i}-password` }, from(i))).status).toBe(401);
+    for (let i = 1; i < LOGIN_MAX_FAILURES; i++)
+      expect((await c.request('POST', '/api/auth/login', { email, password: `wrong-${i}-password` }, from(i))).status).toBe(401);
     expect((await c.request('POST', '/api/auth/login', { email, password: 'wrong-last-password' }, from(LOGIN_MAX_FAILURES))).status).toBe(423);
     const right = await c.request('POST', '/api/auth/login', { email, password: PASSWORD }, from(50));
     expect(right.status).toBe(423);
@@ -110,7 +116,15 @@ describe('passwords are never logged or returned', () => {
 
     const admin = new Client(child.baseUrl);
     expect(keep(await admin.login(org.users.administrator, PASSWORD)).status).toBe(200);
-    const created = keep(await admin.post('/api/users', { email: `new-user-${Date.now()}@test.example`, name: 'New user', roles: ['ward_lead'], siteIds: org.siteIds, password: CREATED }));
+    const created = keep(
+      await admin.post('/api/users', {
+        email: `new-user-${Date.now()}@test.example`,
+        name: 'New user',
+        roles: ['ward_lead'],
+        siteIds: org.siteIds,
+        password: CREATED,
+      }),
+    );
     expect(created.status).toBe(200);
     keep(await admin.patch(`/api/users/${created.body.id}`, { password: `${CREATED}-reset` }));
     keep(await admin.get('/api/audit'));
@@ -198,7 +212,10 @@ describe('security headers', () => {
     expectHardened(missing.headers, '404');
     // With COOKIE_SECURE the cookie is only set on a request that came over TLS (to the proxy).
     const c = new Client(app.baseUrl);
-    expect((await c.request('POST', '/api/auth/login', { email: org.users.facilities_manager, password: PASSWORD }, { headers: { 'x-forwarded-proto': 'https' } })).status).toBe(200);
+    expect(
+      (await c.request('POST', '/api/auth/login', { email: org.users.facilities_manager, password: PASSWORD }, { headers: { 'x-forwarded-proto': 'https' } }))
+        .status,
+    ).toBe(200);
     const data = await c.get('/api/overview');
     expect(data.status).toBe(200);
     expectHardened(data.headers, 'overview');
@@ -209,7 +226,12 @@ describe('security headers', () => {
   });
 
   it('with COOKIE_SECURE the session cookie is Secure, HttpOnly and SameSite behind a TLS proxy', async () => {
-    const res = await new Client(app.baseUrl).request('POST', '/api/auth/login', { email: org.users.ward_lead, password: PASSWORD }, { headers: { 'x-forwarded-proto': 'https' } });
+    const res = await new Client(app.baseUrl).request(
+      'POST',
+      '/api/auth/login',
+      { email: org.users.ward_lead, password: PASSWORD },
+      { headers: { 'x-forwarded-proto': 'https' } },
+    );
     expect(res.status).toBe(200);
     const cookie = res.headers.getSetCookie().find((h) => h.startsWith('plenum.sid='));
     expect(cookie).toMatch(/;\s*Secure/i);
@@ -242,12 +264,23 @@ describe('uploads refuse what is not CSV text or is too large, storing nothing',
     const form = new FormData();
     form.append('kind', 'tank_readings');
     form.append('file', new Blob([bytes as Uint8Array<ArrayBuffer>], { type }), name);
-    const res = await fetch(`${app.baseUrl}/api/sites/${org.siteIds[0]}/imports`, { method: 'POST', body: form, headers: { cookie: `plenum.sid=${fm.cookies.get('plenum.sid')}`, 'x-csrf-token': fm.csrf! } });
+    const res = await fetch(`${app.baseUrl}/api/sites/${org.siteIds[0]}/imports`, {
+      method: 'POST',
+      body: form,
+      headers: { cookie: `plenum.sid=${fm.cookies.get('plenum.sid')}`, 'x-csrf-token': fm.csrf! },
+    });
     return { status: res.status, body: (await res.json()) as any };
   }
   const stored = async () => {
-    const [row] = await app.ds.query('SELECT (SELECT COUNT(*) FROM import_file WHERE site_id = ?) AS files, (SELECT COUNT(*) FROM import_job WHERE site_id = ?) AS jobs', [org.siteIds[0], org.siteIds[0]]);
-    return { files: Number(row.files), jobs: Number(row.jobs), onDisk: readdirSync(uploadDir, { recursive: true, withFileTypes: true }).filter((d) => d.isFile()).length };
+    const [row] = await app.ds.query(
+      'SELECT (SELECT COUNT(*) FROM import_file WHERE site_id = ?) AS files, (SELECT COUNT(*) FROM import_job WHERE site_id = ?) AS jobs',
+      [org.siteIds[0], org.siteIds[0]],
+    );
+    return {
+      files: Number(row.files),
+      jobs: Number(row.jobs),
+      onDisk: readdirSync(uploadDir, { recursive: true, withFileTypes: true }).filter((d) => d.isFile()).length,
+    };
   };
 
   // PNG signature and header bytes (PNG specification, section 5.2): binary with NUL bytes.
@@ -259,9 +292,21 @@ describe('uploads refuse what is not CSV text or is too large, storing nothing',
     ['a PNG image', 'level.png', () => png, 400, /binary|not CSV|not UTF-8/i],
     ['a PNG image named .csv', 'level.csv', () => png, 400, /binary|not CSV|not UTF-8/i],
     ['an Excel workbook', 'levels.xlsx', () => xlsx, 400, /binary|not CSV|not UTF-8/i],
-    ['UTF-16 text', 'levels.csv', () => new Uint8Array([0xff, 0xfe, ...Array.from(new TextEncoder().encode('time,level\n')).flatMap((b) => [b, 0])]), 400, /UTF-16/],
+    [
+      'UTF-16 text',
+      'levels.csv',
+      () => new Uint8Array([0xff, 0xfe, ...Array.from(new TextEncoder().encode('time,level\n')).flatMap((b) => [b, 0])]),
+      400,
+      /UTF-16/,
+    ],
     ['an empty file', 'levels.csv', () => new Uint8Array(), 400, /empty/i],
-    [`a CSV over ${MAX_MB} MB`, 'levels.csv', () => new TextEncoder().encode('time,level_percent\n' + '2027-01-04T00:00,50\n'.repeat(Math.ceil((MAX_MB * 1.2 * 1024 * 1024) / 20))), 413, /upload limit/],
+    [
+      `a CSV over ${MAX_MB} MB`,
+      'levels.csv',
+      () => new TextEncoder().encode('time,level_percent\n' + '2027-01-04T00:00,50\n'.repeat(Math.ceil((MAX_MB * 1.2 * 1024 * 1024) / 20))),
+      413,
+      /upload limit/,
+    ],
   ];
 
   for (const [what, name, bytes, status, message] of cases) {
@@ -290,13 +335,33 @@ describe('uploads refuse what is not CSV text or is too large, storing nothing',
 
   // Multipart framing (RFC 7578): parts separated by "--boundary", the body closed by "--boundary--".
   const malformed: [string, () => string, number, RegExp][] = [
-    ['a body cut off in the middle of the file', () => part('kind', 'tank_readings') + part('file', csv, 'levels.csv').slice(0, -20), 400, /upload was cut off|incomplete/i],
+    [
+      'a body cut off in the middle of the file',
+      () => part('kind', 'tank_readings') + part('file', csv, 'levels.csv').slice(0, -20),
+      400,
+      /upload was cut off|incomplete/i,
+    ],
     ['a body without its closing boundary', () => part('kind', 'tank_readings') + part('file', csv, 'levels.csv'), 400, /upload was cut off|incomplete/i],
     ['two files', () => part('kind', 'tank_readings') + part('file', csv, 'a.csv') + part('file', csv, 'b.csv') + end, 400, /one CSV file/],
     ['a file in another field', () => part('kind', 'tank_readings') + part('data', csv, 'levels.csv') + end, 400, /one CSV file, in the form field/],
-    ['a form field over 64 KB', () => part('kind', 'tank_readings') + part('note', 'x'.repeat(70 * 1024)) + part('file', csv, 'levels.csv') + end, 400, /field .*too long/i],
-    ['too many form fields', () => Array.from({ length: 25 }, (_, i) => part(`f${i}`, 'x')).join('') + part('file', csv, 'levels.csv') + end, 400, /too many fields/i],
-    ['a part without a name', () => part('kind', 'tank_readings') + '--plenum-test-boundary\r\nContent-Disposition: form-data; filename="levels.csv"\r\n\r\n' + csv + '\r\n' + end, 400, /upload could not be read|one CSV file/i],
+    [
+      'a form field over 64 KB',
+      () => part('kind', 'tank_readings') + part('note', 'x'.repeat(70 * 1024)) + part('file', csv, 'levels.csv') + end,
+      400,
+      /field .*too long/i,
+    ],
+    [
+      'too many form fields',
+      () => Array.from({ length: 25 }, (_, i) => part(`f${i}`, 'x')).join('') + part('file', csv, 'levels.csv') + end,
+      400,
+      /too many fields/i,
+    ],
+    [
+      'a part without a name',
+      () => part('kind', 'tank_readings') + '--plenum-test-boundary\r\nContent-Disposition: form-data; filename="levels.csv"\r\n\r\n' + csv + '\r\n' + end,
+      400,
+      /upload could not be read|one CSV file/i,
+    ],
   ];
   for (const [what, body, status, message] of malformed) {
     it(`refuses ${what} with ${status} and stores nothing`, async () => {

@@ -32,7 +32,10 @@ describe('lockout counter under parallel wrong sign-ins', () => {
     // Each wrong password counts once: LOGIN_MAX_FAILURES - 1 may be told "wrong", the rest find the lock.
     expect(statuses.filter((s) => s === 401).length, statuses.join(',')).toBeLessThanOrEqual(LOGIN_MAX_FAILURES - 1);
     expect(statuses.filter((s) => s === 423).length, statuses.join(',')).toBeGreaterThanOrEqual(10 - (LOGIN_MAX_FAILURES - 1));
-    expect(statuses.every((s) => s === 401 || s === 423), statuses.join(',')).toBe(true);
+    expect(
+      statuses.every((s) => s === 401 || s === 423),
+      statuses.join(','),
+    ).toBe(true);
     expect((await new Client(app.baseUrl).login(email, PASSWORD)).status).toBe(423);
   });
 });
@@ -87,7 +90,9 @@ describe('a new password ends every other session of the user', () => {
     const local = await createTestOrg(app.ds);
     const user = await signedIn(app, local.users.purchasing_officer);
     const admin = await signedIn(app, local.users.administrator);
-    expect((await admin.patch(`/api/users/${local.userIds.purchasing_officer}`, { name: 'Purchasing renamed', roles: ['purchasing_officer', 'ward_lead'] })).status).toBe(200);
+    expect(
+      (await admin.patch(`/api/users/${local.userIds.purchasing_officer}`, { name: 'Purchasing renamed', roles: ['purchasing_officer', 'ward_lead'] })).status,
+    ).toBe(200);
     expect((await user.get('/api/auth/me')).status).toBe(200);
   });
 });
@@ -118,7 +123,12 @@ describe('rate limit with the default proxy setting', () => {
 
   it('an X-Forwarded-For header from an untrusted peer does not buy a fresh allowance', async () => {
     for (let i = 1; i <= LIMIT; i++) expect((await new Client(app.baseUrl).login(`nobody-fwd-${i}@test.example`, `guess-${i}`)).status).toBe(401);
-    const forged = await new Client(app.baseUrl).request('POST', '/api/auth/login', { email: 'nobody-fwd-x@test.example', password: 'guess-x' }, { headers: { 'x-forwarded-for': '203.0.113.7' } });
+    const forged = await new Client(app.baseUrl).request(
+      'POST',
+      '/api/auth/login',
+      { email: 'nobody-fwd-x@test.example', password: 'guess-x' },
+      { headers: { 'x-forwarded-for': '203.0.113.7' } },
+    );
     expect(forged.status).toBe(429);
     expect(forged.body.error.code).toBe('rate_limited');
   });
@@ -165,9 +175,17 @@ describe('per-account sign-in limit (behind a configured proxy)', () => {
       expect(res.status, name).toBe(401);
       expect(res.body.error.code, name).toBe('invalid_credentials');
     }
-    const hidden = await new Client(app.baseUrl).request('POST', '/api/auth/login', '{"__proto__":{"email":"x@test.example"},"password":"p"}', { csrf: false, ...from(201) });
+    const hidden = await new Client(app.baseUrl).request('POST', '/api/auth/login', '{"__proto__":{"email":"x@test.example"},"password":"p"}', {
+      csrf: false,
+      ...from(201),
+    });
     expect(hidden.status).toBe(400);
-    const notText = await new Client(app.baseUrl).request('POST', '/api/auth/login', { email: { toString: 'x' }, password: 'p' }, { csrf: false, ...from(202) });
+    const notText = await new Client(app.baseUrl).request(
+      'POST',
+      '/api/auth/login',
+      { email: { toString: 'x' }, password: 'p' },
+      { csrf: false, ...from(202) },
+    );
     expect(notText.status).toBe(400);
   });
 

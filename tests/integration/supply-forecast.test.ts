@@ -18,7 +18,15 @@ afterAll(async () => {
   await app.close();
 });
 
-const tank = (name: string, extra: Record<string, unknown> = {}) => ({ name, type: 'bulk_liquid', gasCode: 'O2', capacityKg: 10_000, evaporationPercentPerDay: 0.5, leadTimeHours: 48, ...extra });
+const tank = (name: string, extra: Record<string, unknown> = {}) => ({
+  name,
+  type: 'bulk_liquid',
+  gasCode: 'O2',
+  capacityKg: 10_000,
+  evaporationPercentPerDay: 0.5,
+  leadTimeHours: 48,
+  ...extra,
+});
 
 async function count(table: string, where: string, params: unknown[]) {
   const rows: { n: string }[] = await app.ds.query(`SELECT COUNT(*) AS n FROM ${table} WHERE ${where}`, params);
@@ -33,7 +41,10 @@ describe('supply sources and readings', () => {
     expect(ward.status).toBe(200);
     expect((await fm.put(`/api/wards/${ward.body.id}/feeds`, { feeds: [{ sourceId: src.body.id, gasCode: 'O2', role: 'primary' }] })).status).toBe(200);
     // 20 patients at 10 L/min = 200 L/min of free gas at 15 °C, every hour.
-    expect((await fm.put(`/api/wards/${ward.body.id}/therapy`, { lines: [{ gasCode: 'O2', device: 'custom', patients: 20, flowLMin: 10, label: 'constant' }] })).status).toBe(200);
+    expect(
+      (await fm.put(`/api/wards/${ward.body.id}/therapy`, { lines: [{ gasCode: 'O2', device: 'custom', patients: 20, flowLMin: 10, label: 'constant' }] }))
+        .status,
+    ).toBe(200);
     const takenAt = DateTime.utc().startOf('hour').minus({ hours: 2 }).toISO()!;
     const reading = await fm.post(`/api/sources/${src.body.id}/readings`, { kind: 'level_percent', value: 60, takenAt });
     expect(reading.status).toBe(200);
@@ -44,7 +55,7 @@ describe('supply sources and readings', () => {
     // 200 L/min × 60 = 12,000 L/h; at 15 °C and 1.01325 bar oxygen is 1.35436 kg/m³ (reference EOS, tests/reference
     // table), so 12 m³/h = 16.25 kg/h; evaporation 0.5 %/day × 10,000 kg = 2.08 kg/h is below demand, so
     // demand alone empties 6,000 kg in 6,000 / 16.25 = 369.2 h from the reading.
-    const kgPerH = (12_000 / freeGasLitresPerKg('O2', '15C'));
+    const kgPerH = 12_000 / freeGasLitresPerKg('O2', '15C');
     expect(kgPerH).toBeCloseTo(16.25, 1);
     const emptyMs = new Date(detail.body.outlook.emptyAt).getTime();
     const expectedMs = new Date(takenAt).getTime() + (6000 / kgPerH) * 3_600_000;
@@ -83,22 +94,48 @@ describe('supply sources and readings', () => {
 
   it('a manifold read by its bank gauges counts real-gas contents, corrected for the store temperature', async () => {
     const types = await (await signedIn(app, org.users.administrator)).post('/api/cylinder-types', { gasCode: 'O2', waterCapacityL: 50, fillPressureBar: 200 });
-    const src = await fm.post(`/api/sites/${siteId}/sources`, { name: 'Manifold M', type: 'manifold', gasCode: 'O2', cylinderTypeId: types.body.id, cylindersPerBank: 2, temperatureC: 15 });
+    const src = await fm.post(`/api/sites/${siteId}/sources`, {
+      name: 'Manifold M',
+      type: 'manifold',
+      gasCode: 'O2',
+      cylinderTypeId: types.body.id,
+      cylindersPerBank: 2,
+      temperatureC: 15,
+    });
     expect(src.status).toBe(200);
-    const r = await fm.post(`/api/sources/${src.body.id}/readings`, { kind: 'bank_gauges', dutyBar: 200, standbyBar: 200, spareFull: 0, takenAt: new Date().toISOString() });
+    const r = await fm.post(`/api/sources/${src.body.id}/readings`, {
+      kind: 'bank_gauges',
+      dutyBar: 200,
+      standbyBar: 200,
+      spareFull: 0,
+      takenAt: new Date().toISOString(),
+    });
     expect(r.status).toBe(200);
     // Four full 50 L cylinders at 200 bar(g), 15 °C: each holds ≈ 4 × nominal… compare with the catalogue's own nominal figure.
     expect(r.body.contents).toBeCloseTo(4 * types.body.nominal.freeGasL, -1);
   });
 
   it('a N2O cylinder store: in-use gauges are refused ("weigh the cylinder"), net weights are counted', async () => {
-    const types = await (await signedIn(app, org.users.administrator)).post('/api/cylinder-types', { gasCode: 'N2O', waterCapacityL: 10, fillPressureBar: 44, tareKg: 14, maxFillingRatioKgPerL: 0.75 });
+    const types = await (
+      await signedIn(app, org.users.administrator)
+    ).post('/api/cylinder-types', { gasCode: 'N2O', waterCapacityL: 10, fillPressureBar: 44, tareKg: 14, maxFillingRatioKgPerL: 0.75 });
     expect(types.status).toBe(200);
-    const src = await fm.post(`/api/sites/${siteId}/sources`, { name: 'N2O store', type: 'cylinder_store', gasCode: 'N2O', cylinderTypeId: types.body.id, temperatureC: 15 });
+    const src = await fm.post(`/api/sites/${siteId}/sources`, {
+      name: 'N2O store',
+      type: 'cylinder_store',
+      gasCode: 'N2O',
+      cylinderTypeId: types.body.id,
+      temperatureC: 15,
+    });
     expect(src.status).toBe(200);
     const before = await count('source_reading', 'source_id = ?', [src.body.id]);
     // 44 bar g at 15 °C is the vapour pressure of N2O (45.037 bar abs, saturation table in tests/reference): full or nearly empty alike
-    const refused = await fm.post(`/api/sources/${src.body.id}/readings`, { kind: 'store_count', full: 2, inUseGaugeBar: [44], takenAt: new Date().toISOString() });
+    const refused = await fm.post(`/api/sources/${src.body.id}/readings`, {
+      kind: 'store_count',
+      full: 2,
+      inUseGaugeBar: [44],
+      takenAt: new Date().toISOString(),
+    });
     expect(refused.status).toBe(400);
     expect(refused.body.error.code).toBe('invalid_input');
     expect(refused.body.error.message).toMatch(/weigh the cylinder: gross − tare/);
@@ -110,9 +147,17 @@ describe('supply sources and readings', () => {
   });
 
   it('a 50:50 N2O/O2 store at −6 °C: the reading and the forecast method carry the separation caution', async () => {
-    const types = await (await signedIn(app, org.users.administrator)).post('/api/cylinder-types', { gasCode: 'N2O_O2_50', waterCapacityL: 10, fillPressureBar: 137 });
+    const types = await (
+      await signedIn(app, org.users.administrator)
+    ).post('/api/cylinder-types', { gasCode: 'N2O_O2_50', waterCapacityL: 10, fillPressureBar: 137 });
     expect(types.status).toBe(200);
-    const src = await fm.post(`/api/sites/${siteId}/sources`, { name: 'Cold 50:50 store', type: 'cylinder_store', gasCode: 'N2O_O2_50', cylinderTypeId: types.body.id, temperatureC: -6 });
+    const src = await fm.post(`/api/sites/${siteId}/sources`, {
+      name: 'Cold 50:50 store',
+      type: 'cylinder_store',
+      gasCode: 'N2O_O2_50',
+      cylinderTypeId: types.body.id,
+      temperatureC: -6,
+    });
     expect(src.status).toBe(200);
     const r = await fm.post(`/api/sources/${src.body.id}/readings`, { kind: 'store_count', full: 3, inUseGaugeBar: [100], takenAt: new Date().toISOString() });
     expect(r.status).toBe(200);
@@ -130,7 +175,13 @@ describe('supply sources and readings', () => {
     // default: 10 % of the fill pressure (US EMS guidance keeps about 200 psi of a 2,000–2,200 psi fill; common practice)
     expect(types.body.residual.gaugeBar).toBeCloseTo(23, 9);
     expect(types.body.residual.basis).toMatch(/10 % of the fill pressure/);
-    const src = await fm.post(`/api/sites/${siteId}/sources`, { name: 'O2 store R', type: 'cylinder_store', gasCode: 'O2', cylinderTypeId: types.body.id, temperatureC: 15 });
+    const src = await fm.post(`/api/sites/${siteId}/sources`, {
+      name: 'O2 store R',
+      type: 'cylinder_store',
+      gasCode: 'O2',
+      cylinderTypeId: types.body.id,
+      temperatureC: 15,
+    });
     await fm.post(`/api/sources/${src.body.id}/readings`, { kind: 'store_count', full: 2, takenAt: new Date().toISOString() });
     const detail = await fm.get(`/api/sources/${src.body.id}?draws=0`);
     expect(detail.body.method.residual.gaugeBar).toBeCloseTo(23, 9);
@@ -139,7 +190,9 @@ describe('supply sources and readings', () => {
     const edited = await admin.put(`/api/cylinder-types/${types.body.id}`, { gasCode: 'O2', waterCapacityL: 10, fillPressureBar: 230, residualGaugeBar: 50 });
     expect(edited.status).toBe(200);
     expect(edited.body.residual.basis).toMatch(/set for this cylinder type/);
-    expect((await admin.put(`/api/cylinder-types/${types.body.id}`, { gasCode: 'O2', waterCapacityL: 10, fillPressureBar: 230, residualGaugeBar: 230 })).status).toBe(400);
+    expect(
+      (await admin.put(`/api/cylinder-types/${types.body.id}`, { gasCode: 'O2', waterCapacityL: 10, fillPressureBar: 230, residualGaugeBar: 230 })).status,
+    ).toBe(400);
   });
 
   it('litres of liquid oxygen are converted at the saturated-liquid density of the tank’s working pressure', async () => {

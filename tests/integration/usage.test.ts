@@ -21,7 +21,16 @@ let stopWorker: () => Promise<void>;
 let mail: SMTPServer;
 let smtpPort: number;
 
-const baseEnv = () => ({ ...process.env, NODE_ENV: 'test', SERVE_FRONTEND: 'false', LOG_LEVEL: 'error', SMTP_PORT: String(smtpPort), UPLOAD_MAX_MB: '40', IMPORT_BATCH_ROWS: '5000' }) as Record<string, string>;
+const baseEnv = () =>
+  ({
+    ...process.env,
+    NODE_ENV: 'test',
+    SERVE_FRONTEND: 'false',
+    LOG_LEVEL: 'error',
+    SMTP_PORT: String(smtpPort),
+    UPLOAD_MAX_MB: '40',
+    IMPORT_BATCH_ROWS: '5000',
+  }) as Record<string, string>;
 
 beforeAll(async () => {
   smtpPort = 20000 + Math.floor(Math.random() * 20000);
@@ -52,7 +61,11 @@ async function upload(c: Client, site: number, body: string | Buffer, fields: Re
   const form = new FormData();
   for (const [k, v] of Object.entries(fields)) form.append(k, v);
   form.append('file', new Blob([typeof body === 'string' ? body : new Uint8Array(body)]), name);
-  const res = await fetch(`${c.baseUrl}/api/sites/${site}/imports`, { method: 'POST', headers: { cookie: [...c.cookies].map(([k, v]) => `${k}=${v}`).join('; '), 'x-csrf-token': c.csrf ?? '' }, body: form });
+  const res = await fetch(`${c.baseUrl}/api/sites/${site}/imports`, {
+    method: 'POST',
+    headers: { cookie: [...c.cookies].map(([k, v]) => `${k}=${v}`).join('; '), 'x-csrf-token': c.csrf ?? '' },
+    body: form,
+  });
   const text = await res.text();
   return { status: res.status, body: text ? JSON.parse(text) : undefined };
 }
@@ -68,7 +81,14 @@ async function waitFor(c: Client, jobId: number, statuses: string[], timeoutMs =
 }
 
 async function tank(name: string, extra: Record<string, unknown> = {}) {
-  const res = await fm.post(`/api/sites/${siteId}/sources`, { name: `${name} ${uniq()}`, type: 'bulk_liquid', gasCode: 'O2', capacityKg: 10_000, evaporationPercentPerDay: 0.4, ...extra });
+  const res = await fm.post(`/api/sites/${siteId}/sources`, {
+    name: `${name} ${uniq()}`,
+    type: 'bulk_liquid',
+    gasCode: 'O2',
+    capacityKg: 10_000,
+    evaporationPercentPerDay: 0.4,
+    ...extra,
+  });
   expect(res.status, JSON.stringify(res.body)).toBe(200);
   return res.body as { id: number; name: string };
 }
@@ -101,14 +121,39 @@ describe('usage reports', () => {
     // Ward leads file only for the wards an administrator granted them.
     const admin = await signedIn(app, org.users.administrator);
     expect((await admin.put(`/api/users/${org.userIds.ward_lead}/wards`, { wardIds: [wardId] })).status).toBe(200);
-    await fm.put(`/api/wards/${wardId}/therapy`, { lines: [{ gasCode: 'O2', device: 'nasal_cannula', patients: 6 }, { gasCode: 'O2', device: 'simple_mask', patients: 2 }] });
-    const cyl = await app.ds.getRepository(CylinderType).save(app.ds.getRepository(CylinderType).create({ organisationId: org.organisationId, gasCode: 'O2', waterCapacityL: 2, fillPressureBar: 230, tareKg: null, maxFillingRatioKgPerL: null, material: 'aluminium', valveNotes: '', active: true }));
+    await fm.put(`/api/wards/${wardId}/therapy`, {
+      lines: [
+        { gasCode: 'O2', device: 'nasal_cannula', patients: 6 },
+        { gasCode: 'O2', device: 'simple_mask', patients: 2 },
+      ],
+    });
+    const cyl = await app.ds.getRepository(CylinderType).save(
+      app.ds.getRepository(CylinderType).create({
+        organisationId: org.organisationId,
+        gasCode: 'O2',
+        waterCapacityL: 2,
+        fillPressureBar: 230,
+        tareKg: null,
+        maxFillingRatioKgPerL: null,
+        material: 'aluminium',
+        valveNotes: '',
+        active: true,
+      }),
+    );
     cylId = cyl.id;
   });
 
   it('a ward lead files the day’s report; the same day twice is refused; the filing is in the audit log', async () => {
     const yesterday = DateTime.fromISO(today()).minus({ days: 1 }).toISODate()!;
-    const body = { date: yesterday, devices: [{ device: 'nasal_cannula', patientsNow: 7, patientsShift: 9 }, { device: 'hfno', patientsNow: 1, patientsShift: 1 }], cylinders: [{ cylinderTypeId: cylId, used: 3, returned: 2 }], note: 'busy night' };
+    const body = {
+      date: yesterday,
+      devices: [
+        { device: 'nasal_cannula', patientsNow: 7, patientsShift: 9 },
+        { device: 'hfno', patientsNow: 1, patientsShift: 1 },
+      ],
+      cylinders: [{ cylinderTypeId: cylId, used: 3, returned: 2 }],
+      note: 'busy night',
+    };
     const res = await lead.post(`/api/wards/${wardId}/usage-reports`, body);
     expect(res.status, JSON.stringify(res.body)).toBe(200);
     expect(res.body.devices).toEqual(body.devices);
@@ -116,7 +161,9 @@ describe('usage reports', () => {
     const again = await lead.post(`/api/wards/${wardId}/usage-reports`, body);
     expect(again.status).toBe(409);
     expect(again.body.error.code).toBe('report_exists');
-    expect(await count("SELECT COUNT(*) AS n FROM audit_log WHERE entity = 'usage_report' AND entity_id = ? AND action = 'create'", [String(res.body.id)])).toBe(1);
+    expect(
+      await count("SELECT COUNT(*) AS n FROM audit_log WHERE entity = 'usage_report' AND entity_id = ? AND action = 'create'", [String(res.body.id)]),
+    ).toBe(1);
 
     // Today's screen is prefilled from yesterday: patients carried over, cylinder types at zero.
     const open = await lead.get(`/api/wards/${wardId}/usage-reports`);
@@ -130,22 +177,46 @@ describe('usage reports', () => {
   });
 
   it('refuses a shift peak below the count now, a future day, and old days for ward leads', async () => {
-    const bad = await lead.post(`/api/wards/${wardId}/usage-reports`, { date: today(), devices: [{ device: 'simple_mask', patientsNow: 3, patientsShift: 2 }], cylinders: [] });
+    const bad = await lead.post(`/api/wards/${wardId}/usage-reports`, {
+      date: today(),
+      devices: [{ device: 'simple_mask', patientsNow: 3, patientsShift: 2 }],
+      cylinders: [],
+    });
     expect(bad.status).toBe(400);
     expect(bad.body.error.details[0].path).toBe('devices.0.patientsShift');
-    const future = await lead.post(`/api/wards/${wardId}/usage-reports`, { date: DateTime.fromISO(today()).plus({ days: 1 }).toISODate(), devices: [], cylinders: [] });
+    const future = await lead.post(`/api/wards/${wardId}/usage-reports`, {
+      date: DateTime.fromISO(today()).plus({ days: 1 }).toISODate(),
+      devices: [],
+      cylinders: [],
+    });
     expect(future.status).toBe(400);
-    const old = await lead.post(`/api/wards/${wardId}/usage-reports`, { date: DateTime.fromISO(today()).minus({ days: 10 }).toISODate(), devices: [], cylinders: [] });
+    const old = await lead.post(`/api/wards/${wardId}/usage-reports`, {
+      date: DateTime.fromISO(today()).minus({ days: 10 }).toISODate(),
+      devices: [],
+      cylinders: [],
+    });
     expect(old.status).toBe(403);
     // A facilities manager may file an old day.
-    expect((await fm.post(`/api/wards/${wardId}/usage-reports`, { date: DateTime.fromISO(today()).minus({ days: 10 }).toISODate(), devices: [], cylinders: [] })).status).toBe(200);
+    expect(
+      (await fm.post(`/api/wards/${wardId}/usage-reports`, { date: DateTime.fromISO(today()).minus({ days: 10 }).toISODate(), devices: [], cylinders: [] }))
+        .status,
+    ).toBe(200);
   });
 
   it('lets the ward lead edit inside the window, then only a facilities manager; every change is audited', async () => {
-    const created = await lead.post(`/api/wards/${wardId}/usage-reports`, { date: today(), devices: [{ device: 'nasal_cannula', patientsNow: 5, patientsShift: 6 }], cylinders: [], note: '' });
+    const created = await lead.post(`/api/wards/${wardId}/usage-reports`, {
+      date: today(),
+      devices: [{ device: 'nasal_cannula', patientsNow: 5, patientsShift: 6 }],
+      cylinders: [],
+      note: '',
+    });
     expect(created.status).toBe(200);
     const id = created.body.id;
-    const edit = await lead.put(`/api/usage-reports/${id}`, { devices: [{ device: 'nasal_cannula', patientsNow: 6, patientsShift: 6 }], cylinders: [], note: 'corrected' });
+    const edit = await lead.put(`/api/usage-reports/${id}`, {
+      devices: [{ device: 'nasal_cannula', patientsNow: 6, patientsShift: 6 }],
+      cylinders: [],
+      note: 'corrected',
+    });
     expect(edit.status, JSON.stringify(edit.body)).toBe(200);
     expect(edit.body.devices[0].patientsNow).toBe(6);
     // Filed two days ago: outside the default 24 h window.
@@ -153,11 +224,18 @@ describe('usage reports', () => {
     const late = await lead.put(`/api/usage-reports/${id}`, { devices: [], cylinders: [], note: 'too late' });
     expect(late.status).toBe(403);
     expect(late.body.error.code).toBe('edit_window_closed');
-    const byFm = await fm.put(`/api/usage-reports/${id}`, { devices: [{ device: 'nasal_cannula', patientsNow: 4, patientsShift: 6 }], cylinders: [], note: 'fixed by facilities' });
+    const byFm = await fm.put(`/api/usage-reports/${id}`, {
+      devices: [{ device: 'nasal_cannula', patientsNow: 4, patientsShift: 6 }],
+      cylinders: [],
+      note: 'fixed by facilities',
+    });
     expect(byFm.status).toBe(200);
     const detail = await fm.get(`/api/usage-reports/${id}`);
     expect(detail.body.history.map((h: { action: string }) => h.action)).toEqual(['create', 'update', 'update']);
-    const audit: { before_json: string; after_json: string }[] = await app.ds.query("SELECT before_json, after_json FROM audit_log WHERE entity = 'usage_report' AND entity_id = ? AND action = 'update' ORDER BY id", [String(id)]);
+    const audit: { before_json: string; after_json: string }[] = await app.ds.query(
+      "SELECT before_json, after_json FROM audit_log WHERE entity = 'usage_report' AND entity_id = ? AND action = 'update' ORDER BY id",
+      [String(id)],
+    );
     expect(JSON.parse(audit[1].before_json).note).toBe('corrected');
     expect(JSON.parse(audit[1].after_json).note).toBe('fixed by facilities');
   });
@@ -177,12 +255,19 @@ describe('usage reports', () => {
       expect(mine!.wards).not.toContain(nobody.body.name);
       expect(sent.find((s) => s.to === org.users.facilities_manager)?.wards, JSON.stringify(sent)).toContain(nobody.body.name);
       expect(sent.find((s) => s.to === org.users.facilities_manager)?.wards).not.toContain(w.body.name);
-      const fmMail: { text_body: string }[] = await app.ds.query('SELECT text_body FROM mail_message WHERE mail_to LIKE ? ORDER BY id DESC LIMIT 1', [`%${org.users.facilities_manager}%`]);
+      const fmMail: { text_body: string }[] = await app.ds.query('SELECT text_body FROM mail_message WHERE mail_to LIKE ? ORDER BY id DESC LIMIT 1', [
+        `%${org.users.facilities_manager}%`,
+      ]);
       expect(fmMail[0].text_body).toMatch(/no ward lead is granted this ward/);
       // The ward that reported today is not in it.
-      const filed = (await lead.get(`/api/sites/${siteId}/usage-status`)).body.wards.filter((x: { reportId: number | null }) => x.reportId !== null).map((x: { name: string }) => x.name);
+      const filed = (await lead.get(`/api/sites/${siteId}/usage-status`)).body.wards
+        .filter((x: { reportId: number | null }) => x.reportId !== null)
+        .map((x: { name: string }) => x.name);
       for (const name of filed) expect(mine!.wards).not.toContain(name);
-      const stored: { subject: string; mail_to: string }[] = await app.ds.query('SELECT subject, mail_to FROM mail_message WHERE mail_to LIKE ? ORDER BY id DESC LIMIT 1', [`%${org.users.ward_lead}%`]);
+      const stored: { subject: string; mail_to: string }[] = await app.ds.query(
+        'SELECT subject, mail_to FROM mail_message WHERE mail_to LIKE ? ORDER BY id DESC LIMIT 1',
+        [`%${org.users.ward_lead}%`],
+      );
       expect(stored[0].subject).toMatch(/Usage report/);
       expect(await sendDueReminders(new Date(), { siteIds: [siteId] })).toEqual([]);
     } finally {
@@ -196,7 +281,26 @@ describe('usage reports', () => {
 describe('uploads: templates and bad files', () => {
   it('round-trips the template of every kind (download, upload unchanged, import)', async () => {
     const t = await tank('Template tank');
-    const store = await fm.post(`/api/sites/${siteId}/sources`, { name: `Store ${uniq()}`, type: 'cylinder_store', gasCode: 'O2', cylinderTypeId: (await app.ds.getRepository(CylinderType).save(app.ds.getRepository(CylinderType).create({ organisationId: org.organisationId, gasCode: 'O2', waterCapacityL: 10, fillPressureBar: 200, tareKg: null, maxFillingRatioKgPerL: null, material: 'steel', valveNotes: '', active: true }))).id });
+    const store = await fm.post(`/api/sites/${siteId}/sources`, {
+      name: `Store ${uniq()}`,
+      type: 'cylinder_store',
+      gasCode: 'O2',
+      cylinderTypeId: (
+        await app.ds.getRepository(CylinderType).save(
+          app.ds.getRepository(CylinderType).create({
+            organisationId: org.organisationId,
+            gasCode: 'O2',
+            waterCapacityL: 10,
+            fillPressureBar: 200,
+            tareKg: null,
+            maxFillingRatioKgPerL: null,
+            material: 'steel',
+            valveNotes: '',
+            active: true,
+          }),
+        )
+      ).id,
+    });
     expect(store.status, JSON.stringify(store.body)).toBe(200);
     const ward = await fm.post(`/api/sites/${siteId}/wards`, { name: `Aardvark ward ${uniq()}`, department: 'ward', beds: 4 });
     const targets: Record<string, Record<string, string>> = {
@@ -281,7 +385,11 @@ describe('uploads: templates and bad files', () => {
   it('reads a semicolon file with a BOM, decimal commas, other headers (mapped) and offsets', async () => {
     const t = await tank('Semicolons');
     const csv = '\uFEFFZeitpunkt;Füllstand (%);Bemerkung\n2026-07-01 10:00;61,5;\n2026-07-01T10:00:00Z;61,2;mit Offset\n';
-    const up = await upload(fm, siteId, csv, { kind: 'tank_readings', sourceId: String(t.id), mapping: JSON.stringify({ time: 'Zeitpunkt', level: 'Füllstand (%)', note: 'Bemerkung' }) });
+    const up = await upload(fm, siteId, csv, {
+      kind: 'tank_readings',
+      sourceId: String(t.id),
+      mapping: JSON.stringify({ time: 'Zeitpunkt', level: 'Füllstand (%)', note: 'Bemerkung' }),
+    });
     expect(up.status, JSON.stringify(up.body)).toBe(200);
     expect(up.body.options.separator).toBe(';');
     expect(up.body.options.headerUnit).toBe('%');
@@ -289,7 +397,10 @@ describe('uploads: templates and bad files', () => {
     expect(ready.status, JSON.stringify(ready.errors)).toBe('ready');
     await fm.post(`/api/imports/${up.body.id}/commit`, {});
     await waitFor(fm, up.body.id, ['done']);
-    const rows: { taken_at: Date; value: number; contents: number; method: string }[] = await app.ds.query('SELECT taken_at, value, contents, method FROM source_reading WHERE source_id = ? ORDER BY taken_at', [t.id]);
+    const rows: { taken_at: Date; value: number; contents: number; method: string }[] = await app.ds.query(
+      'SELECT taken_at, value, contents, method FROM source_reading WHERE source_id = ? ORDER BY taken_at',
+      [t.id],
+    );
     // 10:00 in London in July is 09:00 UTC (BST = UTC+1, UK Summer Time); the second row carries Z.
     expect(rows.map((r) => new Date(r.taken_at).toISOString())).toEqual(['2026-07-01T09:00:00.000Z', '2026-07-01T10:00:00.000Z']);
     expect(rows[0].value).toBe(61.5);
@@ -338,7 +449,12 @@ describe('uploads: templates and bad files', () => {
     expect(text).toContain("'@cmd");
     expect(text).not.toMatch(/,=HYPERLINK|,\+SUM|,@cmd/);
     const wardRes = await fm.post(`/api/sites/${siteId}/wards`, { name: `Formula ward ${uniq()}`, department: 'ward', beds: 2 });
-    await fm.post(`/api/wards/${wardRes.body.id}/usage-reports`, { date: DateTime.now().setZone('Europe/London').toISODate(), devices: [], cylinders: [], note: '-1+1' });
+    await fm.post(`/api/wards/${wardRes.body.id}/usage-reports`, {
+      date: DateTime.now().setZone('Europe/London').toISODate(),
+      devices: [],
+      cylinders: [],
+      note: '-1+1',
+    });
     const reports = String((await fm.request('GET', `/api/sites/${siteId}/export?table=usage_reports`)).body);
     expect(reports).toContain("'-1+1");
   });
@@ -356,7 +472,9 @@ describe('uploads: large files, failure and cancel', () => {
     const src = (await fm.get(`/api/sources/${t.id}?draws=0`)).body.source;
     const put = await fm.put(`/api/sources/${t.id}`, { ...src, capacityKg: 9000 });
     expect(put.status, JSON.stringify(put.body)).toBe(200);
-    const auditBefore = await count("SELECT COUNT(*) AS n FROM audit_log WHERE entity = 'import_job' AND action = 'import' AND entity_id = ?", [String(up.body.id)]);
+    const auditBefore = await count("SELECT COUNT(*) AS n FROM audit_log WHERE entity = 'import_job' AND action = 'import' AND entity_id = ?", [
+      String(up.body.id),
+    ]);
     await fm.post(`/api/imports/${up.body.id}/commit`, {});
     const failed = await waitFor(fm, up.body.id, ['done', 'failed'], 180_000);
     expect(failed.status).toBe('failed');
@@ -364,7 +482,9 @@ describe('uploads: large files, failure and cancel', () => {
     expect(failed.errors[0]).toMatchObject({ row: 400_001, column: 'Level', value: '9500' });
     expect(failed.message).toMatch(/rolled back: nothing was written/);
     expect(await readingsOf(t.id)).toBe(0);
-    expect(await count("SELECT COUNT(*) AS n FROM audit_log WHERE entity = 'import_job' AND action = 'import' AND entity_id = ?", [String(up.body.id)])).toBe(auditBefore);
+    expect(await count("SELECT COUNT(*) AS n FROM audit_log WHERE entity = 'import_job' AND action = 'import' AND entity_id = ?", [String(up.body.id)])).toBe(
+      auditBefore,
+    );
   });
 
   it('cancels a running import and leaves nothing behind; the progress lives in the database', { timeout: 240_000 }, async () => {

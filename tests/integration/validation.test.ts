@@ -21,7 +21,17 @@ describe('validation: bad bodies get 400 with field messages and change nothing'
   it('site: unknown time zone, bad currency, missing name', async () => {
     const c = await signedIn(app, org.users.administrator);
     const before = await countRows('site', 'organisation_id = ?', [org.organisationId]);
-    const res = await c.post('/api/sites', { name: '', kind: 'hospital', timeZone: 'Mars/Olympus', referenceCode: '15C', unitSystem: 'metric', altitudeM: 10, currency: 'pounds', cylinderColours: 'ISO32', storeTemperatureC: 12 });
+    const res = await c.post('/api/sites', {
+      name: '',
+      kind: 'hospital',
+      timeZone: 'Mars/Olympus',
+      referenceCode: '15C',
+      unitSystem: 'metric',
+      altitudeM: 10,
+      currency: 'pounds',
+      cylinderColours: 'ISO32',
+      storeTemperatureC: 12,
+    });
     expect(res.status).toBe(400);
     const paths = res.body.error.details.map((d: { path: string }) => d.path).sort();
     expect(paths).toEqual(['currency', 'name', 'timeZone']);
@@ -31,11 +41,23 @@ describe('validation: bad bodies get 400 with field messages and change nothing'
 
   it('site: a valid body is created, with atmospheric pressure from altitude (standard atmosphere)', async () => {
     const c = await signedIn(app, org.users.administrator);
-    const res = await c.post('/api/sites', { name: `Hill clinic ${Date.now()}`, kind: 'clinic', timeZone: 'America/Denver', referenceCode: '21C', unitSystem: 'us', altitudeM: 1600, currency: 'USD', cylinderColours: 'CGA_C9', storeTemperatureC: 18 });
+    const res = await c.post('/api/sites', {
+      name: `Hill clinic ${Date.now()}`,
+      kind: 'clinic',
+      timeZone: 'America/Denver',
+      referenceCode: '21C',
+      unitSystem: 'us',
+      altitudeM: 1600,
+      currency: 'USD',
+      cylinderColours: 'CGA_C9',
+      storeTemperatureC: 18,
+    });
     expect(res.status).toBe(200);
     // ICAO standard atmosphere at 1,600 m: about 835 hPa (common practice; p0·(1 − 2.25577e-5·h)^5.25588).
     expect(res.body.atmosphericBar).toBeCloseTo(0.8352, 3);
-    const audit: { n: string }[] = await app.ds.query(`SELECT COUNT(*) AS n FROM audit_log WHERE entity = 'site' AND entity_id = ? AND action = 'create'`, [String(res.body.id)]);
+    const audit: { n: string }[] = await app.ds.query(`SELECT COUNT(*) AS n FROM audit_log WHERE entity = 'site' AND entity_id = ? AND action = 'create'`, [
+      String(res.body.id),
+    ]);
     expect(Number(audit[0].n)).toBe(1);
   });
 
@@ -64,7 +86,13 @@ describe('validation: bad bodies get 400 with field messages and change nothing'
   it('supplier: bad e-mail, negative lead time, a price with no cylinder type', async () => {
     const c = await signedIn(app, org.users.administrator);
     const before = await countRows('supplier', 'organisation_id = ?', [org.organisationId]);
-    const res = await c.post('/api/suppliers', { name: 'Broken', orderEmail: 'not-an-email', leadTimeHours: -1, currency: 'GBP', prices: [{ unit: 'cylinder', priceMinor: 100 }] });
+    const res = await c.post('/api/suppliers', {
+      name: 'Broken',
+      orderEmail: 'not-an-email',
+      leadTimeHours: -1,
+      currency: 'GBP',
+      prices: [{ unit: 'cylinder', priceMinor: 100 }],
+    });
     expect(res.status).toBe(400);
     const paths = res.body.error.details.map((d: { path: string }) => d.path).sort();
     expect(paths).toEqual(['leadTimeHours', 'orderEmail', 'prices.0.cylinderTypeId']);

@@ -12,7 +12,9 @@ let wardB: number;
 let theirWard: number;
 
 async function addWard(siteId: number): Promise<number> {
-  const w = await app.ds.getRepository(Ward).save(app.ds.getRepository(Ward).create({ siteId, name: `Ward ${uniq()}`, department: 'ward', beds: 10, leakagePercent: 0, active: true }));
+  const w = await app.ds
+    .getRepository(Ward)
+    .save(app.ds.getRepository(Ward).create({ siteId, name: `Ward ${uniq()}`, department: 'ward', beds: 10, leakagePercent: 0, active: true }));
   return w.id;
 }
 
@@ -54,7 +56,10 @@ describe('ward grants', () => {
     expect(revoked.status).toBe(200);
     expect(await grantsOf(lead)).toEqual([wardB]);
 
-    const audit: { action: string; before_json: string; after_json: string; user_email: string }[] = await app.ds.query("SELECT action, before_json, after_json, user_email FROM audit_log WHERE entity = 'user_wards' AND entity_id = ? ORDER BY id", [String(lead)]);
+    const audit: { action: string; before_json: string; after_json: string; user_email: string }[] = await app.ds.query(
+      "SELECT action, before_json, after_json, user_email FROM audit_log WHERE entity = 'user_wards' AND entity_id = ? ORDER BY id",
+      [String(lead)],
+    );
     expect(audit).toHaveLength(2);
     expect(audit[0].user_email).toBe(org.users.administrator);
     expect(JSON.parse(audit[0].before_json).wardIds).toEqual([]);
@@ -64,7 +69,17 @@ describe('ward grants', () => {
   it('refuses bad bodies with field details and changes nothing', async () => {
     const lead = org.userIds.ward_lead;
     const before = await grantsOf(lead);
-    for (const body of [{}, { wardIds: 'all' }, { wardIds: [0] }, { wardIds: [-3] }, { wardIds: [1.5] }, { wardIds: ['1'] }, { wardIds: null }, { wardIds: { __proto__: [1] } }, JSON.parse('{"__proto__": {"wardIds": [1]}}')]) {
+    for (const body of [
+      {},
+      { wardIds: 'all' },
+      { wardIds: [0] },
+      { wardIds: [-3] },
+      { wardIds: [1.5] },
+      { wardIds: ['1'] },
+      { wardIds: null },
+      { wardIds: { __proto__: [1] } },
+      JSON.parse('{"__proto__": {"wardIds": [1]}}'),
+    ]) {
       const res = await admin.put(`/api/users/${lead}/wards`, body);
       expect(res.status, JSON.stringify(body)).toBe(400);
       expect(res.body.error.details[0].path, JSON.stringify(res.body)).toMatch(/^wardIds/);

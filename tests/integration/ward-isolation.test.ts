@@ -25,7 +25,12 @@ const yesterday = () => DateTime.fromISO(today()).minus({ days: 1 }).toISODate()
 
 /** A valid body for each ward-scoped write a ward lead may call (validation answers before the look-up). */
 const BODIES: Record<string, () => unknown> = {
-  'POST /api/wards/:id/usage-reports': () => ({ date: today(), devices: [{ device: 'nasal_cannula', patientsNow: 2, patientsShift: 3 }], cylinders: [], note: '' }),
+  'POST /api/wards/:id/usage-reports': () => ({
+    date: today(),
+    devices: [{ device: 'nasal_cannula', patientsNow: 2, patientsShift: 3 }],
+    cylinders: [],
+    note: '',
+  }),
   'PUT /api/wards/:id/therapy': () => ({ lines: [{ gasCode: 'O2', device: 'nasal_cannula', patients: 4 }] }),
   'PUT /api/usage-reports/:id': () => ({ devices: [{ device: 'nasal_cannula', patientsNow: 1, patientsShift: 1 }], cylinders: [], note: 'checked' }),
 };
@@ -43,7 +48,11 @@ function pathFor(route: RouteDef, wardId: number): string {
 }
 
 async function addWard(name: string): Promise<number> {
-  const w = await app.ds.getRepository(Ward).save(app.ds.getRepository(Ward).create({ siteId: org.siteIds[0], name: `${name} ${uniq()}`, department: 'ward', beds: 12, leakagePercent: 0, active: true }));
+  const w = await app.ds
+    .getRepository(Ward)
+    .save(
+      app.ds.getRepository(Ward).create({ siteId: org.siteIds[0], name: `${name} ${uniq()}`, department: 'ward', beds: 12, leakagePercent: 0, active: true }),
+    );
   return w.id;
 }
 
@@ -70,7 +79,8 @@ afterAll(async () => {
 describe('ward isolation for ward leads', () => {
   it('finds the ward-scoped routes a ward lead may call, each with a body when it writes', () => {
     expect(wardRoutes.length).toBeGreaterThanOrEqual(6);
-    for (const r of wardRoutes) if (r.method !== 'get') expect(BODIES[`${r.method.toUpperCase()} ${r.path}`], `${r.method} ${r.path} needs a body in BODIES`).toBeDefined();
+    for (const r of wardRoutes)
+      if (r.method !== 'get') expect(BODIES[`${r.method.toUpperCase()} ${r.path}`], `${r.method} ${r.path} needs a body in BODIES`).toBeDefined();
   });
 
   for (const route of wardRoutes) {
@@ -106,7 +116,13 @@ describe('ward isolation for ward leads', () => {
 
   it('a ward lead who also holds a site-level role reads every ward but files only for granted wards', async () => {
     const email = `lead-biomed-${uniq()}@test.example`;
-    const made = await admin.post('/api/users', { email, name: 'Lead and engineer', roles: ['ward_lead', 'biomedical_engineer'], siteIds: [org.siteIds[0]], password: PASSWORD });
+    const made = await admin.post('/api/users', {
+      email,
+      name: 'Lead and engineer',
+      roles: ['ward_lead', 'biomedical_engineer'],
+      siteIds: [org.siteIds[0]],
+      password: PASSWORD,
+    });
     expect(made.status, JSON.stringify(made.body)).toBe(200);
     expect((await admin.put(`/api/users/${made.body.id}/wards`, { wardIds: [granted] })).status).toBe(200);
     const both = await signedIn(app, email);

@@ -25,9 +25,39 @@ export function resourceOf(path: string, param: string): string {
 
 export async function idFixtures(ds: DataSource, org: TestOrg): Promise<IdFixtures> {
   const tag = uniq('fx');
-  const cyl = await ds.getRepository(CylinderType).save(ds.getRepository(CylinderType).create({ organisationId: org.organisationId, gasCode: 'O2', waterCapacityL: 10 + Math.random(), fillPressureBar: 200, tareKg: null, maxFillingRatioKgPerL: null, material: 'steel', valveNotes: '', active: true }));
-  const sup = await ds.getRepository(Supplier).save(ds.getRepository(Supplier).create({ organisationId: org.organisationId, name: `Supplier ${tag}`, orderEmail: `orders-${tag}@test.example`, phone: '', leadTimeHours: 24, rentalMinorPerCylinderDay: 10, minBulkDropKg: 0, currency: 'GBP', active: true }));
-  const mail = await ds.getRepository(MailMessage).save(ds.getRepository(MailMessage).create({ mailFrom: 'a@test.example', mailTo: 'b@test.example', subject: tag, textBody: 'x', htmlBody: null, messageId: null, sizeBytes: 1 }));
+  const cyl = await ds.getRepository(CylinderType).save(
+    ds.getRepository(CylinderType).create({
+      organisationId: org.organisationId,
+      gasCode: 'O2',
+      waterCapacityL: 10 + Math.random(),
+      fillPressureBar: 200,
+      tareKg: null,
+      maxFillingRatioKgPerL: null,
+      material: 'steel',
+      valveNotes: '',
+      active: true,
+    }),
+  );
+  const sup = await ds.getRepository(Supplier).save(
+    ds.getRepository(Supplier).create({
+      organisationId: org.organisationId,
+      name: `Supplier ${tag}`,
+      orderEmail: `orders-${tag}@test.example`,
+      phone: '',
+      leadTimeHours: 24,
+      rentalMinorPerCylinderDay: 10,
+      minBulkDropKg: 0,
+      currency: 'GBP',
+      active: true,
+    }),
+  );
+  const mail = await ds
+    .getRepository(MailMessage)
+    .save(
+      ds
+        .getRepository(MailMessage)
+        .create({ mailFrom: 'a@test.example', mailTo: 'b@test.example', subject: tag, textBody: 'x', htmlBody: null, messageId: null, sizeBytes: 1 }),
+    );
   const supply = await createSupplyFixtures(ds, org, org.siteIds[0]);
   const byResource: Record<string, number> = {
     sites: org.siteIds[0],

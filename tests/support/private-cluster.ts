@@ -76,7 +76,10 @@ export async function startPrivateCluster(name: string): Promise<PrivateCluster>
     }
   };
   const sql = (i: number, query: string) =>
-    execFileSync('mariadb', ['--no-defaults', `--socket=${path.join(dir, `node${i}`, 'mysqld.sock')}`, '-uroot', '-N', '-B', '-e', query], { encoding: 'utf8', stdio: ['ignore', 'pipe', 'pipe'] });
+    execFileSync('mariadb', ['--no-defaults', `--socket=${path.join(dir, `node${i}`, 'mysqld.sock')}`, '-uroot', '-N', '-B', '-e', query], {
+      encoding: 'utf8',
+      stdio: ['ignore', 'pipe', 'pipe'],
+    });
   const script = `
     set -e
     ROOT=${JSON.stringify(root)}; . "$ROOT/scripts/lib/setup.sh"; . "$ROOT/scripts/lib/cluster.sh"
@@ -132,7 +135,8 @@ export async function startPrivateCluster(name: string): Promise<PrivateCluster>
     waitSynced: async (i, size = 3, timeoutMs = 90_000) => {
       const deadline = Date.now() + timeoutMs;
       while (!(status(i, 'wsrep_local_state') === '4' && status(i, 'wsrep_cluster_size') === String(size))) {
-        if (Date.now() > deadline) throw new Error(`node ${i} not synced in ${timeoutMs} ms:\n${readFileSync(path.join(dir, `node${i}`, 'error.log'), 'utf8').slice(-3000)}`);
+        if (Date.now() > deadline)
+          throw new Error(`node ${i} not synced in ${timeoutMs} ms:\n${readFileSync(path.join(dir, `node${i}`, 'error.log'), 'utf8').slice(-3000)}`);
         await sleep(250);
       }
     },

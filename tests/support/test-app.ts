@@ -66,7 +66,12 @@ export class Client {
     if (body !== undefined) headers['content-type'] = 'application/json';
     const stateChanging = !['GET', 'HEAD'].includes(method.toUpperCase());
     if (stateChanging && opts.csrf !== false && this.csrf) headers['x-csrf-token'] = this.csrf;
-    const res = await fetch(this.baseUrl + path, { method, headers, body: body === undefined ? undefined : typeof body === 'string' ? body : JSON.stringify(body), redirect: 'manual' });
+    const res = await fetch(this.baseUrl + path, {
+      method,
+      headers,
+      body: body === undefined ? undefined : typeof body === 'string' ? body : JSON.stringify(body),
+      redirect: 'manual',
+    });
     for (const c of res.headers.getSetCookie()) {
       const [pair] = c.split(';');
       const i = pair.indexOf('=');
@@ -133,7 +138,21 @@ export async function createTestOrg(ds: DataSource, sites = 1): Promise<TestOrg>
   const siteIds: number[] = [];
   for (let i = 0; i < sites; i++) {
     const s = await ds.getRepository(Site).save(
-      ds.getRepository(Site).create({ organisationId: org.id, name: `Test site ${i + 1} ${tag}`, kind: 'hospital', address: '', timeZone: 'Europe/London', referenceCode: '15C', unitSystem: 'metric', altitudeM: 0, atmosphericBar: 1.01325, currency: 'GBP', cylinderColours: 'ISO32', storeTemperatureC: 15, beds: 100 }),
+      ds.getRepository(Site).create({
+        organisationId: org.id,
+        name: `Test site ${i + 1} ${tag}`,
+        kind: 'hospital',
+        address: '',
+        timeZone: 'Europe/London',
+        referenceCode: '15C',
+        unitSystem: 'metric',
+        altitudeM: 0,
+        atmosphericBar: 1.01325,
+        currency: 'GBP',
+        cylinderColours: 'ISO32',
+        storeTemperatureC: 15,
+        beds: 100,
+      }),
     );
     siteIds.push(s.id);
   }
@@ -141,7 +160,18 @@ export async function createTestOrg(ds: DataSource, sites = 1): Promise<TestOrg>
   const userIds = {} as Record<Role, number>;
   for (const role of ALL_ROLES) {
     const email = `${role}.${tag}@test.example`;
-    const u = await ds.getRepository(User).save(ds.getRepository(User).create({ organisationId: org.id, email, name: `${role} ${tag}`, passwordHash: hashed, active: true, failedLogins: 0, lockedUntil: null, passwordChangedAt: null }));
+    const u = await ds.getRepository(User).save(
+      ds.getRepository(User).create({
+        organisationId: org.id,
+        email,
+        name: `${role} ${tag}`,
+        passwordHash: hashed,
+        active: true,
+        failedLogins: 0,
+        lockedUntil: null,
+        passwordChangedAt: null,
+      }),
+    );
     await ds.getRepository(UserRole).insert({ userId: u.id, role });
     for (const siteId of siteIds) await ds.getRepository(UserSite).insert({ userId: u.id, siteId });
     users[role] = email;

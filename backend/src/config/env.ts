@@ -47,9 +47,17 @@ const envSchema = z.object({
   /** Failed sign-ins per account (normalised e-mail, whether or not it exists) per 15 minutes, from any address. */
   LOGIN_RATE_LIMIT_PER_ACCOUNT_PER_15_MIN: z.coerce.number().int().min(1).default(10),
   /** First temporary lock after the consecutive failed sign-ins, minutes; each further lock doubles it. */
-  LOGIN_LOCK_BASE_MINUTES: z.coerce.number().positive().max(24 * 60).default(1),
+  LOGIN_LOCK_BASE_MINUTES: z.coerce
+    .number()
+    .positive()
+    .max(24 * 60)
+    .default(1),
   /** Longest temporary lock, minutes (a lock always ends by itself; an administrator can end it sooner). */
-  LOGIN_LOCK_MAX_MINUTES: z.coerce.number().positive().max(24 * 60).default(30),
+  LOGIN_LOCK_MAX_MINUTES: z.coerce
+    .number()
+    .positive()
+    .max(24 * 60)
+    .default(30),
   SERVE_FRONTEND: z
     .enum(['true', 'false'])
     .default('true')
@@ -66,7 +74,10 @@ const envSchema = z.object({
   FILE_STORE: z.enum(['disk', 's3']).default('disk'),
   S3_ENDPOINT: z.string().url('S3_ENDPOINT must be a URL such as https://s3.eu-west-2.amazonaws.com').optional(),
   S3_REGION: z.string().default('us-east-1'),
-  S3_BUCKET: z.string().regex(/^[a-z0-9][a-z0-9.-]{1,61}[a-z0-9]$/, 'S3_BUCKET must be a valid bucket name').default('plenum-uploads'),
+  S3_BUCKET: z
+    .string()
+    .regex(/^[a-z0-9][a-z0-9.-]{1,61}[a-z0-9]$/, 'S3_BUCKET must be a valid bucket name')
+    .default('plenum-uploads'),
   S3_ACCESS_KEY_ID: z.string().optional(),
   S3_SECRET_ACCESS_KEY: z.string().optional(),
   S3_FORCE_PATH_STYLE: z
@@ -77,10 +88,17 @@ const envSchema = z.object({
   IMPORT_BATCH_ROWS: z.coerce.number().int().min(100).max(100_000).default(5000),
   IMPORT_POLL_MS: z.coerce.number().int().min(50).default(1000),
   /** Local time at each site after which a ward with no report for the day gets a reminder (HH:mm). */
-  REPORT_REMINDER_LOCAL_TIME: z.string().regex(/^([01]\d|2[0-3]):[0-5]\d$/, 'use HH:mm, e.g. 14:00').default('14:00'),
+  REPORT_REMINDER_LOCAL_TIME: z
+    .string()
+    .regex(/^([01]\d|2[0-3]):[0-5]\d$/, 'use HH:mm, e.g. 14:00')
+    .default('14:00'),
   REPORT_REMINDER_POLL_MS: z.coerce.number().int().min(1000).default(60_000),
   /** Hours after filing during which a ward lead may still edit a report (then only a facilities manager). */
-  REPORT_EDIT_WINDOW_HOURS: z.coerce.number().min(0).max(24 * 30).default(24),
+  REPORT_EDIT_WINDOW_HOURS: z.coerce
+    .number()
+    .min(0)
+    .max(24 * 30)
+    .default(24),
   /** How many days back a ward lead may file a missing report. */
   REPORT_BACKFILL_DAYS: z.coerce.number().int().min(0).max(31).default(3),
   /** Background jobs of this process (outbox worker, reorder scan, alerts); tests start them by hand. */
@@ -96,11 +114,23 @@ const envSchema = z.object({
     .transform((v) => v === 'true'),
   OUTBOX_POLL_MS: z.coerce.number().int().min(50).default(5000),
   OUTBOX_BACKOFF_BASE_MS: z.coerce.number().int().min(1).default(30_000),
-  OUTBOX_BACKOFF_MAX_MS: z.coerce.number().int().min(1).default(15 * 60_000),
+  OUTBOX_BACKOFF_MAX_MS: z.coerce
+    .number()
+    .int()
+    .min(1)
+    .default(15 * 60_000),
   /** Attempts after which a refused message (SMTP 5xx) is marked failed; unreachable servers are retried until they answer. */
   OUTBOX_MAX_ATTEMPTS: z.coerce.number().int().min(1).default(5),
-  ORDERS_SCAN_MS: z.coerce.number().int().min(1000).default(5 * 60_000),
-  ALERTS_POLL_MS: z.coerce.number().int().min(1000).default(10 * 60_000),
+  ORDERS_SCAN_MS: z.coerce
+    .number()
+    .int()
+    .min(1000)
+    .default(5 * 60_000),
+  ALERTS_POLL_MS: z.coerce
+    .number()
+    .int()
+    .min(1000)
+    .default(10 * 60_000),
   PUBLIC_URL: z.string().default('http://127.0.0.1:8080'),
 });
 
@@ -117,7 +147,9 @@ export function parseEnv(source: Record<string, string | undefined> = process.en
     throw new Error('Configuration is invalid:\n  SESSION_SECRET: set a secret of your own in production');
   }
   if (env.COOKIE_SECURE && (env.TRUST_PROXY === '' || env.TRUST_PROXY === 'false')) {
-    throw new Error("Configuration is invalid:\n  TRUST_PROXY: COOKIE_SECURE needs the TLS proxy's address in TRUST_PROXY (the app sees HTTPS only through it)");
+    throw new Error(
+      "Configuration is invalid:\n  TRUST_PROXY: COOKIE_SECURE needs the TLS proxy's address in TRUST_PROXY (the app sees HTTPS only through it)",
+    );
   }
   return env;
 }

@@ -10,7 +10,16 @@ export function dbErrorCode(e: unknown): string | undefined {
 }
 
 const LOCK_CODES = new Set(['ER_LOCK_DEADLOCK', 'ER_LOCK_WAIT_TIMEOUT']);
-const DOWN_CODES = new Set(['ECONNREFUSED', 'PROTOCOL_CONNECTION_LOST', 'ETIMEDOUT', 'ER_CON_COUNT_ERROR', 'ECONNRESET', 'POOL_CLOSED', 'ER_SERVER_SHUTDOWN', 'EPIPE']);
+const DOWN_CODES = new Set([
+  'ECONNREFUSED',
+  'PROTOCOL_CONNECTION_LOST',
+  'ETIMEDOUT',
+  'ER_CON_COUNT_ERROR',
+  'ECONNRESET',
+  'POOL_CLOSED',
+  'ER_SERVER_SHUTDOWN',
+  'EPIPE',
+]);
 
 /** A deadlock victim or a lock wait timed out (on Galera, a certification failure is reported as a deadlock). */
 export function isLockConflict(e: unknown): boolean {
@@ -25,5 +34,7 @@ export function isDuplicateKey(e: unknown): boolean {
 /** The database cannot be reached (stopped, restarting, network gone, too many connections). */
 export function isDatabaseDown(e: unknown): boolean {
   const code = dbErrorCode(e);
-  return (code !== undefined && DOWN_CODES.has(code)) || /connect ECONNREFUSED|Pool is closed|Connection lost/i.test((e as { message?: string })?.message ?? '');
+  return (
+    (code !== undefined && DOWN_CODES.has(code)) || /connect ECONNREFUSED|Pool is closed|Connection lost/i.test((e as { message?: string })?.message ?? '')
+  );
 }

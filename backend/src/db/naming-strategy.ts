@@ -1,6 +1,10 @@
 import { DefaultNamingStrategy, type NamingStrategyInterface } from 'typeorm';
 
-const snake = (s: string) => s.replace(/([a-z0-9])([A-Z])/g, '$1_$2').replace(/([A-Z])([A-Z][a-z])/g, '$1_$2').toLowerCase();
+const snake = (s: string) =>
+  s
+    .replace(/([a-z0-9])([A-Z])/g, '$1_$2')
+    .replace(/([A-Z])([A-Z][a-z])/g, '$1_$2')
+    .toLowerCase();
 
 /** Tables and columns in snake_case (what a DBA expects in MariaDB); properties stay camelCase. */
 export class SnakeNamingStrategy extends DefaultNamingStrategy implements NamingStrategyInterface {

@@ -7,7 +7,13 @@ export function validate<T>(schema: ZodType<T>, value: unknown, what = 'request'
   const result = schema.safeParse(value ?? {});
   if (!result.success) {
     const details = zodIssues(result.error);
-    throw badRequest(`Please correct the ${what}: ${details.map((d) => `${d.path}: ${d.message}`).slice(0, 3).join('; ')}`, details);
+    throw badRequest(
+      `Please correct the ${what}: ${details
+        .map((d) => `${d.path}: ${d.message}`)
+        .slice(0, 3)
+        .join('; ')}`,
+      details,
+    );
   }
   return result.data;
 }

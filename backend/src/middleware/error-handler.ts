@@ -30,7 +30,12 @@ export function errorHandler(err: unknown, req: Request, res: Response, _next: N
   } else if (isBusy(err)) {
     // A deadlock after the transaction's own retries rolled the change back whole; a full queue ran nothing.
     status = 503;
-    body = { error: { code: 'busy', message: 'Plenum is very busy just now (or another change to the same records was being saved at the same moment); nothing was changed. Try again.' } };
+    body = {
+      error: {
+        code: 'busy',
+        message: 'Plenum is very busy just now (or another change to the same records was being saved at the same moment); nothing was changed. Try again.',
+      },
+    };
     logger.error(`[${req.id}] busy: ${e?.message}`);
   } else if (isDatabaseDown(err)) {
     status = 503;

@@ -23,7 +23,9 @@ export class MariaDbRateLimitStore implements Store {
   }
 
   async get(key: string): Promise<ClientRateLimitInfo | undefined> {
-    const rows: { hits: number; reset_at: Date }[] = await db().query('SELECT hits, reset_at FROM rate_limit_hit WHERE k = ? AND reset_at > NOW(3)', [this.key(key)]);
+    const rows: { hits: number; reset_at: Date }[] = await db().query('SELECT hits, reset_at FROM rate_limit_hit WHERE k = ? AND reset_at > NOW(3)', [
+      this.key(key),
+    ]);
     return rows[0] ? { totalHits: Number(rows[0].hits), resetTime: new Date(rows[0].reset_at) } : undefined;
   }
 

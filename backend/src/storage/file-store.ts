@@ -90,7 +90,12 @@ class S3Store implements FileStore {
   }
   async putFile(localPath: string, key: string): Promise<void> {
     // Multipart upload from a file stream: memory stays at a few 5 MB parts whatever the file's size.
-    await new Upload({ client: this.client, params: { Bucket: this.bucket, Key: key, Body: createReadStream(localPath), ContentType: 'text/csv' }, queueSize: 2, partSize: 5 * 1024 * 1024 }).done();
+    await new Upload({
+      client: this.client,
+      params: { Bucket: this.bucket, Key: key, Body: createReadStream(localPath), ContentType: 'text/csv' },
+      queueSize: 2,
+      partSize: 5 * 1024 * 1024,
+    }).done();
     await unlink(localPath).catch(() => undefined);
   }
   async localCopy(key: string): Promise<LocalCopy> {

@@ -5,7 +5,9 @@ import { backoffMs } from './backoff';
 describe('backoffMs', () => {
   it('doubles from the base and stops at the cap', () => {
     const mid = () => 0.5; // the middle of the jitter range: no jitter
-    expect([1, 2, 3, 4, 5, 6].map((a) => backoffMs(a, { baseMs: 30_000, maxMs: 900_000, random: mid }))).toEqual([30_000, 60_000, 120_000, 240_000, 480_000, 900_000]);
+    expect([1, 2, 3, 4, 5, 6].map((a) => backoffMs(a, { baseMs: 30_000, maxMs: 900_000, random: mid }))).toEqual([
+      30_000, 60_000, 120_000, 240_000, 480_000, 900_000,
+    ]);
     expect(backoffMs(80, { baseMs: 30_000, maxMs: 900_000, random: mid })).toBe(900_000);
   });
   it('spreads by ±25 % or, with full jitter, anywhere from 0 to the delay', () => {

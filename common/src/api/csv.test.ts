@@ -13,6 +13,14 @@ describe('csv export', () => {
     expect(csvCell(Number.NaN)).toBe('');
   });
   it('quotes commas, quotes and line breaks (RFC 4180)', () => {
-    expect(toCsv(['a', 'b'], [['x,y', 'say "hi"'], ['line\nbreak', 3]])).toBe('a,b\r\n"x,y","say ""hi"""\r\n"line\nbreak",3\r\n');
+    expect(
+      toCsv(
+        ['a', 'b'],
+        [
+          ['x,y', 'say "hi"'],
+          ['line\nbreak', 3],
+        ],
+      ),
+    ).toBe('a,b\r\n"x,y","say ""hi"""\r\n"line\nbreak",3\r\n');
   });
 });

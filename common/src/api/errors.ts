@@ -43,7 +43,11 @@ export function invalidFromZod(error: ZodError, what = 'input'): InvalidInputErr
 }
 
 /** Parses with a zod schema or throws InvalidInputError with field details. */
-export function parseOrThrow<T>(schema: { safeParse(v: unknown): { success: true; data: T } | { success: false; error: ZodError } }, value: unknown, what?: string): T {
+export function parseOrThrow<T>(
+  schema: { safeParse(v: unknown): { success: true; data: T } | { success: false; error: ZodError } },
+  value: unknown,
+  what?: string,
+): T {
   const result = schema.safeParse(value);
   if (!result.success) throw invalidFromZod(result.error, what);
   return result.data;

@@ -24,7 +24,10 @@ const calcVerbs: Record<string, (input: unknown) => unknown> = { ...gasCalcVerbs
 
 /** One valid input per verb, taken from the verbs' own worked examples. A new verb must be added here. */
 const EXAMPLES: Record<string, unknown> = {
-  z: [{ gas: 'O2', temperature_C: 15, pressure_bar_abs: 200 }, { gas: 'HE', temperature_C: -20, pressure_bar_abs: 137 }],
+  z: [
+    { gas: 'O2', temperature_C: 15, pressure_bar_abs: 200 },
+    { gas: 'HE', temperature_C: -20, pressure_bar_abs: 137 },
+  ],
   contents: [
     { gas: 'O2', water_capacity_L: 10, gauge_bar: 200, temperature_C: 15 },
     { gas: 'N2O', gross_kg: 20, tare_kg: 15, water_capacity_L: 10, temperature_C: 15 },
@@ -36,7 +39,16 @@ const EXAMPLES: Record<string, unknown> = {
     timezone: 'Europe/London',
     horizon_days: 30,
     reference: '15C',
-    source: { type: 'bulk_liquid', gas: 'O2', capacity_kg: 10000, contents_kg: 6000, evaporation_percent_per_day: 0.5, reorder_level_kg: 2500, order_up_to_kg: 9500, lead_time_hours: 48 },
+    source: {
+      type: 'bulk_liquid',
+      gas: 'O2',
+      capacity_kg: 10000,
+      contents_kg: 6000,
+      evaporation_percent_per_day: 0.5,
+      reorder_level_kg: 2500,
+      order_up_to_kg: 9500,
+      lead_time_hours: 48,
+    },
     demand: [{ flow_L_min: 100 }, { flow_L_min: 200, hours: [8, 9, 10, 11, 12], weekdays: [1, 2, 3, 4, 5] }],
     deliveries: [{ at: '2027-01-10T06:00', kg: 4000 }],
     draws: 20,

@@ -30,7 +30,9 @@ export function finiteOrRefused(verb: CalcVerb): CalcVerb {
     const out = verb(input);
     const bad = firstNonFinite(out, '');
     if (bad !== null) {
-      throw new InvalidInputError(`The inputs give a result that is not a finite number (${bad}): check that every value is in a physically meaningful range`, [{ path: '(root)', message: `result ${bad} is not finite` }]);
+      throw new InvalidInputError(`The inputs give a result that is not a finite number (${bad}): check that every value is in a physically meaningful range`, [
+        { path: '(root)', message: `result ${bad} is not finite` },
+      ]);
     }
     return out;
   };

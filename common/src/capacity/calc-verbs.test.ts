@@ -58,7 +58,13 @@ describe('design-flow verb', () => {
       id: 'site-a',
       name: 'Site A air',
       sources: [{ id: 'survey', citation: 'site survey 2024', verified: false }],
-      gases: { AIR: { departments: { ward: { method: 'first_plus_further', first_unit_L_min: 20, further_unit_L_min: 10, diversity: 0.2, source: 'survey', verified: false } } } },
+      gases: {
+        AIR: {
+          departments: {
+            ward: { method: 'first_plus_further', first_unit_L_min: 20, further_unit_L_min: 10, diversity: 0.2, source: 'survey', verified: false },
+          },
+        },
+      },
     };
     // 20 + 9 × 10 × 0.2 = 38
     const out = verb('design-flow', { gas: 'AIR', rules, zones: [ward()] });
@@ -80,7 +86,12 @@ describe('design-flow verb', () => {
       'inline rule with an unlisted source',
       {
         gas: 'AIR',
-        rules: { id: 'x', name: 'x', sources: [], gases: { AIR: { departments: { ward: { method: 'use_factor', unit_L_min: 10, use_factor: 0.1, source: 's', verified: false } } } } },
+        rules: {
+          id: 'x',
+          name: 'x',
+          sources: [],
+          gases: { AIR: { departments: { ward: { method: 'use_factor', unit_L_min: 10, use_factor: 0.1, source: 's', verified: false } } } },
+        },
         zones: [ward()],
       },
       'rules.gases.AIR.departments.ward.source',

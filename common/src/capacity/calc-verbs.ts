@@ -53,8 +53,10 @@ function bounded(schema: z.ZodNumber, what: string, kind: keyof typeof BOUNDS | 
   if (min !== undefined) out = out.min(min, `${what} must be at least ${min}`);
   return out;
 }
-const positiveNumber = (what: string, kind?: keyof typeof BOUNDS) => bounded(z.number({ error: `${what} is required (a number)` }).positive(`${what} must be greater than zero`), what, kind, true);
-const nonNegativeNumber = (what: string, kind?: keyof typeof BOUNDS) => bounded(z.number({ error: `${what} must be a number` }).nonnegative(`${what} must not be negative`), what, kind);
+const positiveNumber = (what: string, kind?: keyof typeof BOUNDS) =>
+  bounded(z.number({ error: `${what} is required (a number)` }).positive(`${what} must be greater than zero`), what, kind, true);
+const nonNegativeNumber = (what: string, kind?: keyof typeof BOUNDS) =>
+  bounded(z.number({ error: `${what} must be a number` }).nonnegative(`${what} must not be negative`), what, kind);
 
 // ---------------------------------------------------------------------------------------------
 // design-flow
@@ -157,12 +159,16 @@ function toPipeSpec(p: PipeFields, pathPrefix: string): Omit<PipeRunSpec, 'gas'>
       ]);
     }
     if (innerDiameterMm !== undefined && Math.abs(innerDiameterMm - tube.innerDiameterMm) > 1e-9) {
-      throw new InvalidInputError('Give either tube or inner_diameter_mm, not both', [{ path: `${pathPrefix}inner_diameter_mm`, message: 'conflicts with tube' }]);
+      throw new InvalidInputError('Give either tube or inner_diameter_mm, not both', [
+        { path: `${pathPrefix}inner_diameter_mm`, message: 'conflicts with tube' },
+      ]);
     }
     innerDiameterMm = tube.innerDiameterMm;
   }
   if (innerDiameterMm === undefined) {
-    throw new InvalidInputError('Give the tube size ("22x0.9") or inner_diameter_mm', [{ path: `${pathPrefix}tube`, message: 'tube or inner_diameter_mm is required' }]);
+    throw new InvalidInputError('Give the tube size ("22x0.9") or inner_diameter_mm', [
+      { path: `${pathPrefix}tube`, message: 'tube or inner_diameter_mm is required' },
+    ]);
   }
   return {
     innerDiameterMm,
@@ -387,7 +393,11 @@ function reserveCheckVerb(input: unknown): unknown {
 // simultaneous-use
 
 const simultaneousInputSchema = z.object({
-  outlets: z.number({ error: 'outlets is required' }).int('outlets must be a whole number').positive('outlets must be at least 1').max(100_000, 'outlets must be at most 100,000'),
+  outlets: z
+    .number({ error: 'outlets is required' })
+    .int('outlets must be a whole number')
+    .positive('outlets must be at least 1')
+    .max(100_000, 'outlets must be at most 100,000'),
   use_probability: z.number({ error: 'use_probability is required' }).min(0, 'use_probability must be ≥ 0').max(1, 'use_probability must be ≤ 1'),
   confidence: z.number({ error: 'confidence is required' }).gt(0, 'confidence must be > 0').max(1, 'confidence must be ≤ 1'),
   flow_per_outlet_L_min: positiveNumber('flow_per_outlet_L_min', 'flow_per_patient_L_min'),

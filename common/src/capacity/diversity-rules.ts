@@ -81,12 +81,7 @@ export const binomialRuleSchema = z.object({
   ...ruleMeta,
 });
 
-export const departmentRuleSchema = z.discriminatedUnion('method', [
-  firstPlusFurtherRuleSchema,
-  useFactorRuleSchema,
-  as2896RuleSchema,
-  binomialRuleSchema,
-]);
+export const departmentRuleSchema = z.discriminatedUnion('method', [firstPlusFurtherRuleSchema, useFactorRuleSchema, as2896RuleSchema, binomialRuleSchema]);
 export type DepartmentRule = z.infer<typeof departmentRuleSchema>;
 
 /**

@@ -106,7 +106,14 @@ describe('Darcy–Weisbach pressure drop', () => {
   });
 
   it('zero flow gives zero drop', () => {
-    const r = computeDarcyPressureDrop({ flowFreeLMin: 0, referenceDensityKgM3: 1.35, lineDensityKgM3: 6.6, viscosityPaS: 2e-5, innerDiameterMm: 20.2, lengthM: 10 });
+    const r = computeDarcyPressureDrop({
+      flowFreeLMin: 0,
+      referenceDensityKgM3: 1.35,
+      lineDensityKgM3: 6.6,
+      viscosityPaS: 2e-5,
+      innerDiameterMm: 20.2,
+      lengthM: 10,
+    });
     expect(r.pressureDropKPa).toBe(0);
   });
 

@@ -62,7 +62,8 @@ export const PURE_GAS_VISCOSITY: Record<'O2' | 'N2' | 'AIR' | 'AR' | 'HE' | 'CO2
   CO2: { viscosityPaS: 14.7e-6, molarMassGMol: 44.01 },
   N2O: { viscosityPaS: 14.6e-6, molarMassGMol: 44.013 },
 };
-export const VISCOSITY_SOURCE = 'dynamic viscosities at 20 °C: typical handbook values, from memory, carried to the gas temperature by Sutherland’s law (constants from memory); mixtures by Wilke (1950)';
+export const VISCOSITY_SOURCE =
+  'dynamic viscosities at 20 °C: typical handbook values, from memory, carried to the gas temperature by Sutherland’s law (constants from memory); mixtures by Wilke (1950)';
 
 type PureViscosityGas = keyof typeof PURE_GAS_VISCOSITY;
 
@@ -232,7 +233,7 @@ export function computeDarcyPressureDrop(input: DarcyPressureDropInput): DarcyPr
 
   const d = input.innerDiameterMm / 1000;
   const area = (Math.PI * d * d) / 4;
-  const massFlowKgS = ((input.flowFreeLMin / 60000) * input.referenceDensityKgM3);
+  const massFlowKgS = (input.flowFreeLMin / 60000) * input.referenceDensityKgM3;
   const actualM3S = massFlowKgS / input.lineDensityKgM3;
   const velocityMS = actualM3S / area;
   const effectiveLengthM = input.lengthM * (1 + (input.fittingsAllowancePercent ?? 0) / 100) + (input.fittingsEquivalentLengthM ?? 0);

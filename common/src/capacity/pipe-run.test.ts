@@ -100,7 +100,10 @@ describe('from-memory defaults and the gas temperature', () => {
     expect(byDefault.verdictNote).toMatch(/allowed drop/);
     expect(byDefault.verdictNote).toMatch(/EN 13348/);
     expect(byDefault.verdictNote).toMatch(/viscosity/);
-    const given = computePipeRunPressureDrop({ gas: 'O2', innerDiameterMm: 20.2, lengthM: 50, fittingsAllowancePercent: 30, allowedDropKPa: 20, viscosityPaS: 2.04e-5, roughnessMm: 0.0015 }, 500);
+    const given = computePipeRunPressureDrop(
+      { gas: 'O2', innerDiameterMm: 20.2, lengthM: 50, fittingsAllowancePercent: 30, allowedDropKPa: 20, viscosityPaS: 2.04e-5, roughnessMm: 0.0015 },
+      500,
+    );
     expect(given.verdictNote).toMatch(/from the figures given/);
   });
 });

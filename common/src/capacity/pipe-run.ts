@@ -88,20 +88,26 @@ function resolve(spec: PipeRunSpec): Resolved {
       { path: 'line_pressure_kPa_gauge', message: 'expected > 0 kPa gauge' },
     ]);
   }
-  if (spec.linePressureKPaGauge === undefined) assumptions.push(`line pressure ${NOMINAL_DISTRIBUTION_PRESSURE_KPA} kPa gauge (HTM 02-01 nominal distribution pressure)`);
+  if (spec.linePressureKPaGauge === undefined)
+    assumptions.push(`line pressure ${NOMINAL_DISTRIBUTION_PRESSURE_KPA} kPa gauge (HTM 02-01 nominal distribution pressure)`);
   let fittingsAllowancePercent = spec.fittingsAllowancePercent;
   if (fittingsAllowancePercent === undefined) {
     fittingsAllowancePercent = spec.fittingsEquivalentLengthM === undefined ? DEFAULT_FITTINGS_ALLOWANCE_PERCENT : 0;
-    if (spec.fittingsEquivalentLengthM === undefined) assumptions.push(`fittings allowance ${DEFAULT_FITTINGS_ALLOWANCE_PERCENT} % of length (common practice, from memory)`);
+    if (spec.fittingsEquivalentLengthM === undefined)
+      assumptions.push(`fittings allowance ${DEFAULT_FITTINGS_ALLOWANCE_PERCENT} % of length (common practice, from memory)`);
   }
   const allowedDropKPa = spec.allowedDropKPa ?? DEFAULT_ALLOWED_DROP_FRACTION * line;
-  if (spec.allowedDropKPa === undefined) assumptions.push(`allowed drop ${DEFAULT_ALLOWED_DROP_FRACTION * 100} % of line pressure (common practice, from memory)`);
+  if (spec.allowedDropKPa === undefined)
+    assumptions.push(`allowed drop ${DEFAULT_ALLOWED_DROP_FRACTION * 100} % of line pressure (common practice, from memory)`);
   if (!(allowedDropKPa > 0)) {
     throw new InvalidInputError('The allowed pressure drop must be positive', [{ path: 'allowed_drop_kPa', message: 'expected > 0' }]);
   }
   const gasTemperatureK = spec.gasTemperatureK ?? DEFAULT_LINE_TEMPERATURE_K;
   const viscosityPaS = spec.viscosityPaS ?? lookupViscosityPaS(spec.gas, gasTemperatureK);
-  if (spec.viscosityPaS === undefined) assumptions.push(`viscosity at the gas temperature (${(gasTemperatureK - 273.15).toFixed(1)} °C) from a 20 °C table by Sutherland’s law (from memory); mixtures by Wilke 1950`);
+  if (spec.viscosityPaS === undefined)
+    assumptions.push(
+      `viscosity at the gas temperature (${(gasTemperatureK - 273.15).toFixed(1)} °C) from a 20 °C table by Sutherland’s law (from memory); mixtures by Wilke 1950`,
+    );
   if (spec.innerDiameterFromTubeTable) assumptions.push('inner diameter from the EN 13348 tube sizes (wall thicknesses from memory, not verified)');
   if (spec.roughnessMm === undefined) assumptions.push(`roughness ${DRAWN_COPPER_ROUGHNESS_MM} mm, drawn copper (from memory)`);
   return {
@@ -210,7 +216,8 @@ export function computePipeRunCapacityLMin(spec: PipeRunSpec): { capacityLMin: n
   while (evaluate(r, hi).pressureDropKPa < allowed) {
     lo = hi;
     hi *= 2;
-    if (++guard > 60) throw new InvalidInputError('The pipe run has no practical flow limit with these inputs', [{ path: 'allowed_drop_kPa', message: 'check the inputs' }]);
+    if (++guard > 60)
+      throw new InvalidInputError('The pipe run has no practical flow limit with these inputs', [{ path: 'allowed_drop_kPa', message: 'check the inputs' }]);
   }
   while (hi - lo > 1e-6 * hi) {
     const mid = (lo + hi) / 2;

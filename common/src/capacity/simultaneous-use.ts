@@ -9,9 +9,7 @@ export const MAX_OUTLETS = 100_000;
 
 function requireOutletCount(n: number, path = 'outlets'): void {
   if (!Number.isInteger(n) || n < 1) {
-    throw new InvalidInputError(`The number of outlets must be a whole number of at least 1 (got ${n})`, [
-      { path, message: 'expected an integer ≥ 1' },
-    ]);
+    throw new InvalidInputError(`The number of outlets must be a whole number of at least 1 (got ${n})`, [{ path, message: 'expected an integer ≥ 1' }]);
   }
   if (n > MAX_OUTLETS) {
     throw new InvalidInputError(`The number of outlets must be at most ${MAX_OUTLETS} (got ${n})`, [{ path, message: `expected at most ${MAX_OUTLETS}` }]);
@@ -98,9 +96,7 @@ export function computeSimultaneousOutlets(n: number, p: number, confidence: num
  */
 export function computeBinomialDesignFlowLMin(n: number, p: number, confidence: number, flowPerOutletLMin: number): number {
   if (!(flowPerOutletLMin > 0) || !Number.isFinite(flowPerOutletLMin)) {
-    throw new InvalidInputError('The flow per outlet must be a positive number of L/min', [
-      { path: 'flow_per_outlet_L_min', message: 'expected > 0' },
-    ]);
+    throw new InvalidInputError('The flow per outlet must be a positive number of L/min', [{ path: 'flow_per_outlet_L_min', message: 'expected > 0' }]);
   }
   return computeSimultaneousOutlets(n, p, confidence).outletsInUse * flowPerOutletLMin;
 }

@@ -73,7 +73,7 @@ describe('vaporiser and duration arithmetic', () => {
 
   it('WE-5: the 600 L/min surge is 36 m³/h, beyond a 50 m³/h vaporiser derated to 35 m³/h', () => {
     // WE-5: 30 × 10 + 10 × 30 = 600 L/min = 36 m³/h (WHO flows)
-    expect((computeDailyDemandL(600, 24) / 1000)).toBeCloseTo(864, 9); // 864 m³/day (WE-5)
+    expect(computeDailyDemandL(600, 24) / 1000).toBeCloseTo(864, 9); // 864 m³/day (WE-5)
     expect(computeVaporiserCapacityLMin(50)).toBeLessThan(600);
   });
 

@@ -16,8 +16,7 @@ function throwIf(issues: FieldIssue[], what: string): void {
 }
 
 /** Source string of the secondary-supply rule. */
-export const FOUR_HOUR_RULE_SOURCE =
-  'HTM 02-01: secondary supply (e.g. emergency reserve manifold) holds at least 4 h of consumption at design flow';
+export const FOUR_HOUR_RULE_SOURCE = 'HTM 02-01: secondary supply (e.g. emergency reserve manifold) holds at least 4 h of consumption at design flow';
 /** Source string of the average-day rule. */
 export const AVERAGE_DAY_RULE_SOURCE =
   "NFPA 99 (2002) §5.1.3.4.13: the in-building emergency reserve holds at least one average day's supply (it does not replace the bulk reserve, §5.1.3.4.11.4)";
@@ -181,10 +180,7 @@ export function applyFourHourRule(designFlowLMin: number, options: { cylinderFre
  * @param averageDailyConsumptionL average daily consumption, L free gas (measured, not design flow)
  * @param options cylinderFreeGasL to count cylinders; heldFreeGasL to check a reserve
  */
-export function applyAverageDayRule(
-  averageDailyConsumptionL: number,
-  options: { cylinderFreeGasL?: number; heldFreeGasL?: number } = {},
-): ReserveRuleResult {
+export function applyAverageDayRule(averageDailyConsumptionL: number, options: { cylinderFreeGasL?: number; heldFreeGasL?: number } = {}): ReserveRuleResult {
   const issues: FieldIssue[] = [];
   check(issues, 'average_daily_consumption_L', averageDailyConsumptionL, 'The average daily consumption');
   if (options.cylinderFreeGasL !== undefined) check(issues, 'cylinder_free_gas_L', options.cylinderFreeGasL, 'The cylinder content');

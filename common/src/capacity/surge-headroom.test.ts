@@ -9,10 +9,7 @@ describe('surge headroom', () => {
     // vaporiser 60 m³/h × 0.7 (continuous-duty derating, alternating pair) = 700 L/min; (700 − 300) / 40 = 10
     const vaporiser = resolveCapacityLimit({ kind: 'vaporiser', name: 'VIE vaporiser', ratingM3H: 60 }, 'O2');
     const regulator = resolveCapacityLimit({ kind: 'manifold_regulator', name: 'Line regulator', capacityLMin: 1500 }, 'O2');
-    const mainPipe = resolveCapacityLimit(
-      { kind: 'pipe_run', name: 'Main riser 54 mm', pipe: { innerDiameterMm: 51.6, lengthM: 80 } },
-      'O2',
-    );
+    const mainPipe = resolveCapacityLimit({ kind: 'pipe_run', name: 'Main riser 54 mm', pipe: { innerDiameterMm: 51.6, lengthM: 80 } }, 'O2');
     expect(vaporiser.capacityLMin).toBeCloseTo(700, 9);
     expect(mainPipe.capacityLMin).toBeGreaterThan(1500);
     const h = computeSurgeHeadroom({ flowPerPatientLMin: 40, site: { currentFlowLMin: 300, limits: [regulator, vaporiser, mainPipe] } });
@@ -74,8 +71,8 @@ describe('surge headroom', () => {
 
   it('refuses a site without limits and a non-positive patient flow', () => {
     expect(() => computeSurgeHeadroom({ flowPerPatientLMin: 40, site: { currentFlowLMin: 1, limits: [] } })).toThrow(InvalidInputError);
-    expect(() => computeSurgeHeadroom({ flowPerPatientLMin: 0, site: { currentFlowLMin: 1, limits: [{ kind: 'other', name: 'X', capacityLMin: 5 }] } })).toThrow(
-      InvalidInputError,
-    );
+    expect(() =>
+      computeSurgeHeadroom({ flowPerPatientLMin: 0, site: { currentFlowLMin: 1, limits: [{ kind: 'other', name: 'X', capacityLMin: 5 }] } }),
+    ).toThrow(InvalidInputError);
   });
 });

@@ -143,7 +143,9 @@ export function computeSurgeHeadroom(input: SurgeHeadroomInput): SurgeHeadroom {
     throw new InvalidInputError('The flow per patient must be positive', [{ path: 'flow_per_patient_L_min', message: 'expected > 0' }]);
   }
   if (input.site.limits.length === 0) {
-    throw new InvalidInputError('Give at least one site limit (manifold regulator, vaporiser or main pipe run)', [{ path: 'site.limits', message: 'expected at least one limit' }]);
+    throw new InvalidInputError('Give at least one site limit (manifold regulator, vaporiser or main pipe run)', [
+      { path: 'site.limits', message: 'expected at least one limit' },
+    ]);
   }
   const zones = input.zones ?? [];
   const siteFlow = input.site.currentFlowLMin ?? zones.reduce((s, z) => s + z.currentFlowLMin, 0);
@@ -160,9 +162,8 @@ export function computeSurgeHeadroom(input: SurgeHeadroomInput): SurgeHeadroom {
       name: z.name,
       ...own,
       extraPatientsWithSite: Math.min(own.extraPatients, site.extraPatients),
-      limitedBy: bySite || !zoneFirst
-        ? { scope: 'site', kind: siteFirst.kind, name: siteFirst.name }
-        : { scope: 'zone', kind: zoneFirst.kind, name: zoneFirst.name },
+      limitedBy:
+        bySite || !zoneFirst ? { scope: 'site', kind: siteFirst.kind, name: siteFirst.name } : { scope: 'zone', kind: zoneFirst.kind, name: zoneFirst.name },
     };
   });
   return { flowPerPatientLMin: input.flowPerPatientLMin, site, zones: zoneResults };

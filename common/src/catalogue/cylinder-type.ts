@@ -22,17 +22,32 @@ export interface NominalContents {
  * Nominal contents of a full cylinder, computed by the gas engine (never typed in): compressed gases at
  * the nominal fill pressure (gauge) and 15 °C; liquefied gases at the maximum filling ratio.
  */
-export function nominalContents(input: { gas: string; waterCapacityL: number; fillPressureBar: number; maxFillingRatioKgPerL: number | null }): NominalContents | null {
+export function nominalContents(input: {
+  gas: string;
+  waterCapacityL: number;
+  fillPressureBar: number;
+  maxFillingRatioKgPerL: number | null;
+}): NominalContents | null {
   const { gas } = input;
   if (!isGasCode(gas)) return null;
   try {
     if (isLiquefiedGas(gas)) {
       if (!input.maxFillingRatioKgPerL) return null;
       const massKg = input.maxFillingRatioKgPerL * input.waterCapacityL;
-      return { freeGasL: massKg * freeGasLitresPerKg(gas, '15C'), idealFreeGasL: null, massKg, basis: `${input.maxFillingRatioKgPerL} kg/L filling ratio; free gas at 15 °C, 1.01325 bar` };
+      return {
+        freeGasL: massKg * freeGasLitresPerKg(gas, '15C'),
+        idealFreeGasL: null,
+        massKg,
+        basis: `${input.maxFillingRatioKgPerL} kg/L filling ratio; free gas at 15 °C, 1.01325 bar`,
+      };
     }
     const c = compressedContents({ gas, waterCapacityL: input.waterCapacityL, gaugeBar: input.fillPressureBar, temperatureC: 15, reference: '15C' });
-    return { freeGasL: c.freeGasL, idealFreeGasL: c.idealFreeGasL, massKg: c.massKg, basis: `${input.fillPressureBar} bar gauge at 15 °C; free gas at 15 °C, 1.01325 bar` };
+    return {
+      freeGasL: c.freeGasL,
+      idealFreeGasL: c.idealFreeGasL,
+      massKg: c.massKg,
+      basis: `${input.fillPressureBar} bar gauge at 15 °C; free gas at 15 °C, 1.01325 bar`,
+    };
   } catch {
     return null;
   }

@@ -162,8 +162,16 @@ describe('calc forecast: analytic cases', () => {
       timezone: 'Europe/London',
       horizon_days: 10,
       source: {
-        type: 'cylinders', gas: 'O2', water_capacity_L: 47, fill_gauge_bar: 137, fill_temperature_C: 15,
-        full: 10, in_use_gauge_bar: [], reorder_level_cylinders: 4, order_up_to_cylinders: 12, lead_time_hours: 24,
+        type: 'cylinders',
+        gas: 'O2',
+        water_capacity_L: 47,
+        fill_gauge_bar: 137,
+        fill_temperature_C: 15,
+        full: 10,
+        in_use_gauge_bar: [],
+        reorder_level_cylinders: 4,
+        order_up_to_cylinders: 12,
+        lead_time_hours: 24,
         residual_gauge_bar: 0, // HTM's nominal contents are to empty
       },
       demand: [{ flow_L_min: 10 }],
@@ -208,8 +216,14 @@ describe('calc forecast: analytic cases', () => {
       timezone: 'Europe/London',
       horizon_days: 2,
       source: {
-        type: 'manifold', gas: 'O2', water_capacity_L: 47, fill_gauge_bar: 137, fill_temperature_C: 15,
-        cylinders_per_bank: 10, duty_bank_gauge_bar: 137, standby_bank_gauge_bar: 137,
+        type: 'manifold',
+        gas: 'O2',
+        water_capacity_L: 47,
+        fill_gauge_bar: 137,
+        fill_temperature_C: 15,
+        cylinders_per_bank: 10,
+        duty_bank_gauge_bar: 137,
+        standby_bank_gauge_bar: 137,
       },
       demand: [{ flow_L_min: 201 }],
     });
@@ -293,7 +307,19 @@ describe('calc forecast: liquefied gases are known by weight, not by gauge', () 
     expect(e.message).toMatch(/weigh the cylinder: gross − tare/);
     expect(e.details[0].path).toBe('source.in_use_gauge_bar.0');
     // a manifold's bank gauges of a liquefied gas say nothing about contents either
-    const m = errorOf({ ...n2oStore({}), source: { type: 'manifold', gas: 'N2O', water_capacity_L: 10, fill_gauge_bar: 44, fill_kg: 7.5, cylinders_per_bank: 2, duty_bank_gauge_bar: 44, standby_bank_gauge_bar: 44 } });
+    const m = errorOf({
+      ...n2oStore({}),
+      source: {
+        type: 'manifold',
+        gas: 'N2O',
+        water_capacity_L: 10,
+        fill_gauge_bar: 44,
+        fill_kg: 7.5,
+        cylinders_per_bank: 2,
+        duty_bank_gauge_bar: 44,
+        standby_bank_gauge_bar: 44,
+      },
+    });
     expect(m.message).toMatch(/weigh/);
   });
 
@@ -324,7 +350,9 @@ describe('calc forecast: the 50:50 N2O/O2 separation caution', () => {
   });
 
   it('a mixture store carries its hours to empty across the mixture Z range (Peng–Robinson 1976 as the second method)', () => {
-    const out = forecastVerb(entonox({ in_use_temperature_C: 18, residual_gauge_bar: 0 })) as Out & { hours_to_empty_range: { low: number; high: number; method: string } };
+    const out = forecastVerb(entonox({ in_use_temperature_C: 18, residual_gauge_bar: 0 })) as Out & {
+      hours_to_empty_range: { low: number; high: number; method: string };
+    };
     // 4 × 10 L at 137 bar g ≈ 4 × 1,900 L of free gas at 5 L/min: about 25 h, inside the 5-day horizon
     expect(out.hours_to_empty).not.toBeNull();
     expect(out.hours_to_empty_range.low).toBeLessThanOrEqual(out.hours_to_empty!);
@@ -349,7 +377,16 @@ describe('calc forecast: cylinders are changed at a stated residual, not drained
       start: '2027-01-04T00:00',
       timezone: 'Europe/London',
       horizon_days: 5,
-      source: { type: 'cylinders', gas: 'O2', water_capacity_L: 50, fill_gauge_bar: 200, fill_temperature_C: 15, full: 4, in_use_gauge_bar: [], ...(residual === undefined ? {} : { residual_gauge_bar: residual }) },
+      source: {
+        type: 'cylinders',
+        gas: 'O2',
+        water_capacity_L: 50,
+        fill_gauge_bar: 200,
+        fill_temperature_C: 15,
+        full: 4,
+        in_use_gauge_bar: [],
+        ...(residual === undefined ? {} : { residual_gauge_bar: residual }),
+      },
       demand: [{ flow_L_min: 10 }],
     });
     const flat = forecastVerb(input(0)) as Out & { residual: { gauge_bar: number; basis: string } };
@@ -364,19 +401,28 @@ describe('calc forecast: cylinders are changed at a stated residual, not drained
   });
 
   it('refuses a residual at or above the fill pressure', () => {
-    expect(() => forecastVerb({ start: '2027-01-04T00:00', timezone: 'Europe/London', source: { type: 'cylinders', gas: 'O2', water_capacity_L: 50, fill_gauge_bar: 200, full: 1, residual_gauge_bar: 200 } })).toThrow(InvalidInputError);
+    expect(() =>
+      forecastVerb({
+        start: '2027-01-04T00:00',
+        timezone: 'Europe/London',
+        source: { type: 'cylinders', gas: 'O2', water_capacity_L: 50, fill_gauge_bar: 200, full: 1, residual_gauge_bar: 200 },
+      }),
+    ).toThrow(InvalidInputError);
   });
 });
 
 describe('calc forecast: command line', () => {
   const repo = fileURLToPath(new URL('../../../', import.meta.url));
-  const calc = (input: string) => spawnSync('node', ['--import', 'tsx', 'scripts/calc.ts', 'forecast'], { cwd: repo, input, encoding: 'utf8', timeout: 60_000 });
+  const calc = (input: string) =>
+    spawnSync('node', ['--import', 'tsx', 'scripts/calc.ts', 'forecast'], { cwd: repo, input, encoding: 'utf8', timeout: 60_000 });
 
   it('exits 0 with the contract shape, and 2 with invalid_input for bad input', () => {
     const ok = calc(JSON.stringify(EXAMPLE));
     expect(ok.status).toBe(0);
     const out = JSON.parse(ok.stdout) as Out;
-    expect(Object.keys(out)).toEqual(expect.arrayContaining(['hours_to_empty', 'empty_at', 'reorder_at', 'days_of_stock_at_start', 'orders', 'series', 'unit']));
+    expect(Object.keys(out)).toEqual(
+      expect.arrayContaining(['hours_to_empty', 'empty_at', 'reorder_at', 'days_of_stock_at_start', 'orders', 'series', 'unit']),
+    );
     expect(out.series).toHaveLength(1440);
     expect(out.orders[0]).toEqual({ placed_at: expect.any(String), arrives_at: expect.any(String), quantity: expect.any(Number), quantity_unit: 'kg' });
 
@@ -388,5 +434,4 @@ describe('calc forecast: command line', () => {
     expect(err.error.code).toBe('invalid_input');
     expect(err.error.details.map((d) => d.path)).toContain('demand.0.flow_L_min');
   }, 60_000);
-
 });

@@ -12,7 +12,11 @@ describe('the chart series (columns)', () => {
     expect(s.stepHours).toBe(1);
     expect(s.contents).toEqual([983.7, 975.6, 967.5]);
     expect(chartSeriesEnd(s)).toBe('2027-01-04T05:00:00.000Z');
-    expect(chartPoints(s).map((p) => new Date(p.t).toISOString())).toEqual(['2027-01-04T03:00:00.000Z', '2027-01-04T04:00:00.000Z', '2027-01-04T05:00:00.000Z']);
+    expect(chartPoints(s).map((p) => new Date(p.t).toISOString())).toEqual([
+      '2027-01-04T03:00:00.000Z',
+      '2027-01-04T04:00:00.000Z',
+      '2027-01-04T05:00:00.000Z',
+    ]);
   });
 
   it('rounds litres of free gas to whole litres, and is empty past the end', () => {

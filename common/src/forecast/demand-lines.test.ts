@@ -9,10 +9,7 @@ const sum = (a: Float64Array, from = 0, to = a.length) => a.subarray(from, to).r
 describe('buildHourlyDemand', () => {
   it('adds lines and applies weekday-only hours across the spring clock change (London, week of 2027-03-22)', () => {
     const idx = buildHourIndex('Europe/London', '2027-03-22T00:00', 7);
-    const lines: DemandLine[] = [
-      { flow_L_min: 100 },
-      { flow_L_min: 200, hours: [8, 9, 10, 11, 12, 13, 14, 15, 16, 17], weekdays: [1, 2, 3, 4, 5] },
-    ];
+    const lines: DemandLine[] = [{ flow_L_min: 100 }, { flow_L_min: 200, hours: [8, 9, 10, 11, 12, 13, 14, 15, 16, 17], weekdays: [1, 2, 3, 4, 5] }];
     const d = buildHourlyDemand(lines, idx);
     expect(d).toHaveLength(167);
     // Constant line: 100 L/min × 60 = 6,000 L/h over 167 real hours = 1,002,000 L (one hour short of 168).

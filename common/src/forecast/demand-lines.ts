@@ -43,7 +43,8 @@ export function checkDemandLines(lines: readonly DemandLine[], pathPrefix = 'dem
       if (!Number.isInteger(h) || h < 0 || h > 23) issues.push({ path: `${p}.hours.${j}`, message: 'local clock hour must be an integer 0–23' });
     });
     line.weekdays?.forEach((d, j) => {
-      if (!Number.isInteger(d) || d < 1 || d > 7) issues.push({ path: `${p}.weekdays.${j}`, message: 'ISO weekday must be an integer 1 (Monday) – 7 (Sunday)' });
+      if (!Number.isInteger(d) || d < 1 || d > 7)
+        issues.push({ path: `${p}.weekdays.${j}`, message: 'ISO weekday must be an integer 1 (Monday) – 7 (Sunday)' });
     });
   });
   return issues;

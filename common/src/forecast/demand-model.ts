@@ -32,7 +32,12 @@ export const DEVICE_DEFAULTS: Record<OxygenDevice, DeviceDefault> = {
   venturi_35: { label: 'Venturi mask 35 %', flowLMin: 8, rangeLMin: [8, 12], source: 'clinical summaries (BTS-based): 35 % valve at 8–12 L/min' },
   // HFNC: up to 60 L/min total gas, the oxygen share set by FiO2 (review PMC5359952). 40 L/min of O2 is
   // the O2 share of 60 L/min total at FiO2 ≈ 0.74 (blend mass balance, see oxygenShareOfBlendLMin).
-  hfno: { label: 'High-flow nasal oxygen', flowLMin: 40, rangeLMin: [0, 60], source: 'review PMC5359952: ≤ 60 L/min total gas; 40 L/min O2 share is a planning default' },
+  hfno: {
+    label: 'High-flow nasal oxygen',
+    flowLMin: 40,
+    rangeLMin: [0, 60],
+    source: 'review PMC5359952: ≤ 60 L/min total gas; 40 L/min O2 share is a planning default',
+  },
   // CPAP: up to 60 L/min per outlet, later capped at 30 in the 2020–21 surge (Health Estate Journal, Jun 2021).
   cpap: { label: 'CPAP', flowLMin: 30, rangeLMin: [15, 60], source: 'Health Estate Journal, Jun 2021: ≤ 60 per outlet, later capped at 30' },
   // Ventilator: oxygen share of minute volume plus bias flow, about 6 L/min — from memory (the US
@@ -98,8 +103,10 @@ export function buildDemandLinesFromTherapy(therapy: readonly TherapyLine[], opt
   therapy.forEach((t, k) => {
     if (!(Number.isFinite(t.patients) && t.patients >= 0)) issues.push({ path: `therapy.${k}.patients`, message: 'must be a number ≥ 0' });
     if (t.device === 'custom' && t.flow_L_min === undefined) issues.push({ path: `therapy.${k}.flow_L_min`, message: 'a custom line needs its flow' });
-    else if (t.device !== 'custom' && !hasKey(DEVICE_DEFAULTS, t.device)) issues.push({ path: `therapy.${k}.device`, message: `unknown device; one of ${OXYGEN_DEVICES.join(', ')}, custom` });
-    if (t.flow_L_min !== undefined && !(Number.isFinite(t.flow_L_min) && t.flow_L_min >= 0)) issues.push({ path: `therapy.${k}.flow_L_min`, message: 'must be ≥ 0 L/min' });
+    else if (t.device !== 'custom' && !hasKey(DEVICE_DEFAULTS, t.device))
+      issues.push({ path: `therapy.${k}.device`, message: `unknown device; one of ${OXYGEN_DEVICES.join(', ')}, custom` });
+    if (t.flow_L_min !== undefined && !(Number.isFinite(t.flow_L_min) && t.flow_L_min >= 0))
+      issues.push({ path: `therapy.${k}.flow_L_min`, message: 'must be ≥ 0 L/min' });
   });
   if (issues.length > 0) throw new InvalidInputError(`Invalid demand model: ${issues[0].path}: ${issues[0].message}`, issues);
   const factor = 1 + leak / 100;

@@ -17,7 +17,11 @@ const referenceCodes = Object.keys(REFERENCE_CONDITIONS) as [ReferenceCode, ...R
 const numberOf = (what: string) => z.number({ error: (iss) => (iss.input === undefined ? `${what} is required` : `${what} must be a number`) });
 const nonNegative = (what: string) => numberOf(what).min(0, { error: `${what} must be ≥ 0` });
 const positive = (what: string) => numberOf(what).gt(0, { error: `${what} must be > 0` });
-const wholeCount = (what: string) => numberOf(what).int({ error: `${what} must be a whole number` }).min(0, { error: `${what} must be ≥ 0` }).max(1e6, { error: `${what} must be at most 1,000,000` });
+const wholeCount = (what: string) =>
+  numberOf(what)
+    .int({ error: `${what} must be a whole number` })
+    .min(0, { error: `${what} must be ≥ 0` })
+    .max(1e6, { error: `${what} must be at most 1,000,000` });
 /**
  * Upper bounds of physically meaningful inputs (beyond them the arithmetic overflows or gives absurd
  * figures): a flow line up to 1,000,000 L/min, a tank or delivery up to 1,000,000 kg (the largest
@@ -31,8 +35,24 @@ const atMost = (schema: z.ZodNumber, max: number, what: string) => schema.max(ma
 
 export const demandLineSchema = z.object({
   flow_L_min: atMost(nonNegative('flow_L_min (L/min of free gas)'), MAX_FLOW, 'flow_L_min'),
-  hours: z.array(z.number().int({ error: 'hour must be a whole number' }).min(0, { error: 'local clock hour must be 0–23' }).max(23, { error: 'local clock hour must be 0–23' })).optional(),
-  weekdays: z.array(z.number().int({ error: 'weekday must be a whole number' }).min(1, { error: 'ISO weekday must be 1 (Monday) – 7 (Sunday)' }).max(7, { error: 'ISO weekday must be 1 (Monday) – 7 (Sunday)' })).optional(),
+  hours: z
+    .array(
+      z
+        .number()
+        .int({ error: 'hour must be a whole number' })
+        .min(0, { error: 'local clock hour must be 0–23' })
+        .max(23, { error: 'local clock hour must be 0–23' }),
+    )
+    .optional(),
+  weekdays: z
+    .array(
+      z
+        .number()
+        .int({ error: 'weekday must be a whole number' })
+        .min(1, { error: 'ISO weekday must be 1 (Monday) – 7 (Sunday)' })
+        .max(7, { error: 'ISO weekday must be 1 (Monday) – 7 (Sunday)' }),
+    )
+    .optional(),
   from: localTime.optional(),
   until: localTime.optional(),
   label: z.string().max(200).optional(),
@@ -62,13 +82,17 @@ export const bulkLiquidSourceSchema = z
     reorder_level_kg: atMost(nonNegative('reorder_level_kg'), MAX_KG, 'reorder_level_kg').optional(),
     ...relativeReorder,
     order_up_to_kg: atMost(positive('order_up_to_kg'), MAX_KG, 'order_up_to_kg').optional(),
-    lead_time_hours: nonNegative('lead_time_hours').max(24 * 366, { error: 'lead_time_hours must be ≤ one year' }).default(0),
+    lead_time_hours: nonNegative('lead_time_hours')
+      .max(24 * 366, { error: 'lead_time_hours must be ≤ one year' })
+      .default(0),
     reserve_kg: atMost(nonNegative('reserve_kg'), MAX_KG, 'reserve_kg').optional(),
   })
   .superRefine((s, ctx) => {
     // a premixed gas cannot be stored as one liquid: its components boil off at different rates
-    if (isPremixedMixture(s.gas)) ctx.addIssue({ code: 'custom', path: ['gas'], message: 'mixtures (50:50 N2O/O2, heliox) are not held as bulk liquid: use cylinders or a manifold' });
-    if (s.contents_kg > s.capacity_kg) ctx.addIssue({ code: 'custom', path: ['contents_kg'], message: `contents ${s.contents_kg} kg are above the capacity ${s.capacity_kg} kg` });
+    if (isPremixedMixture(s.gas))
+      ctx.addIssue({ code: 'custom', path: ['gas'], message: 'mixtures (50:50 N2O/O2, heliox) are not held as bulk liquid: use cylinders or a manifold' });
+    if (s.contents_kg > s.capacity_kg)
+      ctx.addIssue({ code: 'custom', path: ['contents_kg'], message: `contents ${s.contents_kg} kg are above the capacity ${s.capacity_kg} kg` });
     checkReorderFields(ctx, s.reorder_level_kg, s.reorder_level_days, s.reorder_level_percent, 'reorder_level_kg');
     const upTo = s.order_up_to_kg ?? s.capacity_kg;
     if (s.reorder_level_kg !== undefined && s.reorder_level_kg >= Math.min(upTo, s.capacity_kg)) {
@@ -86,7 +110,9 @@ const cylinderFields = {
   reorder_level_cylinders: atMost(nonNegative('reorder_level_cylinders'), MAX_COUNT, 'reorder_level_cylinders').optional(),
   ...relativeReorder,
   order_up_to_cylinders: atMost(positive('order_up_to_cylinders'), MAX_COUNT, 'order_up_to_cylinders').optional(),
-  lead_time_hours: nonNegative('lead_time_hours').max(24 * 366, { error: 'lead_time_hours must be ≤ one year' }).default(0),
+  lead_time_hours: nonNegative('lead_time_hours')
+    .max(24 * 366, { error: 'lead_time_hours must be ≤ one year' })
+    .default(0),
   reserve_cylinders: atMost(nonNegative('reserve_cylinders'), MAX_COUNT, 'reserve_cylinders').optional(),
   /**
    * CO2 and N2O (liquefied): net gas of one full cylinder, kg (their gauge shows the vapour pressure,
@@ -100,7 +126,10 @@ function checkReorderFields(ctx: z.RefinementCtx, absolute: number | undefined, 
   if (given > 1) ctx.addIssue({ code: 'custom', path: [absPath], message: `give one of ${absPath}, reorder_level_days, reorder_level_percent` });
 }
 
-function checkCylinderReorder(ctx: z.RefinementCtx, s: { reorder_level_cylinders?: number; reorder_level_days?: number; reorder_level_percent?: number; order_up_to_cylinders?: number }): void {
+function checkCylinderReorder(
+  ctx: z.RefinementCtx,
+  s: { reorder_level_cylinders?: number; reorder_level_days?: number; reorder_level_percent?: number; order_up_to_cylinders?: number },
+): void {
   checkReorderFields(ctx, s.reorder_level_cylinders, s.reorder_level_days, s.reorder_level_percent, 'reorder_level_cylinders');
   const hasLevel = s.reorder_level_cylinders !== undefined || s.reorder_level_days !== undefined || s.reorder_level_percent !== undefined;
   if (hasLevel && s.order_up_to_cylinders === undefined) {
@@ -121,13 +150,17 @@ export const cylinderSourceSchema = z
      * fill_gauge_bar (US EMS guidance keeps about 200 psi of a 2,000–2,200 psi fill; common practice).
      */
     residual_gauge_bar: atMost(nonNegative('residual_gauge_bar'), 350, 'residual_gauge_bar').optional(),
-    in_use_gauge_bar: z.array(atMost(nonNegative('in-use gauge reading (bar)'), 350, 'in-use gauge reading (bar)')).max(10_000).default([]),
+    in_use_gauge_bar: z
+      .array(atMost(nonNegative('in-use gauge reading (bar)'), 350, 'in-use gauge reading (bar)'))
+      .max(10_000)
+      .default([]),
     /** CO2 and N2O: weighed net contents (gross − tare) of each part-used cylinder, kg. */
     in_use_net_kg: z.array(nonNegative('in-use net weight (kg)').max(1000, { error: 'in-use net weight must be ≤ 1000 kg' })).default([]),
   })
   .superRefine((s, ctx) => {
     checkCylinderReorder(ctx, s);
-    if (s.residual_gauge_bar !== undefined && s.residual_gauge_bar >= s.fill_gauge_bar) ctx.addIssue({ code: 'custom', path: ['residual_gauge_bar'], message: 'must be below the fill pressure' });
+    if (s.residual_gauge_bar !== undefined && s.residual_gauge_bar >= s.fill_gauge_bar)
+      ctx.addIssue({ code: 'custom', path: ['residual_gauge_bar'], message: 'must be below the fill pressure' });
   });
 
 const bankGauge = atMost(nonNegative('gauge reading (bar)'), 350, 'gauge reading (bar)');
@@ -154,7 +187,8 @@ export const manifoldSourceSchema = z
         ctx.addIssue({ code: 'custom', path: [key], message: `give one reading per cylinder (${s.cylinders_per_bank}) or one for the bank` });
       }
     }
-    if (s.changeover_gauge_bar >= s.fill_gauge_bar) ctx.addIssue({ code: 'custom', path: ['changeover_gauge_bar'], message: 'must be below the fill pressure' });
+    if (s.changeover_gauge_bar >= s.fill_gauge_bar)
+      ctx.addIssue({ code: 'custom', path: ['changeover_gauge_bar'], message: 'must be below the fill pressure' });
   });
 
 export const forecastSourceSchema = z.discriminatedUnion('type', [bulkLiquidSourceSchema, cylinderSourceSchema, manifoldSourceSchema], {
@@ -164,52 +198,76 @@ export const forecastSourceSchema = z.discriminatedUnion('type', [bulkLiquidSour
 export const forecastDeliverySchema = z.object({
   at: localTime,
   kg: atMost(positive('kg'), MAX_KG, 'kg').optional(),
-  cylinders: z.number().int({ error: 'cylinders must be a whole number' }).gt(0, { error: 'cylinders must be > 0' }).max(MAX_COUNT, { error: 'cylinders must be at most 1,000,000' }).optional(),
+  cylinders: z
+    .number()
+    .int({ error: 'cylinders must be a whole number' })
+    .gt(0, { error: 'cylinders must be > 0' })
+    .max(MAX_COUNT, { error: 'cylinders must be at most 1,000,000' })
+    .optional(),
 });
 
 export const forecastInputSchema = z
   .object({
     start: localTime,
-    timezone: z.string({ error: 'timezone must be an IANA name' }).refine(isValidTimeZone, { error: 'unknown time zone (expected an IANA name such as Europe/London)' }),
-    horizon_days: positive('horizon_days').max(MAX_HORIZON_DAYS, { error: `horizon_days must be at most ${MAX_HORIZON_DAYS} (3 years)` }).default(90),
+    timezone: z
+      .string({ error: 'timezone must be an IANA name' })
+      .refine(isValidTimeZone, { error: 'unknown time zone (expected an IANA name such as Europe/London)' }),
+    horizon_days: positive('horizon_days')
+      .max(MAX_HORIZON_DAYS, { error: `horizon_days must be at most ${MAX_HORIZON_DAYS} (3 years)` })
+      .default(90),
     reference: z.enum(referenceCodes, { error: `reference must be one of ${referenceCodes.join(', ')}` }).default('15C'),
     source: forecastSourceSchema,
     demand: z.array(demandLineSchema).default([]),
     scenarios: z.array(demandScenarioSchema).default([]),
     deliveries: z.array(forecastDeliverySchema).default([]),
-    draws: z.number().int({ error: 'draws must be a whole number' }).min(0, { error: 'draws must be ≥ 0' }).max(MAX_DRAWS, { error: `draws must be at most ${MAX_DRAWS}` }).default(0),
+    draws: z
+      .number()
+      .int({ error: 'draws must be a whole number' })
+      .min(0, { error: 'draws must be ≥ 0' })
+      .max(MAX_DRAWS, { error: `draws must be at most ${MAX_DRAWS}` })
+      .default(0),
     demand_cv: nonNegative('demand_cv').max(5, { error: 'demand_cv must be ≤ 5' }).default(0.2),
     /** Day-to-day persistence φ of the Monte Carlo day multipliers (AR(1)); 0 = independent days. */
-    demand_persistence: nonNegative('demand_persistence').max(MAX_DEMAND_PERSISTENCE, { error: `demand_persistence must be ≤ ${MAX_DEMAND_PERSISTENCE}` }).default(DEFAULT_DEMAND_PERSISTENCE),
+    demand_persistence: nonNegative('demand_persistence')
+      .max(MAX_DEMAND_PERSISTENCE, { error: `demand_persistence must be ≤ ${MAX_DEMAND_PERSISTENCE}` })
+      .default(DEFAULT_DEMAND_PERSISTENCE),
     seed: z.number().int({ error: 'seed must be a whole number' }).default(1),
   })
   .superRefine((v, ctx) => {
     if (!isValidTimeZone(v.timezone)) return;
     const startMs = resolveLocalTimeUtcMs(v.start, v.timezone);
     if (startMs === null) {
-      ctx.addIssue({ code: 'custom', path: ['start'], message: `not a valid local time in ${v.timezone} (a date that does not exist, or a time skipped by a clock change)` });
+      ctx.addIssue({
+        code: 'custom',
+        path: ['start'],
+        message: `not a valid local time in ${v.timezone} (a date that does not exist, or a time skipped by a clock change)`,
+      });
       return;
     }
     v.deliveries.forEach((d, k) => {
       const at = resolveLocalTimeUtcMs(d.at, v.timezone);
       if (at === null) ctx.addIssue({ code: 'custom', path: ['deliveries', k, 'at'], message: `not a valid local time in ${v.timezone}` });
-      else if (at < startMs) ctx.addIssue({ code: 'custom', path: ['deliveries', k, 'at'], message: 'delivery before the start (count it in the contents instead)' });
+      else if (at < startMs)
+        ctx.addIssue({ code: 'custom', path: ['deliveries', k, 'at'], message: 'delivery before the start (count it in the contents instead)' });
       const bulk = v.source.type === 'bulk_liquid';
       if (bulk && d.kg === undefined) ctx.addIssue({ code: 'custom', path: ['deliveries', k, 'kg'], message: 'a delivery to a bulk tank needs kg' });
-      if (!bulk && d.cylinders === undefined) ctx.addIssue({ code: 'custom', path: ['deliveries', k, 'cylinders'], message: 'a delivery of cylinders needs cylinders' });
+      if (!bulk && d.cylinders === undefined)
+        ctx.addIssue({ code: 'custom', path: ['deliveries', k, 'cylinders'], message: 'a delivery of cylinders needs cylinders' });
     });
     const lines: { l: z.infer<typeof demandLineSchema>; path: (string | number)[] }[] = v.demand.map((l, k) => ({ l, path: ['demand', k] }));
     v.scenarios.forEach((s, k) => {
       for (const key of ['from', 'until'] as const) {
         const t = s[key];
-        if (t !== undefined && resolveLocalTimeUtcMs(t, v.timezone) === null) ctx.addIssue({ code: 'custom', path: ['scenarios', k, key], message: `not a valid local time in ${v.timezone}` });
+        if (t !== undefined && resolveLocalTimeUtcMs(t, v.timezone) === null)
+          ctx.addIssue({ code: 'custom', path: ['scenarios', k, key], message: `not a valid local time in ${v.timezone}` });
       }
       s.extra_lines?.forEach((l, j) => lines.push({ l, path: ['scenarios', k, 'extra_lines', j] }));
     });
     for (const { l, path } of lines) {
       for (const key of ['from', 'until'] as const) {
         const t = l[key];
-        if (t !== undefined && resolveLocalTimeUtcMs(t, v.timezone) === null) ctx.addIssue({ code: 'custom', path: [...path, key], message: `not a valid local time in ${v.timezone}` });
+        if (t !== undefined && resolveLocalTimeUtcMs(t, v.timezone) === null)
+          ctx.addIssue({ code: 'custom', path: [...path, key], message: `not a valid local time in ${v.timezone}` });
       }
     }
   });

@@ -8,7 +8,15 @@ const base = { start: '2027-01-04T00:00', timezone: 'Europe/London', horizon_day
 
 describe('forecastSource: the reorder level it plans against (the chart line)', () => {
   it('a bulk tank with a level in kg, in percent of capacity and in days of stock', () => {
-    const tank = { type: 'bulk_liquid', gas: 'O2', capacity_kg: 10_000, contents_kg: 6000, evaporation_percent_per_day: 0, lead_time_hours: 48, order_up_to_kg: 9000 };
+    const tank = {
+      type: 'bulk_liquid',
+      gas: 'O2',
+      capacity_kg: 10_000,
+      contents_kg: 6000,
+      evaporation_percent_per_day: 0,
+      lead_time_hours: 48,
+      order_up_to_kg: 9000,
+    };
     expect(forecast({ ...base, source: { ...tank, reorder_level_kg: 2500 } }).reorderLevel).toBe(2500);
     // 30 % of a 10,000 kg tank = 3,000 kg (hand calculation).
     expect(forecast({ ...base, source: { ...tank, reorder_level_percent: 30 } }).reorderLevel).toBeCloseTo(3000, 9);
@@ -32,7 +40,18 @@ describe('forecastSource: the reorder level it plans against (the chart line)', 
   it('a cylinder store: the level in cylinders × usable gas per cylinder (above the stated residual)', () => {
     const f = forecast({
       ...base,
-      source: { type: 'cylinders', gas: 'O2', water_capacity_L: 47, fill_gauge_bar: 137, fill_temperature_C: 15, full: 10, in_use_gauge_bar: [], reorder_level_cylinders: 4, order_up_to_cylinders: 12, lead_time_hours: 24 },
+      source: {
+        type: 'cylinders',
+        gas: 'O2',
+        water_capacity_L: 47,
+        fill_gauge_bar: 137,
+        fill_temperature_C: 15,
+        full: 10,
+        in_use_gauge_bar: [],
+        reorder_level_cylinders: 4,
+        order_up_to_cylinders: 12,
+        lead_time_hours: 24,
+      },
     });
     const perCyl = f.factors.fullCylinderFreeGasL!;
     // HTM 02-01 Part A Table 22: a 47 L cylinder at 137 bar holds about 6,800 L of O2 (nominal figure).
@@ -47,9 +66,19 @@ describe('forecastSource: the reorder level it plans against (the chart line)', 
     const f = forecast({
       ...base,
       source: {
-        type: 'manifold', gas: 'O2', water_capacity_L: 47, fill_gauge_bar: 137, fill_temperature_C: 15, cylinders_per_bank: 5,
-        duty_bank_gauge_bar: 137, standby_bank_gauge_bar: 137, spare_full: 10, changeover_gauge_bar: 10,
-        reorder_level_cylinders: 6, order_up_to_cylinders: 15, lead_time_hours: 24,
+        type: 'manifold',
+        gas: 'O2',
+        water_capacity_L: 47,
+        fill_gauge_bar: 137,
+        fill_temperature_C: 15,
+        cylinders_per_bank: 5,
+        duty_bank_gauge_bar: 137,
+        standby_bank_gauge_bar: 137,
+        spare_full: 10,
+        changeover_gauge_bar: 10,
+        reorder_level_cylinders: 6,
+        order_up_to_cylinders: 15,
+        lead_time_hours: 24,
       },
     });
     const usable = f.factors.fullCylinderFreeGasL! - f.factors.residualPerCylinderL!;

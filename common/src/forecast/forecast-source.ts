@@ -77,8 +77,10 @@ function withGasPaths<T>(prefix: string, rename: Record<string, string>, f: () =
 
 /** Free gas in one cylinder at a gauge reading, L at the reference (gas engine, real gas). */
 function cylinderFreeGasL(gas: GasCode, waterCapacityL: number, gaugeBar: number, temperatureC: number, reference: ReferenceCode, gaugePath: string): number {
-  return withGasPaths('source', { gaugeBar: gaugePath, temperatureC: 'fill_temperature_C', waterCapacityL: 'water_capacity_L', gas: 'gas' }, () =>
-    compressedContents({ gas, waterCapacityL, gaugeBar, temperatureC, reference }).freeGasL,
+  return withGasPaths(
+    'source',
+    { gaugeBar: gaugePath, temperatureC: 'fill_temperature_C', waterCapacityL: 'water_capacity_L', gas: 'gas' },
+    () => compressedContents({ gas, waterCapacityL, gaugeBar, temperatureC, reference }).freeGasL,
   );
 }
 
@@ -143,17 +145,27 @@ export function forecastSource(input: ForecastInput): SourceForecast {
     const residualBar = liquefied ? 0 : (src.residual_gauge_bar ?? DEFAULT_RESIDUAL_FRACTION_OF_FILL * src.fill_gauge_bar);
     residual = {
       gaugeBar: residualBar,
-      basis: liquefied ? 'liquefied gas: drawn until the liquid is gone (no residual)' : src.residual_gauge_bar !== undefined ? 'residual as given' : DEFAULT_RESIDUAL_SOURCE,
+      basis: liquefied
+        ? 'liquefied gas: drawn until the liquid is gone (no residual)'
+        : src.residual_gauge_bar !== undefined
+          ? 'residual as given'
+          : DEFAULT_RESIDUAL_SOURCE,
     };
     const residualL = residualBar > 0 ? cylinderFreeGasL(src.gas, src.water_capacity_L, residualBar, inUseT, input.reference, 'residual_gauge_bar') : 0;
     const perCyl = fullL - residualL;
-    if (!(perCyl > 0)) throw new InvalidInputError('The residual leaves no usable gas in a full cylinder', [{ path: 'source.residual_gauge_bar', message: 'must be well below the fill pressure' }]);
+    if (!(perCyl > 0))
+      throw new InvalidInputError('The residual leaves no usable gas in a full cylinder', [
+        { path: 'source.residual_gauge_bar', message: 'must be well below the fill pressure' },
+      ]);
     let inUse = 0;
     src.in_use_gauge_bar.forEach((g, k) => {
       inUse += Math.max(0, cylinderFreeGasL(src.gas, src.water_capacity_L, g, inUseT, input.reference, `in_use_gauge_bar.${k}`) - residualL);
     });
     if (src.in_use_net_kg.length > 0) {
-      if (!isLiquefiedGas(src.gas)) throw new InvalidInputError('in_use_net_kg is for liquefied gases (CO2, N2O): give in_use_gauge_bar for this gas', [{ path: 'source.in_use_net_kg', message: 'for CO2 and N2O only' }]);
+      if (!isLiquefiedGas(src.gas))
+        throw new InvalidInputError('in_use_net_kg is for liquefied gases (CO2, N2O): give in_use_gauge_bar for this gas', [
+          { path: 'source.in_use_net_kg', message: 'for CO2 and N2O only' },
+        ]);
       const lPerKg = withGasPaths('source', {}, () => freeGasLitresPerKg(src.gas, input.reference));
       for (const kg of src.in_use_net_kg) inUse += kg * lPerKg;
     }
@@ -177,21 +189,31 @@ export function forecastSource(input: ForecastInput): SourceForecast {
   if (src.type !== 'bulk_liquid' && !isLiquefiedGas(src.gas)) {
     const zr = mixtureZRange(src.gas, src.fill_temperature_C + 273.15, src.fill_gauge_bar + 1.01325);
     if (zr) {
-      const z = (zr.low === zr.secondMethodZ ? zr.high : zr.low);
+      const z = zr.low === zr.secondMethodZ ? zr.high : zr.low;
       const run = (f: number) => {
         const scaled: DepletionModel = {
           ...model,
           contentsStart: model.contentsStart * f,
           deliveries: model.deliveries?.map((d) => ({ ...d, amount: d.amount * f })),
           reserveLevel: model.reserveLevel === undefined ? undefined : model.reserveLevel * f,
-          reorder: model.reorder ? { ...model.reorder, level: model.reorder.level * f, orderUpTo: model.reorder.orderUpTo * f, lotSize: model.reorder.lotSize * f } : undefined,
+          reorder: model.reorder
+            ? { ...model.reorder, level: model.reorder.level * f, orderUpTo: model.reorder.orderUpTo * f, lotSize: model.reorder.lotSize * f }
+            : undefined,
         };
         return projectDepletion(scaled).hoursToEmpty;
       };
       hoursToEmptyRange = { low: run(z / zr.high), high: run(z / zr.low), method: zr.method };
     }
   }
-  const bands = input.draws > 0 ? estimateHoursToEmptyBands(model, index.dayOfRun, index.days, { draws: input.draws, demandCv: input.demand_cv, seed: input.seed, persistence: input.demand_persistence }) : null;
+  const bands =
+    input.draws > 0
+      ? estimateHoursToEmptyBands(model, index.dayOfRun, index.days, {
+          draws: input.draws,
+          demandCv: input.demand_cv,
+          seed: input.seed,
+          persistence: input.demand_persistence,
+        })
+      : null;
   return {
     index,
     unit,
@@ -221,11 +243,7 @@ function meanDailyLoss(model: DepletionModel): number | null {
   return dos === null ? null : 1 / dos;
 }
 
-function cylinderReorderLevel(
-  src: CylinderSourceInput | ManifoldSourceInput,
-  model: DepletionModel,
-  perCylL: number,
-): number | undefined {
+function cylinderReorderLevel(src: CylinderSourceInput | ManifoldSourceInput, model: DepletionModel, perCylL: number): number | undefined {
   if (src.reorder_level_cylinders !== undefined) return src.reorder_level_cylinders;
   const perDay = () => {
     const l = meanDailyLoss(model);
@@ -249,9 +267,10 @@ function temperatureCautions(src: CylinderSourceInput | ManifoldSourceInput): st
 function fullCylinderFreeGasL(src: CylinderSourceInput | ManifoldSourceInput, reference: ReferenceCode): number {
   if (isLiquefiedGas(src.gas)) {
     if (src.fill_kg === undefined) {
-      throw new InvalidInputError(`${src.gas} is a liquefied gas: its gauge shows the vapour pressure, not the contents. Give fill_kg (net kg of a full cylinder) and weigh part-used cylinders (gross − tare) into in_use_net_kg`, [
-        { path: 'source.fill_kg', message: 'required for a liquefied gas (weigh the cylinder: gross − tare)' },
-      ]);
+      throw new InvalidInputError(
+        `${src.gas} is a liquefied gas: its gauge shows the vapour pressure, not the contents. Give fill_kg (net kg of a full cylinder) and weigh part-used cylinders (gross − tare) into in_use_net_kg`,
+        [{ path: 'source.fill_kg', message: 'required for a liquefied gas (weigh the cylinder: gross − tare)' }],
+      );
     }
     return src.fill_kg * withGasPaths('source', {}, () => freeGasLitresPerKg(src.gas, reference));
   }
@@ -267,12 +286,23 @@ function forecastManifold(
 ): SourceForecast {
   const perCyl = fullCylinderFreeGasL(src, input.reference);
   const inUseT = src.in_use_temperature_C ?? src.fill_temperature_C;
-  const residual = src.changeover_gauge_bar > 0 ? cylinderFreeGasL(src.gas, src.water_capacity_L, src.changeover_gauge_bar, inUseT, input.reference, 'changeover_gauge_bar') : 0;
+  const residual =
+    src.changeover_gauge_bar > 0
+      ? cylinderFreeGasL(src.gas, src.water_capacity_L, src.changeover_gauge_bar, inUseT, input.reference, 'changeover_gauge_bar')
+      : 0;
   const bankL = (readings: number | number[], key: string) => {
     const list = Array.isArray(readings) ? readings : new Array<number>(src.cylinders_per_bank).fill(readings);
-    return list.reduce((sum, g, k) => sum + cylinderFreeGasL(src.gas, src.water_capacity_L, g, inUseT, input.reference, Array.isArray(readings) ? `${key}.${k}` : key), 0);
+    return list.reduce(
+      (sum, g, k) => sum + cylinderFreeGasL(src.gas, src.water_capacity_L, g, inUseT, input.reference, Array.isArray(readings) ? `${key}.${k}` : key),
+      0,
+    );
   };
-  const config = { cylindersPerBank: src.cylinders_per_bank, fullCylinderL: perCyl, residualPerCylinderL: residual, bankReplacementHours: src.bank_replacement_hours };
+  const config = {
+    cylindersPerBank: src.cylinders_per_bank,
+    fullCylinderL: perCyl,
+    residualPerCylinderL: residual,
+    bankReplacementHours: src.bank_replacement_hours,
+  };
   const usablePerCyl = perCyl - residual;
   const base = {
     config,
@@ -286,16 +316,23 @@ function forecastManifold(
   const lossModel: DepletionModel = { contentsStart: 0, capacity: Infinity, demandPerHour: demandL, evaporationPerHour: 0 };
   const levelCyl =
     src.reorder_level_cylinders ??
-    relativeLevel(src, () => {
-      const l = meanDailyLoss(lossModel);
-      return l === null ? null : l / usablePerCyl;
-    }, src.order_up_to_cylinders ?? 0);
+    relativeLevel(
+      src,
+      () => {
+        const l = meanDailyLoss(lossModel);
+        return l === null ? null : l / usablePerCyl;
+      },
+      src.order_up_to_cylinders ?? 0,
+    );
   const reorder =
     levelCyl !== undefined && src.order_up_to_cylinders !== undefined
       ? { levelCylinders: levelCyl, orderUpToCylinders: src.order_up_to_cylinders, leadTimeHours: src.lead_time_hours }
       : undefined;
   const result = projectManifold({ ...base, reorder });
-  const contentsStart = Math.max(0, base.dutyBankL - src.cylinders_per_bank * residual) + Math.max(0, base.standbyBankL - src.cylinders_per_bank * residual) + src.spare_full * usablePerCyl;
+  const contentsStart =
+    Math.max(0, base.dutyBankL - src.cylinders_per_bank * residual) +
+    Math.max(0, base.standbyBankL - src.cylinders_per_bank * residual) +
+    src.spare_full * usablePerCyl;
   let bands: HoursToEmptyBands | null = null;
   if (input.draws > 0) {
     // Same day-multiplier model as estimateHoursToEmptyBands, stepping the manifold per draw.
@@ -310,14 +347,21 @@ function forecastManifold(
       if (h === null) outlasting++;
     }
     hs.sort();
-    bands = { p10: percentileOfSorted(hs, 0.1), p50: percentileOfSorted(hs, 0.5), p90: percentileOfSorted(hs, 0.9), draws: input.draws, drawsOutlastingHorizon: outlasting };
+    bands = {
+      p10: percentileOfSorted(hs, 0.1),
+      p50: percentileOfSorted(hs, 0.5),
+      p90: percentileOfSorted(hs, 0.9),
+      draws: input.draws,
+      drawsOutlastingHorizon: outlasting,
+    };
   }
   const reserveL = src.reserve_cylinders !== undefined ? src.reserve_cylinders * usablePerCyl : undefined;
   let firstRisk: ForecastRisk | null = null;
   if (result.hoursToEmpty !== null) firstRisk = { kind: 'runs_empty', atHours: result.hoursToEmpty, message: 'Both banks run out within the horizon.' };
   if (reserveL !== undefined) {
     const i = result.series.findIndex((c) => c <= reserveL);
-    if (i >= 0 && (firstRisk === null || i + 1 < firstRisk.atHours)) firstRisk = { kind: 'reserve_touched', atHours: i + 1, message: 'Contents fall into the reserve.' };
+    if (i >= 0 && (firstRisk === null || i + 1 < firstRisk.atHours))
+      firstRisk = { kind: 'reserve_touched', atHours: i + 1, message: 'Contents fall into the reserve.' };
   }
   return {
     index,

@@ -133,7 +133,9 @@ export function buildHourIndex(timeZone: string, startLocal: string, horizonDays
   if (hit) return hit;
   const zone = zoneOf(timeZone, 'timezone');
   if (!(horizonDays > 0) || horizonDays > MAX_HORIZON_DAYS) {
-    throw new InvalidInputError(`horizon_days must be > 0 and ≤ ${MAX_HORIZON_DAYS}`, [{ path: 'horizon_days', message: `must be greater than 0 and at most ${MAX_HORIZON_DAYS} days (3 years)` }]);
+    throw new InvalidInputError(`horizon_days must be > 0 and ≤ ${MAX_HORIZON_DAYS}`, [
+      { path: 'horizon_days', message: `must be greater than 0 and at most ${MAX_HORIZON_DAYS} days (3 years)` },
+    ]);
   }
   const startUtcMs = resolveLocalTimeUtcMs(startLocal, timeZone);
   if (startUtcMs === null) {
@@ -163,7 +165,7 @@ export function buildHourIndex(timeZone: string, startLocal: string, horizonDays
     const epochDay = Math.floor(wall / MS_PER_DAY);
     const hour = Math.floor((wall - epochDay * MS_PER_DAY) / MS_PER_HOUR);
     // 1970-01-01 was a Thursday (ISO weekday 4).
-    const isoWeekday = (((epochDay + 3) % 7) + 7) % 7 + 1;
+    const isoWeekday = ((((epochDay + 3) % 7) + 7) % 7) + 1;
     weekSlot[i] = (isoWeekday - 1) * 24 + hour;
     dayOfRun[i] = epochDay - startDay;
   }

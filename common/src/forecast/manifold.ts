@@ -61,9 +61,11 @@ export function usableManifoldL(state: ManifoldState, config: ManifoldConfig): n
 /** Validates a manifold configuration and initial state (throws InvalidInputError). */
 export function checkManifold(config: ManifoldConfig, state: ManifoldState): void {
   const issues: FieldIssue[] = [];
-  if (!(Number.isInteger(config.cylindersPerBank) && config.cylindersPerBank >= 1)) issues.push({ path: 'cylinders_per_bank', message: 'must be an integer ≥ 1' });
+  if (!(Number.isInteger(config.cylindersPerBank) && config.cylindersPerBank >= 1))
+    issues.push({ path: 'cylinders_per_bank', message: 'must be an integer ≥ 1' });
   if (!(config.fullCylinderL > 0)) issues.push({ path: 'fullCylinderL', message: 'must be > 0' });
-  if (!(config.residualPerCylinderL >= 0 && config.residualPerCylinderL < config.fullCylinderL)) issues.push({ path: 'changeover', message: 'residual must be ≥ 0 and below a full cylinder' });
+  if (!(config.residualPerCylinderL >= 0 && config.residualPerCylinderL < config.fullCylinderL))
+    issues.push({ path: 'changeover', message: 'residual must be ≥ 0 and below a full cylinder' });
   if (!(config.bankReplacementHours >= 0)) issues.push({ path: 'bank_replacement_hours', message: 'must be ≥ 0' });
   state.bankL.forEach((v, i) => {
     if (!(v >= 0)) issues.push({ path: `bank${NAMES[i]}`, message: 'contents must be ≥ 0' });

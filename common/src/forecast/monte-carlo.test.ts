@@ -1,7 +1,14 @@
 import { describe, expect, it } from 'vitest';
 import { InvalidInputError } from '../api/errors';
 import { buildHourIndex } from './hour-index';
-import { estimateHoursToEmptyBands, fillLognormalDayMultipliers, fillPersistentDayMultipliers, fitDailyPersistence, mulberry32, percentileOfSorted } from './monte-carlo';
+import {
+  estimateHoursToEmptyBands,
+  fillLognormalDayMultipliers,
+  fillPersistentDayMultipliers,
+  fitDailyPersistence,
+  mulberry32,
+  percentileOfSorted,
+} from './monte-carlo';
 import { projectDepletion, type DepletionModel } from './project-depletion';
 
 describe('mulberry32', () => {

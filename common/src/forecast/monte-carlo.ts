@@ -170,7 +170,9 @@ export function estimateHoursToEmptyBands(
   const { draws, demandCv, seed } = options;
   const persistence = options.persistence ?? 0;
   if (!(persistence >= 0 && persistence <= MAX_DEMAND_PERSISTENCE)) {
-    throw new InvalidInputError(`demand_persistence must be between 0 and ${MAX_DEMAND_PERSISTENCE}`, [{ path: 'demand_persistence', message: `must be between 0 and ${MAX_DEMAND_PERSISTENCE}` }]);
+    throw new InvalidInputError(`demand_persistence must be between 0 and ${MAX_DEMAND_PERSISTENCE}`, [
+      { path: 'demand_persistence', message: `must be between 0 and ${MAX_DEMAND_PERSISTENCE}` },
+    ]);
   }
   if (!Number.isInteger(draws) || draws < 1 || draws > MAX_DRAWS) {
     throw new InvalidInputError(`draws must be an integer 1–${MAX_DRAWS}`, [{ path: 'draws', message: `must be an integer between 1 and ${MAX_DRAWS}` }]);

@@ -45,10 +45,14 @@ describe('projectDepletion: constant demand', () => {
 
   it('never lets contents go below zero (property)', () => {
     fc.assert(
-      fc.property(fc.float({ min: 0, max: 1000, noNaN: true }), fc.array(fc.float({ min: 0, max: 50, noNaN: true }), { minLength: 1, maxLength: 100 }), (c0, d) => {
-        const r = projectDepletion(model({ contentsStart: c0, demandPerHour: Float64Array.from(d) }));
-        return r.series.every((v) => v >= 0);
-      }),
+      fc.property(
+        fc.float({ min: 0, max: 1000, noNaN: true }),
+        fc.array(fc.float({ min: 0, max: 50, noNaN: true }), { minLength: 1, maxLength: 100 }),
+        (c0, d) => {
+          const r = projectDepletion(model({ contentsStart: c0, demandPerHour: Float64Array.from(d) }));
+          return r.series.every((v) => v >= 0);
+        },
+      ),
     );
   });
 });
@@ -116,7 +120,9 @@ describe('projectDepletion: reorder rule', () => {
   });
 
   it('lands a zero-lead order at once', () => {
-    const r = projectDepletion(model({ contentsStart: 100, capacity: 100, demandPerHour: flat(20, 10), reorder: { level: 50, orderUpTo: 100, leadTimeHours: 0, lotSize: 0 } }));
+    const r = projectDepletion(
+      model({ contentsStart: 100, capacity: 100, demandPerHour: flat(20, 10), reorder: { level: 50, orderUpTo: 100, leadTimeHours: 0, lotSize: 0 } }),
+    );
     // 100 → 50 at boundary 5: refilled to 100 in the same instant.
     expect(r.orders[0]).toMatchObject({ placedHours: 5, quantity: 50 });
     expect(r.series[5]).toBe(90);
@@ -125,7 +131,9 @@ describe('projectDepletion: reorder rule', () => {
 
   it('flags a reorder level that leaves less than the lead time before empty', () => {
     // Level 100 at 10/h leaves 10 h of stock; lead time 24 h → empty at 90 + 10 = 100 h, before arrival at 114 h.
-    const r = projectDepletion(model({ contentsStart: 1000, demandPerHour: flat(200, 10), reorder: { level: 100, orderUpTo: 1000, leadTimeHours: 24, lotSize: 0 } }));
+    const r = projectDepletion(
+      model({ contentsStart: 1000, demandPerHour: flat(200, 10), reorder: { level: 100, orderUpTo: 1000, leadTimeHours: 24, lotSize: 0 } }),
+    );
     expect(r.hoursToEmpty).toBe(100);
     expect(r.firstRisk).toMatchObject({ kind: 'empty_before_delivery', atHours: 90 });
   });
@@ -156,7 +164,13 @@ describe('projectDepletion: reorder rule', () => {
     expect(Math.round(r.firstOrderHours! / 24)).toBe(42);
     // With the reorder point as the level, the order goes out 715 / 143 = 5 days of use before empty.
     const r2 = projectDepletion(
-      model({ contentsStart: 8000, capacity: 10_000, evaporationPerHour: evapPerHour, demandPerHour: flat(80 * 24, loxPerHour), reorder: { level: reorderPointL, orderUpTo: 8000, leadTimeHours: 48, lotSize: 0 } }),
+      model({
+        contentsStart: 8000,
+        capacity: 10_000,
+        evaporationPerHour: evapPerHour,
+        demandPerHour: flat(80 * 24, loxPerHour),
+        reorder: { level: reorderPointL, orderUpTo: 8000, leadTimeHours: 48, lotSize: 0 },
+      }),
     );
     const daysBeforeEmpty = (8000 / loxPerHour - r2.firstOrderHours!) / 24;
     expect(daysBeforeEmpty).toBeCloseTo(715 / (120_600 / 842), 1);

@@ -27,7 +27,14 @@ const T0 = Date.UTC(2027, 0, 4, 0, 0); // Monday 4 January 2027, 00:00 UTC
  * in the middle of reading intervals, readings every `stepMs` with uniform noise of ±noise kg. The true
  * use between the first and last reading is the integral of the rate (exact by construction).
  */
-function syntheticTank(opts: { days: number; stepMs: number; noise: number; deliveries: { atMs: number; kg: number; durationMs?: number }[]; startKg: number; seed: number }) {
+function syntheticTank(opts: {
+  days: number;
+  stepMs: number;
+  noise: number;
+  deliveries: { atMs: number; kg: number; durationMs?: number }[];
+  startKg: number;
+  seed: number;
+}) {
   const rnd = mulberry32(opts.seed);
   const rateKgPerH = (t: number) => {
     const day = Math.floor((t - T0) / (24 * H));
@@ -107,12 +114,21 @@ describe('detectRefills and consumptionBetweenReadings', () => {
   });
 
   it('refuses readings out of time order', () => {
-    expect(() => detectRefills([{ atMs: 2, contents: 1 }, { atMs: 1, contents: 1 }], { minRise: 1 })).toThrow(/time order/);
+    expect(() =>
+      detectRefills(
+        [
+          { atMs: 2, contents: 1 },
+          { atMs: 1, contents: 1 },
+        ],
+        { minRise: 1 },
+      ),
+    ).toThrow(/time order/);
   });
 });
 
 describe('hourlyRates and dailyRates', () => {
-  const constant = (fromMs: number, hours: number, kgPerH: number): ContentsPoint[] => Array.from({ length: hours + 1 }, (_, i) => ({ atMs: fromMs + i * H, contents: 5000 - i * kgPerH }));
+  const constant = (fromMs: number, hours: number, kgPerH: number): ContentsPoint[] =>
+    Array.from({ length: hours + 1 }, (_, i) => ({ atMs: fromMs + i * H, contents: 5000 - i * kgPerH }));
 
   it('gives the constant rate for every whole hour and day', () => {
     const pts = constant(T0 + 30 * 60_000, 72, 10);

@@ -39,10 +39,14 @@ function checkSeries(points: readonly ContentsPoint[]): void {
   for (let i = 0; i < points.length; i++) {
     const p = points[i];
     if (!Number.isFinite(p.atMs) || !Number.isFinite(p.contents)) {
-      throw new InvalidInputError(`Reading ${i} is not a finite time and contents`, [{ path: `points.${i}`, message: 'time and contents must be finite numbers' }]);
+      throw new InvalidInputError(`Reading ${i} is not a finite time and contents`, [
+        { path: `points.${i}`, message: 'time and contents must be finite numbers' },
+      ]);
     }
     if (i > 0 && !(p.atMs > points[i - 1].atMs)) {
-      throw new InvalidInputError(`Readings must be in time order without repeats (reading ${i})`, [{ path: `points.${i}.atMs`, message: 'must be later than the reading before' }]);
+      throw new InvalidInputError(`Readings must be in time order without repeats (reading ${i})`, [
+        { path: `points.${i}.atMs`, message: 'must be later than the reading before' },
+      ]);
     }
   }
 }
@@ -98,7 +102,17 @@ export function detectRefills(points: readonly ContentsPoint[], opts: { minRise:
     const rate = localRate(points, inRun, points[r.from].atMs - window, points[r.to].atMs + window);
     const usedDuring = Math.max(0, rate * (points[r.to].atMs - points[r.from].atMs));
     const rise = points[r.to].contents - points[r.from].contents;
-    return { fromIndex: r.from, toIndex: r.to, fromMs: points[r.from].atMs, toMs: points[r.to].atMs, before: points[r.from].contents, after: points[r.to].contents, rise, usedDuring, delivered: rise + usedDuring };
+    return {
+      fromIndex: r.from,
+      toIndex: r.to,
+      fromMs: points[r.from].atMs,
+      toMs: points[r.to].atMs,
+      before: points[r.from].contents,
+      after: points[r.to].contents,
+      rise,
+      usedDuring,
+      delivered: rise + usedDuring,
+    };
   });
 }
 
@@ -315,7 +329,10 @@ export function coefficientOfVariation(values: readonly number[]): number | null
  * (outage, ward closure) rather than ordinary variation.
  * @param days from dailyRates
  */
-export function demandCvFromDays(days: readonly DayRate[], opts: { minDays?: number; fallback?: number } = {}): { cv: number; measured: boolean; days: number } {
+export function demandCvFromDays(
+  days: readonly DayRate[],
+  opts: { minDays?: number; fallback?: number } = {},
+): { cv: number; measured: boolean; days: number } {
   const minDays = opts.minDays ?? 7;
   const fallback = opts.fallback ?? 0.2;
   const cv = days.length >= minDays ? coefficientOfVariation(days.map((d) => d.perDay)) : null;

@@ -2,7 +2,15 @@ import { describe, expect, it } from 'vitest';
 import { compareStatus, countByStatus, decideStatus, SOURCE_STATUS, SOURCE_STATUSES, statusRank, statusText, type StatusFacts } from './status';
 
 // A source with a 48 h delivery lead time whose forecast shows nothing due: the base of each case below.
-const calm: StatusFacts = { forecast: true, leadTimeHours: 48, hoursToEmpty: null, hoursToReorder: null, daysOfStock: 30, reserveTouchedWithinLead: false, vaporiserOverloadWithinDay: false };
+const calm: StatusFacts = {
+  forecast: true,
+  leadTimeHours: 48,
+  hoursToEmpty: null,
+  hoursToReorder: null,
+  daysOfStock: 30,
+  reserveTouchedWithinLead: false,
+  vaporiserOverloadWithinDay: false,
+};
 
 describe('decideStatus', () => {
   it('has no status but unknown without a forecast, whatever the figures', () => {
@@ -45,7 +53,8 @@ describe('the order and the words of the statuses', () => {
   });
 
   it('ranks what is not a status (an inherited key among them) with unknown', () => {
-    for (const odd of ['__proto__', 'constructor', 'toString', 'hasOwnProperty', 'valueOf', 'prototype', '']) expect(statusRank(odd)).toBe(statusRank('unknown'));
+    for (const odd of ['__proto__', 'constructor', 'toString', 'hasOwnProperty', 'valueOf', 'prototype', ''])
+      expect(statusRank(odd)).toBe(statusRank('unknown'));
   });
 
   it('says "No reading yet" for a source with no reading, never "Watch"', () => {

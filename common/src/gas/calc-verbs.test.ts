@@ -63,13 +63,28 @@ describe('calc verbs in process', () => {
     // hand calculation from the z-grid in tests/reference (O2, Schmidt & Wagner 1985, 288.15 K): ρ = 286.878288 kg/m³
     // at 200 bar abs, 27.108021 at 20 bar abs, 1.354364 at 1.01325 bar → 10 × (286.878 − 27.108) / 1.354364 = 1918.03 L,
     // 191.80 min at 10 L/min
-    const r = gasCalcVerbs.duration({ gas: 'O2', water_capacity_L: 10, pressure_bar_abs: 200, temperature_C: 15, flow_L_min: 10, reserve_gauge_bar: 20 - 1.01325 }) as any;
+    const r = gasCalcVerbs.duration({
+      gas: 'O2',
+      water_capacity_L: 10,
+      pressure_bar_abs: 200,
+      temperature_C: 15,
+      flow_L_min: 10,
+      reserve_gauge_bar: 20 - 1.01325,
+    }) as any;
     expect(Math.abs(r.minutes / 191.803 - 1)).toBeLessThan(0.001);
     expect(r.reserve_basis).toBe('reserve as given');
     // CO2 (Span & Wagner 1996), z-grid: 1.871850 kg/m³ at 288.15 K, 1.01325 bar. 5 kg net − 1 kg reserve − the
     // 10 L × 1.87185 g/L = 0.0187 kg left at atmospheric pressure = 3.9813 kg → 3.9813 / 1.87185 × 1000 = 2126.9 L;
     // 425.4 min at 5 L/min
-    const liquid = gasCalcVerbs.duration({ gas: 'CO2', gross_kg: 20, tare_kg: 15, water_capacity_L: 10, temperature_C: 15, flow_L_min: 5, reserve_kg: 1 }) as any;
+    const liquid = gasCalcVerbs.duration({
+      gas: 'CO2',
+      gross_kg: 20,
+      tare_kg: 15,
+      water_capacity_L: 10,
+      temperature_C: 15,
+      flow_L_min: 5,
+      reserve_kg: 1,
+    }) as any;
     expect(Math.abs(liquid.minutes / 425.39 - 1)).toBeLessThan(0.002);
   });
 
@@ -112,7 +127,10 @@ describe('calc verbs: mixture Z is shown with a range', () => {
     // Second method: Peng & Robinson (1976, Ind. Eng. Chem. Fundam. 15:59), k_ij = 0, corrected by its pure-component error.
     // Plain Peng–Robinson is 2.5–6 % off Z at cylinder pressures (tests/reference README), so the two methods differ by
     // a few per cent at 137–200 bar: the range must be open (not zero) and stay within about 12 %.
-    for (const [gas, gauge] of [['N2O_O2_50', 137], ['HE_O2_79', 200]] as const) {
+    for (const [gas, gauge] of [
+      ['N2O_O2_50', 137],
+      ['HE_O2_79', 200],
+    ] as const) {
       const c = gasCalcVerbs.contents({ gas, water_capacity_L: 10, gauge_bar: gauge, temperature_C: 15 }) as any;
       expect(c.Z_range.low).toBeLessThanOrEqual(c.Z);
       expect(c.Z_range.high).toBeGreaterThanOrEqual(c.Z);
@@ -139,7 +157,13 @@ describe('calc command line', () => {
     // reference equation of state for Ar (Tegeler, Span & Wagner, 1999), z-grid in tests/reference: Z = 0.889440897 at 233.15 K, 300 bar
     expect(Math.abs(r.body[0].Z / 0.889440897 - 1)).toBeLessThan(0.001);
     // N2O at 0 °C and 40 bar abs is liquid: vapour pressure 31.2 bar abs at 0 °C (Lemmon & Span 2006 ancillary)
-    const bad = runCalc('z', JSON.stringify([{ gas: 'AR', temperature_C: -40, pressure_bar_abs: 300 }, { gas: 'N2O', temperature_C: 0, pressure_bar_abs: 40 }]));
+    const bad = runCalc(
+      'z',
+      JSON.stringify([
+        { gas: 'AR', temperature_C: -40, pressure_bar_abs: 300 },
+        { gas: 'N2O', temperature_C: 0, pressure_bar_abs: 40 },
+      ]),
+    );
     expect(bad.status).toBe(2);
     expect(bad.body.error.code).toBe('invalid_input');
     expect(bad.body.error.details[0].path).toBe('1.pressure_bar_abs');

@@ -95,7 +95,10 @@ function renamePaths(e: InvalidInputError, prefix: string): InvalidInputError {
     const [head, ...rest] = d.path.split('.');
     return { path: prefix + [FIELD_NAMES[head] ?? head, ...rest].join('.'), message: d.message };
   });
-  return new InvalidInputError(prefix ? `Item ${prefix.slice(0, -1)}: ${e.message}` : e.message, details.length ? details : [{ path: prefix.slice(0, -1) || '(root)', message: e.message }]);
+  return new InvalidInputError(
+    prefix ? `Item ${prefix.slice(0, -1)}: ${e.message}` : e.message,
+    details.length ? details : [{ path: prefix.slice(0, -1) || '(root)', message: e.message }],
+  );
 }
 
 /** Runs `fn` on one item, naming error paths as the contract does and prefixing the item's index for arrays. */
@@ -223,7 +226,15 @@ function durationOf(item: unknown): Record<string, unknown> {
       if (u && m) ranges = { usable_free_gas_L_range: u, minutes_range: m, Z_range_method: mixtureZRange(v.gas, v.temperature_C + 273.15, pAbs)!.method };
     }
   }
-  return { minutes: r.minutes, usable_free_gas_L: r.usableFreeGasL, ...ranges, reference: r.reference, reserve_gauge_bar: r.reserveGaugeBar, reserve_basis: r.reserveBasis, cautions: [...r.cautions, PLANNING_CAUTION] };
+  return {
+    minutes: r.minutes,
+    usable_free_gas_L: r.usableFreeGasL,
+    ...ranges,
+    reference: r.reference,
+    reserve_gauge_bar: r.reserveGaugeBar,
+    reserve_basis: r.reserveBasis,
+    cautions: [...r.cautions, PLANNING_CAUTION],
+  };
 }
 
 /**
@@ -242,7 +253,15 @@ const zVerb: CalcVerb = (input) => {
       return withIndex(i, () => {
         const v = parseOrThrow(zItemSchema, item, 'state');
         const r = compressibility(v.gas, v.temperature_C + 273.15, v.pressure_bar_abs);
-        return { Z: r.Z, density_kg_m3: r.densityKgM3, ideal_density_kg_m3: r.idealDensityKgM3, phase: r.phase, method: r.method, ...zRangeFields(v.gas, v.temperature_C, v.pressure_bar_abs), cautions: mixtureCautions(v.gas, v.temperature_C) };
+        return {
+          Z: r.Z,
+          density_kg_m3: r.densityKgM3,
+          ideal_density_kg_m3: r.idealDensityKgM3,
+          phase: r.phase,
+          method: r.method,
+          ...zRangeFields(v.gas, v.temperature_C, v.pressure_bar_abs),
+          cautions: mixtureCautions(v.gas, v.temperature_C),
+        };
       });
     } catch (e) {
       if (e instanceof InvalidInputError) {
@@ -254,7 +273,10 @@ const zVerb: CalcVerb = (input) => {
   });
   if (failures.length === 1) throw failures[0];
   if (failures.length > 1) {
-    throw new InvalidInputError(`${failures.length} of ${input.length} states are invalid: ${failures.map((f) => f.message).join('; ')}`, failures.flatMap((f) => f.details));
+    throw new InvalidInputError(
+      `${failures.length} of ${input.length} states are invalid: ${failures.map((f) => f.message).join('; ')}`,
+      failures.flatMap((f) => f.details),
+    );
   }
   return out;
 };

@@ -210,7 +210,15 @@ describe('cylinder duration', () => {
     const psi = 0.0689475729;
     const full = compressedContents({ gas: 'O2', waterCapacityL: 2.2, gaugeBar: 2200 * psi, temperatureC: 21.1, reference: '21C' });
     expect(full.freeGasL / 2200).toBeCloseTo(0.16, 2);
-    const d = cylinderDuration({ gas: 'O2', waterCapacityL: 2.2, gaugeBar: 2000 * psi, temperatureC: 21.1, reference: '21C', flowLMin: 0.5, reserveGaugeBar: 200 * psi });
+    const d = cylinderDuration({
+      gas: 'O2',
+      waterCapacityL: 2.2,
+      gaugeBar: 2000 * psi,
+      temperatureC: 21.1,
+      reference: '21C',
+      flowLMin: 0.5,
+      reserveGaugeBar: 200 * psi,
+    });
     expect(Math.abs(d.minutes / 576 - 1)).toBeLessThan(0.03);
   });
 

@@ -142,9 +142,15 @@ function readCylinderState(input: CompressedContentsInput): CylinderState {
   if (hasGauge === hasAbs) {
     fail('gaugeBar', 'give exactly one of gauge pressure and absolute pressure', 'Give either the gauge pressure or the absolute pressure (exactly one)');
   }
-  const pressureBarAbs = hasGauge ? requireFinite('gaugeBar', input.gaugeBar!, 'Gauge pressure') + atmosphericBar : requireFinite('pressureBarAbs', input.pressureBarAbs!, 'Absolute pressure');
+  const pressureBarAbs = hasGauge
+    ? requireFinite('gaugeBar', input.gaugeBar!, 'Gauge pressure') + atmosphericBar
+    : requireFinite('pressureBarAbs', input.pressureBarAbs!, 'Absolute pressure');
   if (pressureBarAbs <= 0) {
-    fail(hasGauge ? 'gaugeBar' : 'pressureBarAbs', 'absolute pressure must be greater than zero', `Absolute pressure must be greater than zero (got ${pressureBarAbs} bar abs)`);
+    fail(
+      hasGauge ? 'gaugeBar' : 'pressureBarAbs',
+      'absolute pressure must be greater than zero',
+      `Absolute pressure must be greater than zero (got ${pressureBarAbs} bar abs)`,
+    );
   }
   requireFinite('temperatureC', input.temperatureC, 'Temperature');
   const temperatureK = input.temperatureC + 273.15;
@@ -260,7 +266,11 @@ export function pressureAtTemperature(input: PressureAtTemperatureInput): { pres
   const newTemperatureK = input.newTemperatureC + 273.15;
   const info = GAS_INFO[s.gas];
   if (newTemperatureK < info.minTemperatureK || newTemperatureK > info.maxTemperatureK) {
-    fail('newTemperatureC', `must be between ${(info.minTemperatureK - 273.15).toFixed(2)} and ${(info.maxTemperatureK - 273.15).toFixed(2)} °C`, `New temperature ${input.newTemperatureC} °C is outside the supported range for ${info.name}`);
+    fail(
+      'newTemperatureC',
+      `must be between ${(info.minTemperatureK - 273.15).toFixed(2)} and ${(info.maxTemperatureK - 273.15).toFixed(2)} °C`,
+      `New temperature ${input.newTemperatureC} °C is outside the supported range for ${info.name}`,
+    );
   }
   const rho = molarDensityMolM3(s.gas, s.temperatureK, s.pressureBarAbs);
   const pressureBarAbs = pressureOfContentsAt(s.gas, rho, newTemperatureK);
@@ -313,7 +323,8 @@ export const LIQUEFIED_MAX_TEMPERATURE_C = 65;
  */
 export function liquefiedContents(input: LiquefiedContentsInput): LiquefiedContents {
   const gas = checkGas(input.gas);
-  if (!isLiquefiedGas(gas)) fail('gas', 'weighed contents apply to CO2 and N2O only', `${GAS_INFO[gas].name} is not a liquefied gas: use the pressure-based contents`);
+  if (!isLiquefiedGas(gas))
+    fail('gas', 'weighed contents apply to CO2 and N2O only', `${GAS_INFO[gas].name} is not a liquefied gas: use the pressure-based contents`);
   requirePositive('grossKg', input.grossKg, 'Gross weight');
   requirePositive('tareKg', input.tareKg, 'Tare weight');
   requireInRange('grossKg', input.grossKg, 0, MAX_CYLINDER_MASS_KG, 'kg', 'Gross weight');
@@ -321,7 +332,11 @@ export function liquefiedContents(input: LiquefiedContentsInput): LiquefiedConte
   requireInRange('waterCapacityL', input.waterCapacityL, WATER_CAPACITY_RANGE_L.min, WATER_CAPACITY_RANGE_L.max, 'L', 'Water capacity');
   requireFinite('temperatureC', input.temperatureC, 'Temperature');
   if (input.temperatureC < LIQUEFIED_MIN_TEMPERATURE_C || input.temperatureC > LIQUEFIED_MAX_TEMPERATURE_C) {
-    fail('temperatureC', `must be between ${LIQUEFIED_MIN_TEMPERATURE_C} and ${LIQUEFIED_MAX_TEMPERATURE_C} °C`, `Temperature ${input.temperatureC} °C is outside the supported range for weighed cylinders`);
+    fail(
+      'temperatureC',
+      `must be between ${LIQUEFIED_MIN_TEMPERATURE_C} and ${LIQUEFIED_MAX_TEMPERATURE_C} °C`,
+      `Temperature ${input.temperatureC} °C is outside the supported range for weighed cylinders`,
+    );
   }
   const atmosphericBar = input.atmosphericBar ?? STANDARD_ATMOSPHERE_BAR;
   requirePositive('atmosphericBar', atmosphericBar, 'Atmospheric pressure');
@@ -364,7 +379,9 @@ export function liquefiedContents(input: LiquefiedContentsInput): LiquefiedConte
     );
   }
   if (fillingRatioKgPerL > FILLING_RATIO_TEMPERATE_KG_PER_L) {
-    cautions.push(`Filling ratio ${fillingRatioKgPerL.toFixed(3)} kg/L is above the usual ${FILLING_RATIO_TEMPERATE_KG_PER_L} kg/L: check the weights and the stamped tare.`);
+    cautions.push(
+      `Filling ratio ${fillingRatioKgPerL.toFixed(3)} kg/L is above the usual ${FILLING_RATIO_TEMPERATE_KG_PER_L} kg/L: check the weights and the stamped tare.`,
+    );
   } else if (fillingRatioKgPerL > FILLING_RATIO_HOT_CLIMATE_KG_PER_L) {
     cautions.push(`Filling ratio ${fillingRatioKgPerL.toFixed(3)} kg/L is above the ${FILLING_RATIO_HOT_CLIMATE_KG_PER_L} kg/L used for hot climates.`);
   }
@@ -398,7 +415,8 @@ export const DEFAULT_RESERVE_SOURCE = '200 psi (13.8 bar) residual, as US EMS ox
  * 200 psi of a 2,000–2,200 psi fill). Common practice, editable per cylinder type.
  */
 export const DEFAULT_RESIDUAL_FRACTION_OF_FILL = 0.1;
-export const DEFAULT_RESIDUAL_SOURCE = 'default 10 % of the fill pressure (US EMS oxygen-cylinder guidance: about 200 psi of a 2,000–2,200 psi fill; common practice)';
+export const DEFAULT_RESIDUAL_SOURCE =
+  'default 10 % of the fill pressure (US EMS oxygen-cylinder guidance: about 200 psi of a 2,000–2,200 psi fill; common practice)';
 
 export interface DurationOptions {
   /** Flow of free gas at the same reference conditions, L/min. */
@@ -425,16 +443,18 @@ export interface DurationResult {
  * Liquefied gases: weighed mass less what stays at the reserve pressure and the reserve mass.
  * @param flowLMin free gas at the same reference conditions, L/min; reserveGaugeBar bar(g); reserveKg kg
  */
-export function cylinderDuration(
-  input: (CompressedContentsInput | LiquefiedContentsInput) & DurationOptions,
-): DurationResult {
+export function cylinderDuration(input: (CompressedContentsInput | LiquefiedContentsInput) & DurationOptions): DurationResult {
   requirePositive('flowLMin', input.flowLMin, 'Flow');
   requireInRange('flowLMin', input.flowLMin, FLOW_RANGE_L_MIN.min, FLOW_RANGE_L_MIN.max, 'L/min', 'Flow');
   const weighed = 'grossKg' in input && input.grossKg !== undefined;
   // liquefied gases: the reserve is a mass (reserveKg) and the gas left at atmospheric pressure
   const reserveGiven = input.reserveGaugeBar !== undefined;
   const reserveGaugeBar = input.reserveGaugeBar ?? (weighed ? 0 : DEFAULT_RESERVE_GAUGE_BAR);
-  const reserveBasis = reserveGiven ? 'reserve as given' : weighed ? 'no reserve mass given: run until the gas left is at atmospheric pressure' : `no reserve given: ${DEFAULT_RESERVE_SOURCE}`;
+  const reserveBasis = reserveGiven
+    ? 'reserve as given'
+    : weighed
+      ? 'no reserve mass given: run until the gas left is at atmospheric pressure'
+      : `no reserve given: ${DEFAULT_RESERVE_SOURCE}`;
   requireNonNegative('reserveGaugeBar', reserveGaugeBar, 'Reserve pressure');
   requireInRange('reserveGaugeBar', reserveGaugeBar, 0, MAX_PRESSURE_BAR_ABS, 'bar', 'Reserve pressure');
   const reserveKg = input.reserveKg ?? 0;
@@ -468,6 +488,7 @@ export function cylinderDuration(
   else validateStateAt(s.gas, s.temperatureK, reserveAbs, 'temperatureC', 'reserveGaugeBar');
   const usableMoles = deliveredMoles(s, s.pressureBarAbs, reserveAbs);
   const usableFreeGasL = usableMoles * referenceMolarVolumeLMol(s.gas, s.reference);
-  if (!reserveGiven) cautions.push(`Duration to a reserve of ${reserveGaugeBar.toFixed(1)} bar g (${DEFAULT_RESERVE_SOURCE}); give your own reserve to change it.`);
+  if (!reserveGiven)
+    cautions.push(`Duration to a reserve of ${reserveGaugeBar.toFixed(1)} bar g (${DEFAULT_RESERVE_SOURCE}); give your own reserve to change it.`);
   return { minutes: usableFreeGasL / input.flowLMin, usableFreeGasL, reference: s.reference, cautions, reserveGaugeBar, reserveBasis };
 }

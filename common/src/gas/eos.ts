@@ -49,10 +49,14 @@ export function validateState(gas: GasCode, temperatureK: number, pressureBarAbs
   }
   const info = GAS_INFO[gas];
   if (typeof temperatureK !== 'number' || !Number.isFinite(temperatureK)) {
-    throw new InvalidInputError(`Temperature must be a finite number, got ${String(temperatureK)}`, [{ path: 'temperatureK', message: 'expected a finite number' }]);
+    throw new InvalidInputError(`Temperature must be a finite number, got ${String(temperatureK)}`, [
+      { path: 'temperatureK', message: 'expected a finite number' },
+    ]);
   }
   if (typeof pressureBarAbs !== 'number' || !Number.isFinite(pressureBarAbs)) {
-    throw new InvalidInputError(`Pressure must be a finite number, got ${String(pressureBarAbs)}`, [{ path: 'pressureBarAbs', message: 'expected a finite number' }]);
+    throw new InvalidInputError(`Pressure must be a finite number, got ${String(pressureBarAbs)}`, [
+      { path: 'pressureBarAbs', message: 'expected a finite number' },
+    ]);
   }
   if (temperatureK < info.minTemperatureK || temperatureK > info.maxTemperatureK) {
     throw new InvalidInputError(
@@ -61,7 +65,9 @@ export function validateState(gas: GasCode, temperatureK: number, pressureBarAbs
     );
   }
   if (pressureBarAbs <= 0) {
-    throw new InvalidInputError(`Absolute pressure must be greater than zero, got ${pressureBarAbs} bar`, [{ path: 'pressureBarAbs', message: 'must be greater than zero (absolute)' }]);
+    throw new InvalidInputError(`Absolute pressure must be greater than zero, got ${pressureBarAbs} bar`, [
+      { path: 'pressureBarAbs', message: 'must be greater than zero (absolute)' },
+    ]);
   }
   if (pressureBarAbs > MAX_PRESSURE_BAR_ABS) {
     throw new InvalidInputError(`Pressure ${pressureBarAbs} bar abs is above the supported maximum of ${MAX_PRESSURE_BAR_ABS} bar abs`, [

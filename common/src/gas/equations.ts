@@ -32,7 +32,7 @@ export function mixtureReducing(parts: readonly { gas: MixtureComponent; moleFra
       const cubeRoots = Math.cbrt(1 / ci.criticalDensityMolM3) + Math.cbrt(1 / cj.criticalDensityMolM3);
       const fv = xi + xj === 0 ? 0 : (xi + xj) / (b.betaV * b.betaV * xi + xj);
       const ft = xi + xj === 0 ? 0 : (xi + xj) / (b.betaT * b.betaT * xi + xj);
-      volume += 2 * xi * xj * b.betaV * b.gammaV * fv * (cubeRoots * cubeRoots * cubeRoots) / 8;
+      volume += (2 * xi * xj * b.betaV * b.gammaV * fv * (cubeRoots * cubeRoots * cubeRoots)) / 8;
       temperature += 2 * xi * xj * b.betaT * b.gammaT * ft * Math.sqrt(ci.criticalTemperatureK * cj.criticalTemperatureK);
     }
   }

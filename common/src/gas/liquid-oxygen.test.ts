@@ -73,8 +73,24 @@ describe('calibration-table interpolation', () => {
     expect(() => contentsFromCalibrationTable(table, -1)).toThrow(InvalidInputError);
     expect(() => contentsFromCalibrationTable(table, Number.NaN)).toThrow(InvalidInputError);
     expect(() => contentsFromCalibrationTable([{ reading: 0, kg: 0 }], 0)).toThrow(/at least two/);
-    expect(() => contentsFromCalibrationTable([{ reading: 0, kg: 0 }, { reading: 0, kg: 5 }], 0)).toThrow(/twice/);
-    expect(() => contentsFromCalibrationTable([{ reading: 0, kg: 10 }, { reading: 5, kg: 5 }], 1)).toThrow(/not monotone/);
+    expect(() =>
+      contentsFromCalibrationTable(
+        [
+          { reading: 0, kg: 0 },
+          { reading: 0, kg: 5 },
+        ],
+        0,
+      ),
+    ).toThrow(/twice/);
+    expect(() =>
+      contentsFromCalibrationTable(
+        [
+          { reading: 0, kg: 10 },
+          { reading: 5, kg: 5 },
+        ],
+        1,
+      ),
+    ).toThrow(/not monotone/);
   });
 });
 

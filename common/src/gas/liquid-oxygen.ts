@@ -25,7 +25,8 @@ export const LOX_DENSITY_KG_PER_L = 1.14117;
  * lighter, so this gives the smallest mass per litre of the usual range: the cautious choice.
  */
 export const DEFAULT_TANK_OPERATING_GAUGE_BAR = 7;
-export const DEFAULT_TANK_OPERATING_SOURCE = 'default 7 bar g: the usual UK relief setting of a bulk tank (anaesthesia revision notes), the lightest liquid of the usual working range';
+export const DEFAULT_TANK_OPERATING_SOURCE =
+  'default 7 bar g: the usual UK relief setting of a bulk tank (anaesthesia revision notes), the lightest liquid of the usual working range';
 
 const densityCache = new Map<number, number>();
 
@@ -114,7 +115,11 @@ export function contentsFromCalibrationTable(table: readonly CalibrationPoint[],
       fail('table', `reading ${points[i].reading} appears twice`, `The calibration table has the reading ${points[i].reading} twice`);
     }
     if (points[i].kg < points[i - 1].kg) {
-      fail('table', 'contents must not fall as the reading rises', `The calibration table is not monotone: ${points[i].kg} kg at ${points[i].reading} is below ${points[i - 1].kg} kg at ${points[i - 1].reading}`);
+      fail(
+        'table',
+        'contents must not fall as the reading rises',
+        `The calibration table is not monotone: ${points[i].kg} kg at ${points[i].reading} is below ${points[i - 1].kg} kg at ${points[i - 1].reading}`,
+      );
     }
   }
   const lo = points[0];

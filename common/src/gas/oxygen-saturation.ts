@@ -82,7 +82,11 @@ export interface OxygenSaturation {
 export function oxygenSaturationAtPressure(pressureBarAbs: number): OxygenSaturation {
   requireFinite('pressureBarAbs', pressureBarAbs, 'Pressure');
   if (pressureBarAbs < 0.01 || pressureBarAbs > OXYGEN_SATURATION_MAX_BAR_ABS) {
-    fail('pressureBarAbs', `must be between 0.01 and ${OXYGEN_SATURATION_MAX_BAR_ABS} bar abs`, `Liquid oxygen is saturated between the triple point and the critical point: ${pressureBarAbs} bar abs is outside 0.01–${OXYGEN_SATURATION_MAX_BAR_ABS} bar abs`);
+    fail(
+      'pressureBarAbs',
+      `must be between 0.01 and ${OXYGEN_SATURATION_MAX_BAR_ABS} bar abs`,
+      `Liquid oxygen is saturated between the triple point and the critical point: ${pressureBarAbs} bar abs is outside 0.01–${OXYGEN_SATURATION_MAX_BAR_ABS} bar abs`,
+    );
   }
   const target = Math.log(pressureBarAbs * 1e5);
   let x0 = 1 / 90;
@@ -98,5 +102,10 @@ export function oxygenSaturationAtPressure(pressureBarAbs: number): OxygenSatura
     f1 = Math.log(saturationAt(1 / x1).pressurePa) - target;
   }
   const s = saturationAt(1 / x1);
-  return { temperatureK: 1 / x1, pressureBarAbs: s.pressurePa / 1e5, liquidDensityKgM3: s.liquid * EOS.molarMassKgMol, vapourDensityKgM3: s.vapour * EOS.molarMassKgMol };
+  return {
+    temperatureK: 1 / x1,
+    pressureBarAbs: s.pressurePa / 1e5,
+    liquidDensityKgM3: s.liquid * EOS.molarMassKgMol,
+    vapourDensityKgM3: s.vapour * EOS.molarMassKgMol,
+  };
 }

@@ -46,7 +46,7 @@ export function referenceMolarVolumeLMol(gas: GasCode, reference: ReferenceCode)
 /** Ideal molar volume at the reference state, L/mol: R·T_ref/p_ref. */
 export function idealReferenceMolarVolumeLMol(reference: ReferenceCode): number {
   const ref = REFERENCE_CONDITIONS[reference];
-  return (R_J_MOL_K * ref.temperatureK) / (ref.pressureBarAbs * 1e5) * 1000;
+  return ((R_J_MOL_K * ref.temperatureK) / (ref.pressureBarAbs * 1e5)) * 1000;
 }
 
 /**

@@ -65,7 +65,8 @@ export const cylinderTypeSchema = z
     if ((v.gasCode === 'N2O' || v.gasCode === 'CO2') && (v.tareKg == null || v.tareKg <= 0)) {
       ctx.addIssue({ code: 'custom', path: ['tareKg'], message: 'liquefied gases are counted by weight: enter the tare' });
     }
-    if (v.residualGaugeBar != null && v.residualGaugeBar >= v.fillPressureBar) ctx.addIssue({ code: 'custom', path: ['residualGaugeBar'], message: 'must be below the fill pressure' });
+    if (v.residualGaugeBar != null && v.residualGaugeBar >= v.fillPressureBar)
+      ctx.addIssue({ code: 'custom', path: ['residualGaugeBar'], message: 'must be below the fill pressure' });
   });
 export type CylinderTypeInput = z.infer<typeof cylinderTypeSchema>;
 
@@ -74,7 +75,11 @@ export const supplierPriceSchema = z
     cylinderTypeId: z.number().int().positive().nullable().optional(),
     gasCode: z.enum(GAS_CODES_CATALOGUE).nullable().optional(),
     unit: z.enum(['cylinder', 'kg']),
-    priceMinor: z.number({ error: 'enter the price' }).int('whole minor units (pence, cents)').min(0, 'must be ≥ 0').max(100_000_000, 'at most 100,000,000 minor units (1,000,000.00) a unit'),
+    priceMinor: z
+      .number({ error: 'enter the price' })
+      .int('whole minor units (pence, cents)')
+      .min(0, 'must be ≥ 0')
+      .max(100_000_000, 'at most 100,000,000 minor units (1,000,000.00) a unit'),
   })
   .superRefine((v, ctx) => {
     if (v.unit === 'cylinder' && !v.cylinderTypeId) ctx.addIssue({ code: 'custom', path: ['cylinderTypeId'], message: 'choose the cylinder type' });
@@ -85,8 +90,17 @@ export const supplierSchema = z.object({
   name: z.string().trim().min(1, 'required').max(190),
   orderEmail: emailSchema,
   phone: z.string().trim().max(40).default(''),
-  leadTimeHours: z.coerce.number().int().min(0).max(24 * 60),
-  rentalMinorPerCylinderDay: z.coerce.number().int('whole minor units (pence, cents)').min(0, 'must be ≥ 0').max(1_000_000, 'at most 1,000,000 minor units (10,000.00) a cylinder-day').default(0),
+  leadTimeHours: z.coerce
+    .number()
+    .int()
+    .min(0)
+    .max(24 * 60),
+  rentalMinorPerCylinderDay: z.coerce
+    .number()
+    .int('whole minor units (pence, cents)')
+    .min(0, 'must be ≥ 0')
+    .max(1_000_000, 'at most 1,000,000 minor units (10,000.00) a cylinder-day')
+    .default(0),
   minBulkDropKg: z.coerce.number().min(0).max(100_000).default(0),
   currency: currencySchema,
   active: z.boolean().default(true),

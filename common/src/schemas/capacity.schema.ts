@@ -68,7 +68,8 @@ export const zoneSchema = z
   .superRefine((v, ctx) => {
     if (v.diversityMethod === 'binomial') {
       if (v.unitFlowLMin === null) ctx.addIssue({ code: 'custom', path: ['unitFlowLMin'], message: 'the binomial method needs the flow of one terminal unit' });
-      if (v.useProbability === null) ctx.addIssue({ code: 'custom', path: ['useProbability'], message: 'the binomial method needs the chance that one unit is in use' });
+      if (v.useProbability === null)
+        ctx.addIssue({ code: 'custom', path: ['useProbability'], message: 'the binomial method needs the chance that one unit is in use' });
       if (v.confidence === null) ctx.addIssue({ code: 'custom', path: ['confidence'], message: 'the binomial method needs a confidence, e.g. 0.99' });
     }
     if (v.gasCode === 'VAC' && v.sourceId !== null) {
@@ -80,12 +81,13 @@ export type ZoneFormValues = z.input<typeof zoneSchema>;
 
 export const pipeRunSchema = z.object({
   name: z.string().trim().min(1, 'required').max(120),
-  lengthM: num('length')
-    .positive('the pipe run needs its length (m, above 0)')
-    .max(5000, 'above 5 km? split the run'),
+  lengthM: num('length').positive('the pipe run needs its length (m, above 0)').max(5000, 'above 5 km? split the run'),
   tube: z.enum(TUBE_IDS, { error: `choose a tube size (EN 13348): ${TUBE_IDS.join(', ')}` }),
   /** Fittings as a percentage of the straight length; documented default 20 % (common practice). */
-  fittingsAllowancePercent: num('fittings allowance').min(0, 'must be ≥ 0 %').max(300, 'above 300 %? give the equivalent length').default(DEFAULT_FITTINGS_ALLOWANCE_PERCENT),
+  fittingsAllowancePercent: num('fittings allowance')
+    .min(0, 'must be ≥ 0 %')
+    .max(300, 'above 300 %? give the equivalent length')
+    .default(DEFAULT_FITTINGS_ALLOWANCE_PERCENT),
   /** Line pressure at the start of the run, kPa gauge; default 400 (HTM 02-01 nominal). */
   linePressureKPa: num('line pressure').positive('must be above 0 kPa gauge').max(2000).default(NOMINAL_DISTRIBUTION_PRESSURE_KPA),
   /** Allowed drop over the run, kPa; null = 5 % of the line pressure (common practice). */
@@ -107,7 +109,10 @@ export const ruleSetCreateSchema = z
   .object({
     name: z.string().trim().min(1, 'required').max(120),
     /** Copy of a shipped set ("default", "gb50751") or of one of the organisation's sets (its id). */
-    basedOn: z.union([z.enum(BUILTIN_RULE_SET_IDS), z.number().int().positive()]).nullable().default(null),
+    basedOn: z
+      .union([z.enum(BUILTIN_RULE_SET_IDS), z.number().int().positive()])
+      .nullable()
+      .default(null),
     /** The rules; left out = an unchanged copy of basedOn. */
     rules: ruleSetBodySchema.optional(),
   })
@@ -213,7 +218,11 @@ export interface ZoneOut {
   /** why no design flow could be found (no documented rule) */
   refused: string | null;
   pipeRuns: PipeRunOut[];
-  headroom: { extraPatients: number | null; extraPatientsWithSource: number | null; limitedBy: { scope: 'zone' | 'source'; kind: LimitKind; name: string } | null } | null;
+  headroom: {
+    extraPatients: number | null;
+    extraPatientsWithSource: number | null;
+    limitedBy: { scope: 'zone' | 'source'; kind: LimitKind; name: string } | null;
+  } | null;
 }
 
 export interface ManifoldOut {

@@ -73,20 +73,35 @@ export const deliverySchema = z.object({
   deliveredAt: z.iso.datetime({ offset: true, error: 'use an ISO date and time' }),
   /** Cylinders (whole) or kg, as on the order. */
   quantity: z.number({ error: 'quantity must be a number' }).min(0, 'must be ≥ 0').max(MAX_ORDER_KG, maxQuantityText),
-  emptiesCollected: z.number().int('whole cylinders').min(0, 'must be ≥ 0').max(MAX_ORDER_CYLINDERS, `at most ${MAX_ORDER_CYLINDERS.toLocaleString('en-GB')} cylinders`).default(0),
+  emptiesCollected: z
+    .number()
+    .int('whole cylinders')
+    .min(0, 'must be ≥ 0')
+    .max(MAX_ORDER_CYLINDERS, `at most ${MAX_ORDER_CYLINDERS.toLocaleString('en-GB')} cylinders`)
+    .default(0),
   note: text(500).default(''),
 });
 export type DeliveryRecordInput = z.infer<typeof deliverySchema>;
 
 export const approvalLimitSchema = z.object({
-  limitMinor: z.number({ error: 'enter a limit' }).int('in minor units (whole pence or cents)').min(0, 'must be ≥ 0').max(MAX_APPROVAL_LIMIT_MINOR, `at most ${MAX_APPROVAL_LIMIT_MINOR.toLocaleString('en-GB')} minor units (1,000,000,000.00)`),
+  limitMinor: z
+    .number({ error: 'enter a limit' })
+    .int('in minor units (whole pence or cents)')
+    .min(0, 'must be ≥ 0')
+    .max(MAX_APPROVAL_LIMIT_MINOR, `at most ${MAX_APPROVAL_LIMIT_MINOR.toLocaleString('en-GB')} minor units (1,000,000,000.00)`),
   currency: currencySchema,
 });
 export type ApprovalLimitInput = z.infer<typeof approvalLimitSchema>;
 
 export const spendQuerySchema = z.object({
-  from: z.string().regex(/^\d{4}-\d{2}$/, 'use yyyy-MM').optional(),
-  to: z.string().regex(/^\d{4}-\d{2}$/, 'use yyyy-MM').optional(),
+  from: z
+    .string()
+    .regex(/^\d{4}-\d{2}$/, 'use yyyy-MM')
+    .optional(),
+  to: z
+    .string()
+    .regex(/^\d{4}-\d{2}$/, 'use yyyy-MM')
+    .optional(),
   siteId: z.coerce.number().int().positive().optional(),
 });
 export type SpendQuery = z.infer<typeof spendQuerySchema>;
@@ -106,7 +121,10 @@ export const outboxQuerySchema = z.object({
 
 /** Header carrying a client-chosen key that makes a write safe to repeat. */
 export const IDEMPOTENCY_HEADER = 'idempotency-key';
-export const idempotencyKeySchema = z.string().regex(/^[\w-]{8,100}$/, 'use 8–100 letters, digits, - or _').optional();
+export const idempotencyKeySchema = z
+  .string()
+  .regex(/^[\w-]{8,100}$/, 'use 8–100 letters, digits, - or _')
+  .optional();
 
 // ---------- responses (what the orders presenters send; the browser reads the same types) ----------
 
@@ -157,7 +175,16 @@ export type RequestAction = 'approve' | 'reject' | 'submit' | 'cancel' | 'change
 export interface RequestDetail extends RequestRow {
   trigger: { status?: string; daysOfStock?: number | null; reorderAt?: string | null; emptyAt?: string | null } | null;
   approvals: { userId: number; name: string; at: string; limitMinor: number; comment: string }[];
-  timeline: { at: string; action: string; by: string; userId: number | null; fromStatus: string | null; toStatus: string | null; comment: string; detail: Record<string, unknown> | null }[];
+  timeline: {
+    at: string;
+    action: string;
+    by: string;
+    userId: number | null;
+    fromStatus: string | null;
+    toStatus: string | null;
+    comment: string;
+    detail: Record<string, unknown> | null;
+  }[];
   myApprovalLimit: { limitMinor: number; currency: string } | null;
   actions: Record<RequestAction, ActionState>;
 }
@@ -194,8 +221,27 @@ export interface OrderRow {
 export interface OrderDetail extends OrderRow {
   pdfUrl: string;
   request: { id: number; reference: string; status: string; origin: string };
-  delivery: { id: number; deliveryNote: string; deliveredAt: string; quantity: number; unit: string; emptiesCollected: number; note: string; readingId: string | null } | null;
-  emails: { id: number; kind: string; to: string; cc: string; status: string; attempts: number; lastError: string; sentAt: string | null; nextAttemptAt: string }[];
+  delivery: {
+    id: number;
+    deliveryNote: string;
+    deliveredAt: string;
+    quantity: number;
+    unit: string;
+    emptiesCollected: number;
+    note: string;
+    readingId: string | null;
+  } | null;
+  emails: {
+    id: number;
+    kind: string;
+    to: string;
+    cc: string;
+    status: string;
+    attempts: number;
+    lastError: string;
+    sentAt: string | null;
+    nextAttemptAt: string;
+  }[];
 }
 
 /** Spend of one month, site, gas, supplier and currency (integer minor units). */

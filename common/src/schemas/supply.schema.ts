@@ -54,7 +54,12 @@ export const sourceSchema = z
     reorderMode: z.enum(REORDER_MODES).default('none'),
     reorderLevel: num('reorder level').min(0).nullable().default(null),
     orderUpTo: num('order-up-to').positive().nullable().default(null),
-    leadTimeHours: num('lead time').int().min(0).max(24 * 60).nullable().default(null),
+    leadTimeHours: num('lead time')
+      .int()
+      .min(0)
+      .max(24 * 60)
+      .nullable()
+      .default(null),
     forecastBasis: z.enum(FORECAST_BASES).default('model'),
     notes: z.string().trim().max(1000).default(''),
     active: z.boolean().default(true),
@@ -66,7 +71,8 @@ export const sourceSchema = z
     if (s.type === 'bulk_liquid') {
       need('capacityKg', 'a tank needs its capacity (kg)');
       need('evaporationPercentPerDay', 'enter the normal evaporation rate (% of capacity per day)');
-      if (s.gasCode === 'N2O_O2_50' || s.gasCode.startsWith('HE_O2')) ctx.addIssue({ code: 'custom', path: ['gasCode'], message: 'mixtures are not held as bulk liquid' });
+      if (s.gasCode === 'N2O_O2_50' || s.gasCode.startsWith('HE_O2'))
+        ctx.addIssue({ code: 'custom', path: ['gasCode'], message: 'mixtures are not held as bulk liquid' });
     } else {
       need('cylinderTypeId', 'choose the cylinder type');
     }
@@ -74,13 +80,17 @@ export const sourceSchema = z
     if (s.reorderMode !== 'none') {
       need('reorderLevel', 'enter the reorder level');
       need('orderUpTo', 'enter the order-up-to level');
-      if (s.reorderMode === 'percent' && s.reorderLevel !== null && s.reorderLevel > 100) ctx.addIssue({ code: 'custom', path: ['reorderLevel'], message: 'a percentage is at most 100' });
-      if (s.reorderMode === 'amount' && s.reorderLevel !== null && s.orderUpTo !== null && s.reorderLevel >= s.orderUpTo) ctx.addIssue({ code: 'custom', path: ['reorderLevel'], message: 'must be below the order-up-to level' });
+      if (s.reorderMode === 'percent' && s.reorderLevel !== null && s.reorderLevel > 100)
+        ctx.addIssue({ code: 'custom', path: ['reorderLevel'], message: 'a percentage is at most 100' });
+      if (s.reorderMode === 'amount' && s.reorderLevel !== null && s.orderUpTo !== null && s.reorderLevel >= s.orderUpTo)
+        ctx.addIssue({ code: 'custom', path: ['reorderLevel'], message: 'must be below the order-up-to level' });
     }
-    if (s.type === 'bulk_liquid' && s.orderUpTo !== null && s.capacityKg !== null && s.orderUpTo > s.capacityKg) ctx.addIssue({ code: 'custom', path: ['orderUpTo'], message: 'cannot exceed the capacity' });
+    if (s.type === 'bulk_liquid' && s.orderUpTo !== null && s.capacityKg !== null && s.orderUpTo > s.capacityKg)
+      ctx.addIssue({ code: 'custom', path: ['orderUpTo'], message: 'cannot exceed the capacity' });
     if (s.calibration) {
       for (let i = 1; i < s.calibration.length; i++) {
-        if (!(s.calibration[i].reading > s.calibration[i - 1].reading)) ctx.addIssue({ code: 'custom', path: ['calibration', i, 'reading'], message: 'readings must rise down the table' });
+        if (!(s.calibration[i].reading > s.calibration[i - 1].reading))
+          ctx.addIssue({ code: 'custom', path: ['calibration', i, 'reading'], message: 'readings must rise down the table' });
       }
     }
   });
@@ -95,8 +105,19 @@ export const readingSchema = z.discriminatedUnion(
     z.object({ kind: z.literal('kg'), value: num('mass').min(0) }),
     z.object({ kind: z.literal('litres_liquid'), value: num('litres of liquid').min(0) }),
     z.object({ kind: z.literal('calibration'), value: num('gauge reading') }),
-    z.object({ kind: z.literal('bank_gauges'), dutyBar: num('duty bank gauge').min(0).max(350), standbyBar: num('standby bank gauge').min(0).max(350), spareFull: num('spare cylinders').int().min(0).max(1000).default(0) }),
-    z.object({ kind: z.literal('store_count'), full: num('full cylinders').int().min(0).max(100_000), inUseGaugeBar: z.array(num('gauge').min(0).max(350)).max(1000).default([]), inUseNetKg: z.array(num('net weight').min(0).max(1000)).max(1000).default([]), empty: num('empty cylinders').int().min(0).max(100_000).default(0) }),
+    z.object({
+      kind: z.literal('bank_gauges'),
+      dutyBar: num('duty bank gauge').min(0).max(350),
+      standbyBar: num('standby bank gauge').min(0).max(350),
+      spareFull: num('spare cylinders').int().min(0).max(1000).default(0),
+    }),
+    z.object({
+      kind: z.literal('store_count'),
+      full: num('full cylinders').int().min(0).max(100_000),
+      inUseGaugeBar: z.array(num('gauge').min(0).max(350)).max(1000).default([]),
+      inUseNetKg: z.array(num('net weight').min(0).max(1000)).max(1000).default([]),
+      empty: num('empty cylinders').int().min(0).max(100_000).default(0),
+    }),
   ],
   { error: 'choose how the reading was taken' },
 );
@@ -125,7 +146,8 @@ export const therapyLineSchema = z
     label: z.string().trim().max(120).default(''),
   })
   .superRefine((t, ctx) => {
-    if ((t.device === 'custom' || t.device === 'theatre') && t.flowLMin === null) ctx.addIssue({ code: 'custom', path: ['flowLMin'], message: 'enter the flow for this line' });
+    if ((t.device === 'custom' || t.device === 'theatre') && t.flowLMin === null)
+      ctx.addIssue({ code: 'custom', path: ['flowLMin'], message: 'enter the flow for this line' });
   });
 export const therapyLinesSchema = z.object({ lines: z.array(therapyLineSchema).max(200) });
 export type TherapyLineInput = z.infer<typeof therapyLineSchema>;

@@ -16,7 +16,12 @@ export const localDateSchema = z
     return !Number.isNaN(t.getTime()) && t.toISOString().slice(0, 10) === d;
   }, 'not a calendar date');
 
-const count = (what: string, max: number) => z.number({ error: `${what} must be a number` }).int(`${what}: whole numbers`).min(0, `${what} cannot be negative`).max(max, `${what}: above ${max}? check the count`);
+const count = (what: string, max: number) =>
+  z
+    .number({ error: `${what} must be a number` })
+    .int(`${what}: whole numbers`)
+    .min(0, `${what} cannot be negative`)
+    .max(max, `${what}: above ${max}? check the count`);
 
 // ---------- usage reports ----------
 
@@ -101,31 +106,136 @@ export interface ImportColumn {
 /** The columns of each kind of upload, in template order. */
 export const IMPORT_COLUMNS: Record<ImportKind, readonly ImportColumn[]> = {
   tank_readings: [
-    { key: 'time', label: 'Time', required: true, aliases: ['timestamp', 'date_time', 'datetime', 'taken_at', 'time_utc', 'reading_time', 'date'], description: 'When the reading was taken: 2027-01-04T08:30 (site time) or with an offset, 2027-01-04T08:30:00Z', examples: ['2027-01-04T08:00', '2027-01-04T09:00', '2027-01-04T10:00'] },
-    { key: 'level', label: 'Level', required: true, aliases: ['value', 'reading', 'contents', 'level_percent', 'percent', 'kg', 'mass_kg', 'litres', 'dp', 'differential_pressure'], description: 'The reading, in the unit of the unit column (or the unit chosen on upload)', examples: ['62.5', '62.1', '61.8'] },
-    { key: 'unit', label: 'Unit', required: false, aliases: ['units', 'uom'], description: '% (level), kg, L (litres of liquid) or the unit of the tank’s calibration table (differential pressure)', examples: ['%', '%', '%'] },
-    { key: 'source', label: 'Tank', required: false, aliases: ['tank', 'source_name', 'source_id', 'vessel'], description: 'The tank’s name or number in Plenum; leave out to use the tank chosen on upload', examples: ['', '', ''] },
-    { key: 'note', label: 'Note', required: false, aliases: ['comment', 'notes', 'remark'], description: 'Free text', examples: ['', 'after the morning round', ''] },
+    {
+      key: 'time',
+      label: 'Time',
+      required: true,
+      aliases: ['timestamp', 'date_time', 'datetime', 'taken_at', 'time_utc', 'reading_time', 'date'],
+      description: 'When the reading was taken: 2027-01-04T08:30 (site time) or with an offset, 2027-01-04T08:30:00Z',
+      examples: ['2027-01-04T08:00', '2027-01-04T09:00', '2027-01-04T10:00'],
+    },
+    {
+      key: 'level',
+      label: 'Level',
+      required: true,
+      aliases: ['value', 'reading', 'contents', 'level_percent', 'percent', 'kg', 'mass_kg', 'litres', 'dp', 'differential_pressure'],
+      description: 'The reading, in the unit of the unit column (or the unit chosen on upload)',
+      examples: ['62.5', '62.1', '61.8'],
+    },
+    {
+      key: 'unit',
+      label: 'Unit',
+      required: false,
+      aliases: ['units', 'uom'],
+      description: '% (level), kg, L (litres of liquid) or the unit of the tank’s calibration table (differential pressure)',
+      examples: ['%', '%', '%'],
+    },
+    {
+      key: 'source',
+      label: 'Tank',
+      required: false,
+      aliases: ['tank', 'source_name', 'source_id', 'vessel'],
+      description: 'The tank’s name or number in Plenum; leave out to use the tank chosen on upload',
+      examples: ['', '', ''],
+    },
+    {
+      key: 'note',
+      label: 'Note',
+      required: false,
+      aliases: ['comment', 'notes', 'remark'],
+      description: 'Free text',
+      examples: ['', 'after the morning round', ''],
+    },
   ],
   flow_meter_totals: [
-    { key: 'time', label: 'Time', required: true, aliases: ['timestamp', 'date_time', 'datetime', 'taken_at', 'date'], description: 'When the meter was read', examples: ['2027-01-04T08:00', '2027-01-05T08:00', '2027-01-06T08:00'] },
-    { key: 'total', label: 'Meter total', required: true, aliases: ['reading', 'value', 'register', 'totaliser', 'volume'], description: 'The meter’s running total of free gas at the site’s reference conditions', examples: ['1520.4', '1541.9', '1563.0'] },
+    {
+      key: 'time',
+      label: 'Time',
+      required: true,
+      aliases: ['timestamp', 'date_time', 'datetime', 'taken_at', 'date'],
+      description: 'When the meter was read',
+      examples: ['2027-01-04T08:00', '2027-01-05T08:00', '2027-01-06T08:00'],
+    },
+    {
+      key: 'total',
+      label: 'Meter total',
+      required: true,
+      aliases: ['reading', 'value', 'register', 'totaliser', 'volume'],
+      description: 'The meter’s running total of free gas at the site’s reference conditions',
+      examples: ['1520.4', '1541.9', '1563.0'],
+    },
     { key: 'unit', label: 'Unit', required: false, aliases: ['units', 'uom'], description: 'm3 or L of free gas', examples: ['m3', 'm3', 'm3'] },
     { key: 'note', label: 'Note', required: false, aliases: ['comment', 'notes'], description: 'Free text', examples: ['', '', ''] },
   ],
   store_counts: [
-    { key: 'time', label: 'Time', required: true, aliases: ['timestamp', 'date_time', 'datetime', 'taken_at', 'date', 'counted_at'], description: 'When the store was counted', examples: ['2027-01-04T08:00', '2027-01-05T08:00', '2027-01-06T08:00'] },
+    {
+      key: 'time',
+      label: 'Time',
+      required: true,
+      aliases: ['timestamp', 'date_time', 'datetime', 'taken_at', 'date', 'counted_at'],
+      description: 'When the store was counted',
+      examples: ['2027-01-04T08:00', '2027-01-05T08:00', '2027-01-06T08:00'],
+    },
     { key: 'full', label: 'Full', required: true, aliases: ['full_cylinders', 'full_count'], description: 'Full cylinders', examples: ['24', '21', '30'] },
-    { key: 'in_use_gauges_bar', label: 'In-use gauges (bar)', required: false, aliases: ['in_use', 'in_use_gauge_bar', 'part_used', 'gauges'], description: 'Gauge pressure of each part-used cylinder, separated by spaces or |', examples: ['150 90', '120', ''] },
-    { key: 'empty', label: 'Empty', required: false, aliases: ['empties', 'empty_cylinders'], description: 'Empty cylinders waiting for collection', examples: ['4', '7', '1'] },
-    { key: 'source', label: 'Store', required: false, aliases: ['store', 'source_name', 'source_id'], description: 'The store’s name or number in Plenum; leave out to use the store chosen on upload', examples: ['', '', ''] },
+    {
+      key: 'in_use_gauges_bar',
+      label: 'In-use gauges (bar)',
+      required: false,
+      aliases: ['in_use', 'in_use_gauge_bar', 'part_used', 'gauges'],
+      description: 'Gauge pressure of each part-used cylinder, separated by spaces or |',
+      examples: ['150 90', '120', ''],
+    },
+    {
+      key: 'empty',
+      label: 'Empty',
+      required: false,
+      aliases: ['empties', 'empty_cylinders'],
+      description: 'Empty cylinders waiting for collection',
+      examples: ['4', '7', '1'],
+    },
+    {
+      key: 'source',
+      label: 'Store',
+      required: false,
+      aliases: ['store', 'source_name', 'source_id'],
+      description: 'The store’s name or number in Plenum; leave out to use the store chosen on upload',
+      examples: ['', '', ''],
+    },
     { key: 'note', label: 'Note', required: false, aliases: ['comment', 'notes'], description: 'Free text', examples: ['', '', 'delivery of 10 at 09:00'] },
   ],
   historic_usage: [
-    { key: 'date', label: 'Date', required: true, aliases: ['day', 'usage_date', 'period', 'time'], description: 'The local day the usage belongs to, 2026-11-30', examples: ['2026-11-30', '2026-12-01', '2026-12-01'] },
-    { key: 'ward', label: 'Ward', required: true, aliases: ['ward_name', 'department', 'area', 'ward_id'], description: 'The ward’s name or number in Plenum', examples: ['Ward name', 'Ward name', 'Ward name'] },
-    { key: 'gas', label: 'Gas', required: false, aliases: ['gas_code', 'product'], description: 'Gas code (O2, AIR, N2O, N2O_O2_50, …); O2 when left out', examples: ['O2', 'O2', 'AIR'] },
-    { key: 'volume', label: 'Volume', required: true, aliases: ['used', 'usage', 'quantity', 'volume_l', 'litres', 'm3'], description: 'Free gas used that day at the site’s reference conditions', examples: ['12500', '13100', '2100'] },
+    {
+      key: 'date',
+      label: 'Date',
+      required: true,
+      aliases: ['day', 'usage_date', 'period', 'time'],
+      description: 'The local day the usage belongs to, 2026-11-30',
+      examples: ['2026-11-30', '2026-12-01', '2026-12-01'],
+    },
+    {
+      key: 'ward',
+      label: 'Ward',
+      required: true,
+      aliases: ['ward_name', 'department', 'area', 'ward_id'],
+      description: 'The ward’s name or number in Plenum',
+      examples: ['Ward name', 'Ward name', 'Ward name'],
+    },
+    {
+      key: 'gas',
+      label: 'Gas',
+      required: false,
+      aliases: ['gas_code', 'product'],
+      description: 'Gas code (O2, AIR, N2O, N2O_O2_50, …); O2 when left out',
+      examples: ['O2', 'O2', 'AIR'],
+    },
+    {
+      key: 'volume',
+      label: 'Volume',
+      required: true,
+      aliases: ['used', 'usage', 'quantity', 'volume_l', 'litres', 'm3'],
+      description: 'Free gas used that day at the site’s reference conditions',
+      examples: ['12500', '13100', '2100'],
+    },
     { key: 'unit', label: 'Unit', required: false, aliases: ['units', 'uom'], description: 'L or m3 of free gas', examples: ['L', 'L', 'L'] },
     { key: 'note', label: 'Note', required: false, aliases: ['comment', 'notes'], description: 'Free text', examples: ['', '', ''] },
   ],
@@ -190,7 +300,17 @@ export interface ImportRowError {
   reason: string;
 }
 
-export const EXPORT_TABLES = ['usage_reports', 'readings', 'sources', 'wards', 'therapy_lines', 'deliveries', 'flow_meter_readings', 'usage_history', 'imports'] as const;
+export const EXPORT_TABLES = [
+  'usage_reports',
+  'readings',
+  'sources',
+  'wards',
+  'therapy_lines',
+  'deliveries',
+  'flow_meter_readings',
+  'usage_history',
+  'imports',
+] as const;
 export type ExportTable = (typeof EXPORT_TABLES)[number];
 export const exportQuerySchema = z.object({ table: z.enum(EXPORT_TABLES, { error: `table is one of ${EXPORT_TABLES.join(', ')}` }) });
 
@@ -360,7 +480,14 @@ export interface ImportJobView {
   status: ImportStatus;
   phase: 'check' | 'import' | null;
   file: { name: string; sizeBytes: number; sha256: string; lines: number } | null;
-  options: { sourceId: number | null; wardId: number | null; unit: string | null; headerUnit: string | null; dateOrder: (typeof DATE_ORDERS)[number]; separator: ',' | ';' };
+  options: {
+    sourceId: number | null;
+    wardId: number | null;
+    unit: string | null;
+    headerUnit: string | null;
+    dateOrder: (typeof DATE_ORDERS)[number];
+    separator: ',' | ';';
+  };
   mapping: Record<string, string>;
   columns: readonly ImportColumn[];
   header: string[];
@@ -371,7 +498,13 @@ export interface ImportJobView {
   progress: number;
   errorCount: number;
   errors: ImportRowError[];
-  preview: { rows: ImportPreviewRow[]; firstAt: string | null; lastAt: string | null; targets: { id: number; name: string; rows: number }[]; checkedUpToId?: number } | null;
+  preview: {
+    rows: ImportPreviewRow[];
+    firstAt: string | null;
+    lastAt: string | null;
+    targets: { id: number; name: string; rows: number }[];
+    checkedUpToId?: number;
+  } | null;
   message: string;
   cancelRequested: boolean;
   confirmDuplicate: boolean;

@@ -94,10 +94,16 @@ async function readError(res: Response): Promise<ApiError> {
   }
   const err = (body as { error?: { code?: unknown; message?: unknown; details?: unknown } } | null)?.error;
   if (err && typeof err.code === 'string' && typeof err.message === 'string') {
-    const details = Array.isArray(err.details) ? (err.details as FieldIssue[]).filter((d) => d && typeof d.path === 'string' && typeof d.message === 'string') : undefined;
+    const details = Array.isArray(err.details)
+      ? (err.details as FieldIssue[]).filter((d) => d && typeof d.path === 'string' && typeof d.message === 'string')
+      : undefined;
     return new ApiError(res.status, err.code, err.message, details);
   }
-  return new ApiError(res.status, `http_${res.status}`, res.status >= 500 ? 'The server had a problem answering. Try again in a moment.' : `The request failed (HTTP ${res.status}).`);
+  return new ApiError(
+    res.status,
+    `http_${res.status}`,
+    res.status >= 500 ? 'The server had a problem answering. Try again in a moment.' : `The request failed (HTTP ${res.status}).`,
+  );
 }
 
 async function send(method: Method, path: string, options: RequestOptions): Promise<Response> {

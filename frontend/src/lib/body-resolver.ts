@@ -6,7 +6,11 @@ import type { z } from 'zod';
  * site, a list of gauges kept as rows): `toBody` builds the body, the shared zod schema checks it, and
  * `renamePath` puts each problem back under the field the person typed into.
  */
-export function bodyResolver<F extends FieldValues, S extends z.ZodType>(schema: S, toBody: (values: F) => unknown, renamePath: (path: string) => string = (p) => p): Resolver<F, unknown, z.output<S>> {
+export function bodyResolver<F extends FieldValues, S extends z.ZodType>(
+  schema: S,
+  toBody: (values: F) => unknown,
+  renamePath: (path: string) => string = (p) => p,
+): Resolver<F, unknown, z.output<S>> {
   return async (values) => {
     const parsed = schema.safeParse(toBody(values));
     if (parsed.success) return { values: parsed.data, errors: {} };

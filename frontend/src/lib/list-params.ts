@@ -16,7 +16,11 @@ export interface ListParams {
 }
 
 /** `sortKeys`: the keys the list's server sorts by (shared schema); another `sort` in the address is dropped. */
-export function parseListParams(search: URLSearchParams, defaults: { pageSize?: number; sort?: string; dir?: 'asc' | 'desc'; sortKeys?: readonly string[] } = {}, extras: readonly string[] = []): ListParams {
+export function parseListParams(
+  search: URLSearchParams,
+  defaults: { pageSize?: number; sort?: string; dir?: 'asc' | 'desc'; sortKeys?: readonly string[] } = {},
+  extras: readonly string[] = [],
+): ListParams {
   const page = Math.max(1, Math.floor(Number(search.get('page')) || 1));
   const pageSize = Math.min(200, Math.max(5, Math.floor(Number(search.get('pageSize')) || defaults.pageSize || 25)));
   const dirRaw = search.get('dir');

@@ -31,7 +31,9 @@ export function formatHours(hours: readonly number[] | null | undefined): string
 export function formatWeekdays(days: readonly number[] | null | undefined): string {
   if (!days || days.length === 0 || new Set(days).size >= 7) return 'every day';
   return runs(days)
-    .map(([a, b]) => (a === b ? WEEKDAY_SHORT[a - 1] : b === a + 1 ? `${WEEKDAY_SHORT[a - 1]}, ${WEEKDAY_SHORT[b - 1]}` : `${WEEKDAY_SHORT[a - 1]}–${WEEKDAY_SHORT[b - 1]}`))
+    .map(([a, b]) =>
+      a === b ? WEEKDAY_SHORT[a - 1] : b === a + 1 ? `${WEEKDAY_SHORT[a - 1]}, ${WEEKDAY_SHORT[b - 1]}` : `${WEEKDAY_SHORT[a - 1]}–${WEEKDAY_SHORT[b - 1]}`,
+    )
     .join(', ');
 }
 

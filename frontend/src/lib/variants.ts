@@ -9,9 +9,5 @@ export type VariantProps<C extends VariantConfig> = { [K in keyof C]?: keyof C[K
  */
 export function variants<C extends VariantConfig>(base: string, config: C, defaults: { [K in keyof C]: keyof C[K] }) {
   return (props: VariantProps<C> & { className?: string } = {}): string =>
-    cn(
-      base,
-      ...Object.keys(config).map((key) => config[key][String(props[key as keyof C] ?? defaults[key as keyof C])]),
-      props.className,
-    );
+    cn(base, ...Object.keys(config).map((key) => config[key][String(props[key as keyof C] ?? defaults[key as keyof C])]), props.className);
 }

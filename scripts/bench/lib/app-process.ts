@@ -32,7 +32,18 @@ export async function startAppProcess(extraEnv: Record<string, string> = {}): Pr
   const port = await freePort();
   const proc = spawn(process.execPath, ['--import', 'tsx', 'backend/src/main.ts'], {
     cwd: root,
-    env: { ...process.env, NODE_ENV: 'test', HOST: '127.0.0.1', PORT: String(port), SERVE_FRONTEND: 'false', LOG_LEVEL: 'error', LOGIN_RATE_LIMIT_PER_15_MIN: '100000', JOBS_ENABLED: 'false', ...dbEnv, ...extraEnv },
+    env: {
+      ...process.env,
+      NODE_ENV: 'test',
+      HOST: '127.0.0.1',
+      PORT: String(port),
+      SERVE_FRONTEND: 'false',
+      LOG_LEVEL: 'error',
+      LOGIN_RATE_LIMIT_PER_15_MIN: '100000',
+      JOBS_ENABLED: 'false',
+      ...dbEnv,
+      ...extraEnv,
+    },
     stdio: ['ignore', 'pipe', 'pipe'],
   });
   let out = '';
@@ -69,8 +80,18 @@ export async function startAppProcess(extraEnv: Record<string, string> = {}): Pr
 
 /** Signs in; returns the cookie and the session's CSRF token. */
 export async function signInSession(baseUrl: string, email: string, password = 'demo-plenum'): Promise<{ cookie: string; csrf: string }> {
-  const res = await fetch(`${baseUrl}/api/auth/login`, { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify({ email, password }) });
+  const res = await fetch(`${baseUrl}/api/auth/login`, {
+    method: 'POST',
+    headers: { 'content-type': 'application/json' },
+    body: JSON.stringify({ email, password }),
+  });
   if (res.status !== 200) throw new Error(`sign-in failed: ${res.status} ${await res.text()}`);
   const body = (await res.json()) as { csrfToken: string };
-  return { cookie: res.headers.getSetCookie().map((c) => c.split(';')[0]).join('; '), csrf: body.csrfToken };
+  return {
+    cookie: res.headers
+      .getSetCookie()
+      .map((c) => c.split(';')[0])
+      .join('; '),
+    csrf: body.csrfToken,
+  };
 }

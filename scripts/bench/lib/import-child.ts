@@ -6,9 +6,30 @@
 import 'reflect-metadata';
 import path from 'node:path';
 
-const a = JSON.parse(process.env.PLENUM_BENCH_IMPORT ?? '{}') as { port: number; file: string; rows: number; siteId: number; sourceId: number; userId: number; organisationId: number; uploadDir: string };
+const a = JSON.parse(process.env.PLENUM_BENCH_IMPORT ?? '{}') as {
+  port: number;
+  file: string;
+  rows: number;
+  siteId: number;
+  sourceId: number;
+  userId: number;
+  organisationId: number;
+  uploadDir: string;
+};
 const { parseEnv, setEnv } = await import('../../../backend/src/config/env');
-setEnv(parseEnv({ ...process.env, NODE_ENV: 'test', DB_PORT: String(a.port), DB_NAME: 'plenum_bench', DB_USER: 'plenum_bench', DB_PASSWORD: 'plenum-bench', LOG_LEVEL: 'error', UPLOAD_MAX_MB: '500', UPLOAD_DIR: a.uploadDir }));
+setEnv(
+  parseEnv({
+    ...process.env,
+    NODE_ENV: 'test',
+    DB_PORT: String(a.port),
+    DB_NAME: 'plenum_bench',
+    DB_USER: 'plenum_bench',
+    DB_PASSWORD: 'plenum-bench',
+    LOG_LEVEL: 'error',
+    UPLOAD_MAX_MB: '500',
+    UPLOAD_DIR: a.uploadDir,
+  }),
+);
 const { logger } = await import('../../../backend/src/logger');
 logger.setLevel('error');
 const { createDataSource } = await import('../../../backend/src/db/data-source');
@@ -20,10 +41,25 @@ const { processNextJob } = await import('../../../backend/src/modules/imports/im
 const ds = createDataSource({ poolSize: 4 });
 await ds.initialize();
 setDb(ds);
-const actor = { user: { id: a.userId, organisationId: a.organisationId, email: 'bench@bench.example', name: 'Bench', roles: ['facilities_manager' as const], siteIds: [a.siteId] }, requestId: 'bench' };
+const actor = {
+  user: {
+    id: a.userId,
+    organisationId: a.organisationId,
+    email: 'bench@bench.example',
+    name: 'Bench',
+    roles: ['facilities_manager' as const],
+    siteIds: [a.siteId],
+  },
+  requestId: 'bench',
+};
 const rssAtStart = process.memoryUsage().rss;
 const t0 = performance.now();
-const job = await createImport(actor, a.siteId, { path: a.file, originalname: path.basename(a.file) }, { kind: 'tank_readings', sourceId: a.sourceId, dateOrder: 'ymd', confirmDuplicate: false });
+const job = await createImport(
+  actor,
+  a.siteId,
+  { path: a.file, originalname: path.basename(a.file) },
+  { kind: 'tank_readings', sourceId: a.sourceId, dateOrder: 'ymd', confirmDuplicate: false },
+);
 if (job.status !== 'validating') throw new Error(`upload not accepted: ${job.status} ${job.message}`);
 await processNextJob('bench');
 const t1 = performance.now();
@@ -37,6 +73,14 @@ const cpu = process.cpuUsage(cpu0);
 const t3 = performance.now();
 const done = await ds.getRepository(ImportJob).findOneByOrFail({ id: job.id });
 if (done.status !== 'done' || done.insertedRows !== a.rows) throw new Error(`import failed: ${done.status} ${done.message}`);
-console.log(JSON.stringify({ checkS: (t1 - t0) / 1000, importS: (t3 - t2) / 1000, maxRssMb: process.resourceUsage().maxRSS / 1024, importCpuS: (cpu.user + cpu.system) / 1e6, rssAtStartMb: rssAtStart / 1024 / 1024 }));
+console.log(
+  JSON.stringify({
+    checkS: (t1 - t0) / 1000,
+    importS: (t3 - t2) / 1000,
+    maxRssMb: process.resourceUsage().maxRSS / 1024,
+    importCpuS: (cpu.user + cpu.system) / 1e6,
+    rssAtStartMb: rssAtStart / 1024 / 1024,
+  }),
+);
 await closeBulkPool();
 await ds.destroy();

@@ -66,7 +66,20 @@ export async function startPrivateMariaDb(): Promise<PrivateDb> {
 export async function startPrivateApp(): Promise<{ baseUrl: string; stop: () => Promise<void> }> {
   const db = await startPrivateMariaDb();
   const { parseEnv, setEnv } = await import('../../../backend/src/config/env');
-  setEnv(parseEnv({ ...process.env, NODE_ENV: 'test', DB_PORT: String(db.port), DB_NAME: 'plenum_bench', DB_USER: 'plenum_bench', DB_PASSWORD: 'plenum-bench', SERVE_FRONTEND: 'false', LOG_LEVEL: 'error', LOGIN_RATE_LIMIT_PER_15_MIN: '100000', DB_POOL_SIZE: '10' }));
+  setEnv(
+    parseEnv({
+      ...process.env,
+      NODE_ENV: 'test',
+      DB_PORT: String(db.port),
+      DB_NAME: 'plenum_bench',
+      DB_USER: 'plenum_bench',
+      DB_PASSWORD: 'plenum-bench',
+      SERVE_FRONTEND: 'false',
+      LOG_LEVEL: 'error',
+      LOGIN_RATE_LIMIT_PER_15_MIN: '100000',
+      DB_POOL_SIZE: '10',
+    }),
+  );
   const { logger } = await import('../../../backend/src/logger');
   logger.setLevel('error');
   const { createDataSource } = await import('../../../backend/src/db/data-source');
@@ -97,9 +110,16 @@ export async function startPrivateApp(): Promise<{ baseUrl: string; stop: () => 
 
 /** Signs in and returns the cookie header for later requests. */
 export async function signIn(baseUrl: string, email: string, password = 'demo-plenum'): Promise<string> {
-  const res = await fetch(`${baseUrl}/api/auth/login`, { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify({ email, password }) });
+  const res = await fetch(`${baseUrl}/api/auth/login`, {
+    method: 'POST',
+    headers: { 'content-type': 'application/json' },
+    body: JSON.stringify({ email, password }),
+  });
   if (res.status !== 200) throw new Error(`sign-in failed: ${res.status}`);
-  return res.headers.getSetCookie().map((c) => c.split(';')[0]).join('; ');
+  return res.headers
+    .getSetCookie()
+    .map((c) => c.split(';')[0])
+    .join('; ');
 }
 
 export function percentile(sorted: number[], p: number): number {

@@ -194,7 +194,22 @@ export class Foundation1764650000000 implements MigrationInterface {
   }
 
   async down(q: QueryRunner): Promise<void> {
-    for (const t of ['sessions', 'rate_limit_hit', 'mail_attachment', 'mail_message', 'audit_log', 'supplier_price', 'supplier', 'cylinder_type', 'gas', 'user_site', 'user_role', 'app_user', 'site', 'organisation']) {
+    for (const t of [
+      'sessions',
+      'rate_limit_hit',
+      'mail_attachment',
+      'mail_message',
+      'audit_log',
+      'supplier_price',
+      'supplier',
+      'cylinder_type',
+      'gas',
+      'user_site',
+      'user_role',
+      'app_user',
+      'site',
+      'organisation',
+    ]) {
       await q.query(`DROP TABLE IF EXISTS ${t}`);
     }
   }

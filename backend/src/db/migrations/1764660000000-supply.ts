@@ -132,6 +132,7 @@ export class Supply1764660000000 implements MigrationInterface {
   }
 
   async down(q: QueryRunner): Promise<void> {
-    for (const t of ['scheduled_delivery', 'scenario', 'device_flow', 'therapy_line', 'ward_feed', 'source_reading', 'supply_source', 'ward']) await q.query(`DROP TABLE IF EXISTS ${t}`);
+    for (const t of ['scheduled_delivery', 'scenario', 'device_flow', 'therapy_line', 'ward_feed', 'source_reading', 'supply_source', 'ward'])
+      await q.query(`DROP TABLE IF EXISTS ${t}`);
   }
 }

@@ -205,7 +205,20 @@ export class Orders1764680000000 implements MigrationInterface {
   }
 
   async down(q: QueryRunner): Promise<void> {
-    for (const t of ['alert_event', 'alert_state', 'site_subscription', 'user_approval_limit', 'idempotency_key', 'mail_outbox', 'delivery_record', 'purchase_order', 'po_sequence', 'request_approval', 'reorder_request_event', 'reorder_request']) {
+    for (const t of [
+      'alert_event',
+      'alert_state',
+      'site_subscription',
+      'user_approval_limit',
+      'idempotency_key',
+      'mail_outbox',
+      'delivery_record',
+      'purchase_order',
+      'po_sequence',
+      'request_approval',
+      'reorder_request_event',
+      'reorder_request',
+    ]) {
       await q.query(`DROP TABLE IF EXISTS ${t}`);
     }
   }

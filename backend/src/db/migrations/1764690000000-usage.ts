@@ -131,6 +131,7 @@ export class Usage1764690000000 implements MigrationInterface {
   }
 
   async down(q: QueryRunner): Promise<void> {
-    for (const t of ['usage_history', 'flow_meter_reading', 'import_job', 'import_file', 'usage_reminder', 'usage_report_line', 'usage_report']) await q.query(`DROP TABLE IF EXISTS ${t}`);
+    for (const t of ['usage_history', 'flow_meter_reading', 'import_job', 'import_file', 'usage_reminder', 'usage_report_line', 'usage_report'])
+      await q.query(`DROP TABLE IF EXISTS ${t}`);
   }
 }

@@ -8,7 +8,9 @@ export class RequestAmendedBy1765000002050 implements MigrationInterface {
   name = 'RequestAmendedBy1765000002050';
 
   async up(q: QueryRunner): Promise<void> {
-    await q.query('ALTER TABLE reorder_request ADD COLUMN amended_by_user_id INT NULL AFTER requested_by_user_id, ADD CONSTRAINT fk_request_amended_by FOREIGN KEY (amended_by_user_id) REFERENCES app_user(id)');
+    await q.query(
+      'ALTER TABLE reorder_request ADD COLUMN amended_by_user_id INT NULL AFTER requested_by_user_id, ADD CONSTRAINT fk_request_amended_by FOREIGN KEY (amended_by_user_id) REFERENCES app_user(id)',
+    );
   }
 
   async down(q: QueryRunner): Promise<void> {

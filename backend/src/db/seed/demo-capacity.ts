@@ -27,7 +27,14 @@ const VIE = 'Main VIE — liquid oxygen';
 
 /** Pipeline zones of the demo hospital: invented, sized like a district general hospital. */
 const HOSPITAL_ZONES: DemoZone[] = [
-  { name: 'Heron Ward oxygen', gasCode: 'O2', department: 'ward', terminalUnits: 30, source: VIE, runs: [{ name: 'Riser B to Heron zone valve', tube: '28x0.9', lengthM: 60 }] },
+  {
+    name: 'Heron Ward oxygen',
+    gasCode: 'O2',
+    department: 'ward',
+    terminalUnits: 30,
+    source: VIE,
+    runs: [{ name: 'Riser B to Heron zone valve', tube: '28x0.9', lengthM: 60 }],
+  },
   {
     name: 'Kestrel Ward oxygen',
     gasCode: 'O2',
@@ -37,15 +44,50 @@ const HOSPITAL_ZONES: DemoZone[] = [
     notes: 'Respiratory ward: high-flow patients go here first.',
     runs: [{ name: 'Kestrel branch (15 mm, original 1970s run)', tube: '15x0.7', lengthM: 150 }],
   },
-  { name: 'Linnet Ward oxygen', gasCode: 'O2', department: 'ward', terminalUnits: 28, source: VIE, runs: [{ name: 'Riser B to Linnet zone valve', tube: '22x0.9', lengthM: 140 }] },
+  {
+    name: 'Linnet Ward oxygen',
+    gasCode: 'O2',
+    department: 'ward',
+    terminalUnits: 28,
+    source: VIE,
+    runs: [{ name: 'Riser B to Linnet zone valve', tube: '22x0.9', lengthM: 140 }],
+  },
   { name: 'Merlin Ward oxygen', gasCode: 'O2', department: 'ward', terminalUnits: 30, source: VIE },
   { name: 'Osprey Ward oxygen', gasCode: 'O2', department: 'ward', terminalUnits: 28, source: VIE },
   { name: 'Plover Ward oxygen', gasCode: 'O2', department: 'ward', terminalUnits: 24, source: VIE },
   { name: 'Wren Ward oxygen', gasCode: 'O2', department: 'ward', terminalUnits: 20, source: VIE },
-  { name: 'Critical care oxygen', gasCode: 'O2', department: 'critical_care', terminalUnits: 12, source: VIE, runs: [{ name: 'Plant room to critical care', tube: '35x1.2', lengthM: 80 }] },
-  { name: 'Emergency resuscitation oxygen', gasCode: 'O2', department: 'emergency_resuscitation', terminalUnits: 4, source: VIE, runs: [{ name: 'Riser A to resuscitation room', tube: '28x0.9', lengthM: 45 }] },
-  { name: 'Theatres 1–6 oxygen', gasCode: 'O2', department: 'theatre', terminalUnits: 6, source: VIE, runs: [{ name: 'Theatre main', tube: '42x1.2', lengthM: 90 }] },
-  { name: 'Recovery oxygen', gasCode: 'O2', department: 'recovery', terminalUnits: 12, source: VIE, runs: [{ name: 'Theatre main to recovery', tube: '22x0.9', lengthM: 40 }] },
+  {
+    name: 'Critical care oxygen',
+    gasCode: 'O2',
+    department: 'critical_care',
+    terminalUnits: 12,
+    source: VIE,
+    runs: [{ name: 'Plant room to critical care', tube: '35x1.2', lengthM: 80 }],
+  },
+  {
+    name: 'Emergency resuscitation oxygen',
+    gasCode: 'O2',
+    department: 'emergency_resuscitation',
+    terminalUnits: 4,
+    source: VIE,
+    runs: [{ name: 'Riser A to resuscitation room', tube: '28x0.9', lengthM: 45 }],
+  },
+  {
+    name: 'Theatres 1–6 oxygen',
+    gasCode: 'O2',
+    department: 'theatre',
+    terminalUnits: 6,
+    source: VIE,
+    runs: [{ name: 'Theatre main', tube: '42x1.2', lengthM: 90 }],
+  },
+  {
+    name: 'Recovery oxygen',
+    gasCode: 'O2',
+    department: 'recovery',
+    terminalUnits: 12,
+    source: VIE,
+    runs: [{ name: 'Theatre main to recovery', tube: '22x0.9', lengthM: 40 }],
+  },
   {
     name: 'Maternity delivery rooms oxygen',
     gasCode: 'O2',
@@ -61,7 +103,14 @@ const HOSPITAL_ZONES: DemoZone[] = [
 ];
 
 const CLINIC_ZONES: DemoZone[] = [
-  { name: 'Day ward oxygen', gasCode: 'O2', department: 'ward', terminalUnits: 16, source: 'Clinic oxygen manifold', runs: [{ name: 'Manifold room to day ward', tube: '22x0.9', lengthM: 35 }] },
+  {
+    name: 'Day ward oxygen',
+    gasCode: 'O2',
+    department: 'ward',
+    terminalUnits: 16,
+    source: 'Clinic oxygen manifold',
+    runs: [{ name: 'Manifold room to day ward', tube: '22x0.9', lengthM: 35 }],
+  },
   {
     name: 'Procedure rooms oxygen',
     gasCode: 'O2',
@@ -78,9 +127,11 @@ const CLINIC_ZONES: DemoZone[] = [
  * not yet used by a zone) for the demo hospital and clinic. Call after the supply seed: zones find their sources by name.
  */
 export async function seedCapacity(m: EntityManager, ids: FoundationIds): Promise<void> {
-  const rules = await m.getRepository(RuleSet).save(
-    m.getRepository(RuleSet).create({ organisationId: ids.organisationId, name: 'Alderhythe rules (copy of HTM 02-01)', basedOn: 'default', json: '{}' }),
-  );
+  const rules = await m
+    .getRepository(RuleSet)
+    .save(
+      m.getRepository(RuleSet).create({ organisationId: ids.organisationId, name: 'Alderhythe rules (copy of HTM 02-01)', basedOn: 'default', json: '{}' }),
+    );
   const json = { ...copyRuleSet('default', `org-${rules.id}`), name: rules.name };
   await m.getRepository(RuleSet).update({ id: rules.id }, { json: JSON.stringify(json) });
 
@@ -109,7 +160,17 @@ export async function seedCapacity(m: EntityManager, ids: FoundationIds): Promis
         }),
       );
       for (const [i, r] of (z.runs ?? []).entries()) {
-        await m.getRepository(PipeRun).insert({ zoneId: zone.id, name: r.name, tube: r.tube, lengthM: r.lengthM, fittingsAllowancePercent: 20, linePressureKPa: 400, allowedDropKPa: null, gasTemperatureC: null, sortOrder: i });
+        await m.getRepository(PipeRun).insert({
+          zoneId: zone.id,
+          name: r.name,
+          tube: r.tube,
+          lengthM: r.lengthM,
+          fittingsAllowancePercent: 20,
+          linePressureKPa: 400,
+          allowedDropKPa: null,
+          gasTemperatureC: null,
+          sortOrder: i,
+        });
       }
     }
   }

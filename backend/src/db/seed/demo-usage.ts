@@ -74,13 +74,40 @@ export async function seedUsage(m: EntityManager, ids: FoundationIds, now = new 
       for (const [device, modelled] of byDevice) {
         const count = Math.max(0, Math.round(modelled * bias * (0.85 + random() * 0.3)));
         const shift = count + (random() < 0.5 ? 1 : 0) + (modelled >= 4 ? Math.round(random() * 2) : 0);
-        rows.push({ reportId: report.id, lineKind: 'device', device: device as OxygenDevice, patientsNow: count, patientsShift: shift, cylinderTypeId: null, cylindersUsed: null, cylindersReturned: null });
+        rows.push({
+          reportId: report.id,
+          lineKind: 'device',
+          device: device as OxygenDevice,
+          patientsNow: count,
+          patientsShift: shift,
+          cylinderTypeId: null,
+          cylindersUsed: null,
+          cylindersReturned: null,
+        });
       }
       const used = Math.floor(random() * 4);
-      rows.push({ reportId: report.id, lineKind: 'cylinder', device: null, patientsNow: null, patientsShift: null, cylinderTypeId: portable, cylindersUsed: used, cylindersReturned: Math.max(0, used - (random() < 0.3 ? 1 : 0)) });
+      rows.push({
+        reportId: report.id,
+        lineKind: 'cylinder',
+        device: null,
+        patientsNow: null,
+        patientsShift: null,
+        cylinderTypeId: portable,
+        cylindersUsed: used,
+        cylindersReturned: Math.max(0, used - (random() < 0.3 ? 1 : 0)),
+      });
       if (w.department === 'critical_care' || w.department === 'emergency') {
         const big = random() < 0.5 ? 1 : 0;
-        rows.push({ reportId: report.id, lineKind: 'cylinder', device: null, patientsNow: null, patientsShift: null, cylinderTypeId: wardSize, cylindersUsed: big, cylindersReturned: big });
+        rows.push({
+          reportId: report.id,
+          lineKind: 'cylinder',
+          device: null,
+          patientsNow: null,
+          patientsShift: null,
+          cylinderTypeId: wardSize,
+          cylindersUsed: big,
+          cylindersReturned: big,
+        });
       }
       await m.getRepository(UsageReportLine).insert(rows);
     }
@@ -90,11 +117,25 @@ export async function seedUsage(m: EntityManager, ids: FoundationIds, now = new 
   // gas, about 3 % below its model (the ventilators' bias flow is lower than the default).
   const icu = wards.find((w) => w.department === 'critical_care');
   if (icu) {
-    const perDayL = therapy.filter((t) => t.wardId === icu.id && t.gasCode === 'O2').reduce((s, t) => s + t.patients * (t.flowLMin ?? DEVICE_DEFAULTS[t.device as OxygenDevice]?.flowLMin ?? 0), 0) * 1440 * (1 + icu.leakagePercent / 100) * 0.97;
+    const perDayL =
+      therapy
+        .filter((t) => t.wardId === icu.id && t.gasCode === 'O2')
+        .reduce((s, t) => s + t.patients * (t.flowLMin ?? DEVICE_DEFAULTS[t.device as OxygenDevice]?.flowLMin ?? 0), 0) *
+      1440 *
+      (1 + icu.leakagePercent / 100) *
+      0.97;
     let total = 4_812_000;
     const rows: Partial<FlowMeterReading>[] = [];
     for (let back = 21; back >= 0; back--) {
-      rows.push({ siteId: ids.hospitalId, wardId: icu.id, sourceId: null, takenAt: today.minus({ days: back }).plus({ hours: 7, minutes: 30 }).toJSDate(), totalL: Math.round(total), note: '', importJobId: null });
+      rows.push({
+        siteId: ids.hospitalId,
+        wardId: icu.id,
+        sourceId: null,
+        takenAt: today.minus({ days: back }).plus({ hours: 7, minutes: 30 }).toJSDate(),
+        totalL: Math.round(total),
+        note: '',
+        importJobId: null,
+      });
       total += perDayL * (0.9 + random() * 0.2);
     }
     await m.getRepository(FlowMeterReading).insert(rows);

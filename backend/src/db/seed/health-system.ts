@@ -60,11 +60,52 @@ function rng(seed: number) {
 }
 
 const WARD_KINDS: { name: string; department: string; beds: number; lines: { device: OxygenDevice; patients: number }[] }[] = [
-  { name: 'medical ward', department: 'ward', beds: 28, lines: [{ device: 'nasal_cannula', patients: 6 }, { device: 'simple_mask', patients: 2 }] },
-  { name: 'respiratory ward', department: 'ward', beds: 26, lines: [{ device: 'nasal_cannula', patients: 8 }, { device: 'venturi_35', patients: 3 }, { device: 'hfno', patients: 1 }] },
-  { name: 'surgical ward', department: 'ward', beds: 28, lines: [{ device: 'nasal_cannula', patients: 4 }, { device: 'simple_mask', patients: 1 }] },
-  { name: 'critical care', department: 'critical_care', beds: 12, lines: [{ device: 'ventilator', patients: 7 }, { device: 'hfno', patients: 2 }] },
-  { name: 'emergency unit', department: 'emergency', beds: 24, lines: [{ device: 'simple_mask', patients: 3 }, { device: 'non_rebreather', patients: 1 }] },
+  {
+    name: 'medical ward',
+    department: 'ward',
+    beds: 28,
+    lines: [
+      { device: 'nasal_cannula', patients: 6 },
+      { device: 'simple_mask', patients: 2 },
+    ],
+  },
+  {
+    name: 'respiratory ward',
+    department: 'ward',
+    beds: 26,
+    lines: [
+      { device: 'nasal_cannula', patients: 8 },
+      { device: 'venturi_35', patients: 3 },
+      { device: 'hfno', patients: 1 },
+    ],
+  },
+  {
+    name: 'surgical ward',
+    department: 'ward',
+    beds: 28,
+    lines: [
+      { device: 'nasal_cannula', patients: 4 },
+      { device: 'simple_mask', patients: 1 },
+    ],
+  },
+  {
+    name: 'critical care',
+    department: 'critical_care',
+    beds: 12,
+    lines: [
+      { device: 'ventilator', patients: 7 },
+      { device: 'hfno', patients: 2 },
+    ],
+  },
+  {
+    name: 'emergency unit',
+    department: 'emergency',
+    beds: 24,
+    lines: [
+      { device: 'simple_mask', patients: 3 },
+      { device: 'non_rebreather', patients: 1 },
+    ],
+  },
 ];
 
 export interface ScaleOptions {
@@ -124,7 +165,8 @@ export async function seedHealthSystem(ds: DataSource, opts: ScaleOptions): Prom
     const kgPerL = 1 / freeGasLitresPerKg('O2', '15C');
     const hours = opts.telemetryDays * 24;
     const endMs = DateTime.fromJSDate(now).startOf('hour').toMillis();
-    const readingSql = 'INSERT INTO source_reading (source_id, taken_at, kind, value, detail_json, contents, method, taken_by_user_id, note) VALUES (?, ?, ?, ?, NULL, ?, ?, NULL, ?)';
+    const readingSql =
+      'INSERT INTO source_reading (source_id, taken_at, kind, value, detail_json, contents, method, taken_by_user_id, note) VALUES (?, ?, ?, ?, NULL, ?, ?, NULL, ?)';
     for (const tank of built.tanks) {
       const out: unknown[][] = [];
       let kg = tank.capacityKg * (0.5 + random() * 0.2);
@@ -145,8 +187,22 @@ export async function seedHealthSystem(ds: DataSource, opts: ScaleOptions): Prom
     log(`telemetry: ${rows.source_reading} readings of ${built.tanks.length} tanks`);
 
     // The latest round's reading of every cylinder source (one each).
-    const cyl: unknown[][] = built.cylinderSources.map((s) => [s.id, utc(new Date(now.getTime() - (2 + Math.floor(random() * 40)) * 3_600_000)), 'store_count', null, JSON.stringify({ full: s.full, inUseGaugeBar: [], empty: 0 }), s.full * s.perCylinderL, 'manual', built.facilitiesId, 'Round (scale data)']);
-    await batchInsert(conn, 'INSERT INTO source_reading (source_id, taken_at, kind, value, detail_json, contents, method, taken_by_user_id, note) VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?)', cyl);
+    const cyl: unknown[][] = built.cylinderSources.map((s) => [
+      s.id,
+      utc(new Date(now.getTime() - (2 + Math.floor(random() * 40)) * 3_600_000)),
+      'store_count',
+      null,
+      JSON.stringify({ full: s.full, inUseGaugeBar: [], empty: 0 }),
+      s.full * s.perCylinderL,
+      'manual',
+      built.facilitiesId,
+      'Round (scale data)',
+    ]);
+    await batchInsert(
+      conn,
+      'INSERT INTO source_reading (source_id, taken_at, kind, value, detail_json, contents, method, taken_by_user_id, note) VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?)',
+      cyl,
+    );
     count('source_reading', cyl.length);
 
     // 3. Usage reports: the last REPORT_DAYS days for every ward, with a line per device near the model.
@@ -154,12 +210,27 @@ export async function seedHealthSystem(ds: DataSource, opts: ScaleOptions): Prom
     const reports: unknown[][] = [];
     for (let back = REPORT_DAYS; back >= 1; back--) {
       const day = today.minus({ days: back });
-      for (const w of built.wards) reports.push([w.siteId, w.id, day.toISODate(), '', built.facilitiesId, utc(day.plus({ hours: 18, minutes: Math.floor(random() * 180) }).toJSDate()), built.facilitiesId]);
+      for (const w of built.wards)
+        reports.push([
+          w.siteId,
+          w.id,
+          day.toISODate(),
+          '',
+          built.facilitiesId,
+          utc(day.plus({ hours: 18, minutes: Math.floor(random() * 180) }).toJSDate()),
+          built.facilitiesId,
+        ]);
     }
-    await batchInsert(conn, 'INSERT INTO usage_report (site_id, ward_id, report_date, note, submitted_by_user_id, submitted_at, updated_by_user_id) VALUES (?, ?, ?, ?, ?, ?, ?)', reports);
+    await batchInsert(
+      conn,
+      'INSERT INTO usage_report (site_id, ward_id, report_date, note, submitted_by_user_id, submitted_at, updated_by_user_id) VALUES (?, ?, ?, ?, ?, ?, ?)',
+      reports,
+    );
     count('usage_report', reports.length);
     // Ids are read back (not inferred from the first insert id: a cluster's auto-increment steps by its size).
-    const ids = (await conn.query('SELECT r.id, r.ward_id FROM usage_report r JOIN site s ON s.id = r.site_id WHERE s.organisation_id = ?', [built.organisationId])) as { id: number; ward_id: number }[];
+    const ids = (await conn.query('SELECT r.id, r.ward_id FROM usage_report r JOIN site s ON s.id = r.site_id WHERE s.organisation_id = ?', [
+      built.organisationId,
+    ])) as { id: number; ward_id: number }[];
     const linesByWard = new Map(built.wards.map((w) => [w.id, w.lines]));
     const lines: unknown[][] = [];
     for (const r of ids) {
@@ -186,18 +257,75 @@ export async function seedHealthSystem(ds: DataSource, opts: ScaleOptions): Prom
         const kg = Math.round(tank.capacityKg * 0.5);
         const unitPriceMinor = 21;
         const r = await m.getRepository(ReorderRequest).save(
-          m.getRepository(ReorderRequest).create({ organisationId: built.organisationId, siteId: site.id, sourceId: tank.id, supplierId: built.bulkSupplierId, origin: 'auto', status: 'delivered', unit: 'kg', gasCode: 'O2', cylinderTypeId: null, suggestedQuantity: kg, quantity: kg, quantityReason: '', unitPriceMinor, totalMinor: kg * unitPriceMinor, currency: 'GBP', neededBy: new Date(at.getTime() + 2 * 86_400_000), triggerJson: null, problem: '', note: '', requestedByUserId: null, version: 1, createdAt: at }),
+          m.getRepository(ReorderRequest).create({
+            organisationId: built.organisationId,
+            siteId: site.id,
+            sourceId: tank.id,
+            supplierId: built.bulkSupplierId,
+            origin: 'auto',
+            status: 'delivered',
+            unit: 'kg',
+            gasCode: 'O2',
+            cylinderTypeId: null,
+            suggestedQuantity: kg,
+            quantity: kg,
+            quantityReason: '',
+            unitPriceMinor,
+            totalMinor: kg * unitPriceMinor,
+            currency: 'GBP',
+            neededBy: new Date(at.getTime() + 2 * 86_400_000),
+            triggerJson: null,
+            problem: '',
+            note: '',
+            requestedByUserId: null,
+            version: 1,
+            createdAt: at,
+          }),
         );
         const windowStart = new Date(at.getTime() + 48 * 3_600_000);
         const poNumber = `PO-${String(seq).padStart(6, '0')}`;
         const po = await m.getRepository(PurchaseOrder).save(
           m.getRepository(PurchaseOrder).create({
-            organisationId: built.organisationId, requestId: r.id, seq, poNumber, siteId: site.id, sourceId: tank.id, supplierId: built.bulkSupplierId, status: 'delivered', description: 'Liquid oxygen, bulk delivery', unit: 'kg', quantity: kg,
-            unitPriceMinor, totalMinor: kg * unitPriceMinor, currency: 'GBP', windowStart, windowEnd: new Date(windowStart.getTime() + 86_400_000), deliveryAddress: [site.name, site.address].join('\n'), contactName: 'Corvin Maelstead', contactEmail: 'hs-facilities@plenum.example',
-            approvedByJson: JSON.stringify([]), scheduledDeliveryId: null, deliveredQuantity: kg, sentAt: at, pdf: null, createdAt: at,
+            organisationId: built.organisationId,
+            requestId: r.id,
+            seq,
+            poNumber,
+            siteId: site.id,
+            sourceId: tank.id,
+            supplierId: built.bulkSupplierId,
+            status: 'delivered',
+            description: 'Liquid oxygen, bulk delivery',
+            unit: 'kg',
+            quantity: kg,
+            unitPriceMinor,
+            totalMinor: kg * unitPriceMinor,
+            currency: 'GBP',
+            windowStart,
+            windowEnd: new Date(windowStart.getTime() + 86_400_000),
+            deliveryAddress: [site.name, site.address].join('\n'),
+            contactName: 'Corvin Maelstead',
+            contactEmail: 'hs-facilities@plenum.example',
+            approvedByJson: JSON.stringify([]),
+            scheduledDeliveryId: null,
+            deliveredQuantity: kg,
+            sentAt: at,
+            pdf: null,
+            createdAt: at,
           }),
         );
-        await m.getRepository(DeliveryRecord).insert({ purchaseOrderId: po.id, siteId: site.id, sourceId: tank.id, deliveryNote: `DN-${90_000 + seq}`, deliveredAt: windowStart, quantity: kg, unit: 'kg', emptiesCollected: 0, readingId: null, note: '', recordedByUserId: built.facilitiesId });
+        await m.getRepository(DeliveryRecord).insert({
+          purchaseOrderId: po.id,
+          siteId: site.id,
+          sourceId: tank.id,
+          deliveryNote: `DN-${90_000 + seq}`,
+          deliveredAt: windowStart,
+          quantity: kg,
+          unit: 'kg',
+          emptiesCollected: 0,
+          readingId: null,
+          note: '',
+          recordedByUserId: built.facilitiesId,
+        });
       }
     });
     count('reorder_request', ORDERS_PER_TANK);
@@ -215,12 +343,38 @@ async function buildStructure(m: EntityManager, now: Date, random: () => number,
 
   const cylinderTypes: Record<string, number> = {};
   for (const [key, row] of Object.entries(CYLINDER_TYPES)) {
-    const saved = await m.getRepository(CylinderType).save(m.getRepository(CylinderType).create({ tareKg: null, maxFillingRatioKgPerL: null, active: true, ...row, organisationId: org.id }));
+    const saved = await m
+      .getRepository(CylinderType)
+      .save(m.getRepository(CylinderType).create({ tareKg: null, maxFillingRatioKgPerL: null, active: true, ...row, organisationId: org.id }));
     cylinderTypes[key] = saved.id;
   }
   const supRepo = m.getRepository(Supplier);
-  const cylSupplier = await supRepo.save(supRepo.create({ organisationId: org.id, name: 'Ormsgill Cylinder Logistics (invented)', orderEmail: 'orders@ormsgill.example', phone: '+44 1632 960 731', leadTimeHours: 24, rentalMinorPerCylinderDay: 9, minBulkDropKg: 0, currency: 'GBP', active: true }));
-  const bulkSupplier = await supRepo.save(supRepo.create({ organisationId: org.id, name: 'Thessaly Cryo Haulage (invented)', orderEmail: 'bulk@thessalycryo.example', phone: '+44 1632 960 732', leadTimeHours: 48, rentalMinorPerCylinderDay: 0, minBulkDropKg: 1000, currency: 'GBP', active: true }));
+  const cylSupplier = await supRepo.save(
+    supRepo.create({
+      organisationId: org.id,
+      name: 'Ormsgill Cylinder Logistics (invented)',
+      orderEmail: 'orders@ormsgill.example',
+      phone: '+44 1632 960 731',
+      leadTimeHours: 24,
+      rentalMinorPerCylinderDay: 9,
+      minBulkDropKg: 0,
+      currency: 'GBP',
+      active: true,
+    }),
+  );
+  const bulkSupplier = await supRepo.save(
+    supRepo.create({
+      organisationId: org.id,
+      name: 'Thessaly Cryo Haulage (invented)',
+      orderEmail: 'bulk@thessalycryo.example',
+      phone: '+44 1632 960 732',
+      leadTimeHours: 48,
+      rentalMinorPerCylinderDay: 0,
+      minBulkDropKg: 1000,
+      currency: 'GBP',
+      active: true,
+    }),
+  );
   await m.getRepository(SupplierPrice).insert([
     { supplierId: cylSupplier.id, cylinderTypeId: cylinderTypes['O2-10-200'], gasCode: null, unit: 'cylinder', priceMinor: 2600 },
     { supplierId: cylSupplier.id, cylinderTypeId: cylinderTypes['O2-50-200'], gasCode: null, unit: 'cylinder', priceMinor: 5200 },
@@ -237,8 +391,19 @@ async function buildStructure(m: EntityManager, now: Date, random: () => number,
     sites.push(
       await siteRepo.save(
         siteRepo.create({
-          organisationId: org.id, name: hospital ? `${place} General Hospital` : `${place} Community Clinic`, kind: hospital ? 'hospital' : 'clinic', address: `${1 + i} Harrow Row, ${place} (fictional)`,
-          timeZone: 'Europe/London', referenceCode: '15C', unitSystem: 'metric', altitudeM, atmosphericBar: Number(standardAtmosphereBar(altitudeM).toFixed(5)), currency: 'GBP', cylinderColours: 'ISO32', storeTemperatureC: 10, beds: hospital ? 400 : 24,
+          organisationId: org.id,
+          name: hospital ? `${place} General Hospital` : `${place} Community Clinic`,
+          kind: hospital ? 'hospital' : 'clinic',
+          address: `${1 + i} Harrow Row, ${place} (fictional)`,
+          timeZone: 'Europe/London',
+          referenceCode: '15C',
+          unitSystem: 'metric',
+          altitudeM,
+          atmosphericBar: Number(standardAtmosphereBar(altitudeM).toFixed(5)),
+          currency: 'GBP',
+          cylinderColours: 'ISO32',
+          storeTemperatureC: 10,
+          beds: hospital ? 400 : 24,
         }),
       ),
     );
@@ -248,7 +413,18 @@ async function buildStructure(m: EntityManager, now: Date, random: () => number,
   const hash = await hashPassword(DEMO_PASSWORD);
   let facilitiesId = 0;
   for (const u of HEALTH_SYSTEM_USERS) {
-    const saved = await m.getRepository(User).save(m.getRepository(User).create({ organisationId: org.id, email: u.email, name: u.name, passwordHash: hash, active: true, failedLogins: 0, lockedUntil: null, passwordChangedAt: now }));
+    const saved = await m.getRepository(User).save(
+      m.getRepository(User).create({
+        organisationId: org.id,
+        email: u.email,
+        name: u.name,
+        passwordHash: hash,
+        active: true,
+        failedLogins: 0,
+        lockedUntil: null,
+        passwordChangedAt: now,
+      }),
+    );
     if (u.role === 'facilities_manager') facilitiesId = saved.id;
     await m.getRepository(UserRole).insert({ userId: saved.id, role: u.role });
     await m.getRepository(UserSite).insert(sites.map((s) => ({ userId: saved.id, siteId: s.id })));
@@ -260,30 +436,99 @@ async function buildStructure(m: EntityManager, now: Date, random: () => number,
   const wards: { id: number; siteId: number; lines: { device: OxygenDevice; patients: number }[] }[] = [];
   const cylinderSources: { id: number; full: number; perCylinderL: number }[] = [];
   const o2Cyl = compressedContents({ gas: 'O2', waterCapacityL: 10, gaugeBar: 200, temperatureC: 15, reference: '15C' }).freeGasL;
-  const src = (row: Partial<SupplySource>) => m.getRepository(SupplySource).save(m.getRepository(SupplySource).create({ reorderMode: 'none', forecastBasis: 'model', modelCorrectionFactor: 1, notes: '', active: true, ...row }));
+  const src = (row: Partial<SupplySource>) =>
+    m
+      .getRepository(SupplySource)
+      .save(m.getRepository(SupplySource).create({ reorderMode: 'none', forecastBasis: 'model', modelCorrectionFactor: 1, notes: '', active: true, ...row }));
 
   for (const site of sites) {
     const hospital = site.kind === 'hospital';
     const capacityKg = hospital ? 10_000 : 1_500;
-    const vie = await src({ siteId: site.id, name: 'Bulk tank — liquid oxygen', type: 'bulk_liquid', gasCode: 'O2', supplierId: bulkSupplier.id, capacityKg, evaporationPercentPerDay: 0.4, vaporiserM3H: hospital ? 90 : 20, vaporiserDerating: 0.7, minLevelAlarmPercent: 25, reservePercent: 10, reorderMode: 'percent', reorderLevel: 35, orderUpTo: capacityKg * 0.9, leadTimeHours: 48, notes: 'Hourly telemetry (scale data).' });
-    const secondary = await src({ siteId: site.id, name: 'Oxygen secondary manifold', type: 'manifold', gasCode: 'O2', supplierId: cylSupplier.id, cylinderTypeId: cylinderTypes['O2-50-200'], cylindersPerBank: 6, regulatorLMin: 2500, changeoverGaugeBar: 10, temperatureC: 12 });
+    const vie = await src({
+      siteId: site.id,
+      name: 'Bulk tank — liquid oxygen',
+      type: 'bulk_liquid',
+      gasCode: 'O2',
+      supplierId: bulkSupplier.id,
+      capacityKg,
+      evaporationPercentPerDay: 0.4,
+      vaporiserM3H: hospital ? 90 : 20,
+      vaporiserDerating: 0.7,
+      minLevelAlarmPercent: 25,
+      reservePercent: 10,
+      reorderMode: 'percent',
+      reorderLevel: 35,
+      orderUpTo: capacityKg * 0.9,
+      leadTimeHours: 48,
+      notes: 'Hourly telemetry (scale data).',
+    });
+    const secondary = await src({
+      siteId: site.id,
+      name: 'Oxygen secondary manifold',
+      type: 'manifold',
+      gasCode: 'O2',
+      supplierId: cylSupplier.id,
+      cylinderTypeId: cylinderTypes['O2-50-200'],
+      cylindersPerBank: 6,
+      regulatorLMin: 2500,
+      changeoverGaugeBar: 10,
+      temperatureC: 12,
+    });
     const stores: number[] = [];
     for (let k = 0; k < SOURCES_PER_SITE - 2; k++) {
       const full = 10 + Math.floor(random() * 30);
-      const s = await src({ siteId: site.id, name: `Cylinder store ${k + 1}`, type: 'cylinder_store', gasCode: 'O2', supplierId: cylSupplier.id, cylinderTypeId: cylinderTypes['O2-10-200'], temperatureC: 12, reorderMode: 'amount', reorderLevel: 6, orderUpTo: 40 });
+      const s = await src({
+        siteId: site.id,
+        name: `Cylinder store ${k + 1}`,
+        type: 'cylinder_store',
+        gasCode: 'O2',
+        supplierId: cylSupplier.id,
+        cylinderTypeId: cylinderTypes['O2-10-200'],
+        temperatureC: 12,
+        reorderMode: 'amount',
+        reorderLevel: 6,
+        orderUpTo: 40,
+      });
       stores.push(s.id);
       cylinderSources.push({ id: s.id, full, perCylinderL: o2Cyl });
     }
-    cylinderSources.push({ id: secondary.id, full: 12, perCylinderL: compressedContents({ gas: 'O2', waterCapacityL: 50, gaugeBar: 200, temperatureC: 15, reference: '15C' }).freeGasL });
+    cylinderSources.push({
+      id: secondary.id,
+      full: 12,
+      perCylinderL: compressedContents({ gas: 'O2', waterCapacityL: 50, gaugeBar: 200, temperatureC: 15, reference: '15C' }).freeGasL,
+    });
     count('supply_source', SOURCES_PER_SITE);
 
     let lMin = 0;
     const nWards = hospital ? WARDS_PER_HOSPITAL : WARDS_PER_CLINIC;
     for (let k = 0; k < nWards; k++) {
       const kind = WARD_KINDS[hospital ? k % WARD_KINDS.length : 0];
-      const lines = kind.lines.map((l) => ({ device: l.device, patients: Math.max(1, Math.round(l.patients * (0.7 + random() * 0.6) * (hospital ? 1 : 0.4))) }));
-      const ward = await m.getRepository(Ward).save(m.getRepository(Ward).create({ siteId: site.id, name: `${kind.name[0].toUpperCase()}${kind.name.slice(1)} ${k + 1}`, department: kind.department, beds: hospital ? kind.beds : 4, leakagePercent: 3, active: true }));
-      await m.getRepository(TherapyLineRow).insert(lines.map((l) => ({ wardId: ward.id, gasCode: 'O2', device: l.device, patients: l.patients, flowLMin: null, hoursJson: null, weekdaysJson: null, label: '' })));
+      const lines = kind.lines.map((l) => ({
+        device: l.device,
+        patients: Math.max(1, Math.round(l.patients * (0.7 + random() * 0.6) * (hospital ? 1 : 0.4))),
+      }));
+      const ward = await m.getRepository(Ward).save(
+        m.getRepository(Ward).create({
+          siteId: site.id,
+          name: `${kind.name[0].toUpperCase()}${kind.name.slice(1)} ${k + 1}`,
+          department: kind.department,
+          beds: hospital ? kind.beds : 4,
+          leakagePercent: 3,
+          active: true,
+        }),
+      );
+      await m.getRepository(TherapyLineRow).insert(
+        lines.map((l) => ({
+          wardId: ward.id,
+          gasCode: 'O2',
+          device: l.device,
+          patients: l.patients,
+          flowLMin: null,
+          hoursJson: null,
+          weekdaysJson: null,
+          label: '',
+        })),
+      );
       await m.getRepository(WardFeed).insert([
         { wardId: ward.id, sourceId: vie.id, gasCode: 'O2', role: 'primary' },
         { wardId: ward.id, sourceId: secondary.id, gasCode: 'O2', role: 'secondary' },

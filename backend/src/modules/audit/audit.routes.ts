@@ -5,5 +5,12 @@ import { validate } from '../../http/validate';
 import { listAudit } from './audit.service';
 
 export function auditRoutes(): RouteDef[] {
-  return [{ method: 'get', path: '/api/audit', access: ['administrator'], handler: (req) => listAudit(actorOf(req).user.organisationId, validate(auditListQuerySchema, req.query, 'query')) }];
+  return [
+    {
+      method: 'get',
+      path: '/api/audit',
+      access: ['administrator'],
+      handler: (req) => listAudit(actorOf(req).user.organisationId, validate(auditListQuerySchema, req.query, 'query')),
+    },
+  ];
 }

@@ -49,7 +49,12 @@ export async function recordAudit(manager: EntityManager, who: AuditWho, what: A
 
 export type { AuditRow };
 
-const SORTABLE = new Map<AuditListQuery['sort'], string>([['at', 'a.at'], ['action', 'a.action'], ['entity', 'a.entity'], ['userEmail', 'a.user_email']]);
+const SORTABLE = new Map<AuditListQuery['sort'], string>([
+  ['at', 'a.at'],
+  ['action', 'a.action'],
+  ['entity', 'a.entity'],
+  ['userEmail', 'a.user_email'],
+]);
 
 /** The organisation's audit log, newest first by default, filtered by entity, action or e-mail. */
 export async function listAudit(organisationId: number, q: AuditListQuery): Promise<Page<AuditRow>> {
@@ -58,7 +63,10 @@ export async function listAudit(organisationId: number, q: AuditListQuery): Prom
   if (q.q) qb.andWhere('(a.user_email LIKE :q OR a.entity LIKE :q OR a.action LIKE :q OR a.entity_id = :exact)', { q: `%${q.q}%`, exact: q.q });
   const sortCol = SORTABLE.get(q.sort ?? 'at') ?? 'a.at';
   const dir = q.sort ? (q.dir === 'desc' ? 'DESC' : 'ASC') : 'DESC';
-  qb.orderBy(sortCol, dir).addOrderBy('a.id', 'DESC').skip((q.page - 1) * q.pageSize).take(q.pageSize);
+  qb.orderBy(sortCol, dir)
+    .addOrderBy('a.id', 'DESC')
+    .skip((q.page - 1) * q.pageSize)
+    .take(q.pageSize);
   const [rows, total] = await qb.getManyAndCount();
   return {
     items: rows.map((r) => ({

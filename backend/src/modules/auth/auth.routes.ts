@@ -88,7 +88,11 @@ export function authRoutes(): RouteDef[] {
         req.body = body;
         const user = await authenticate(req, res);
         await logIn(req, user);
-        await recordAudit(db().manager, { organisationId: user.organisationId, userId: user.id, userEmail: user.email, requestId: String(req.id) }, { action: 'sign_in', entity: 'session' });
+        await recordAudit(
+          db().manager,
+          { organisationId: user.organisationId, userId: user.id, userEmail: user.email, requestId: String(req.id) },
+          { action: 'sign_in', entity: 'session' },
+        );
         const me = await describeMe(user);
         return { ...me, csrfToken: csrfTokenFor(req) };
       },
@@ -102,7 +106,11 @@ export function authRoutes(): RouteDef[] {
         await logOut(req);
         await new Promise<void>((resolve) => req.session.destroy(() => resolve()));
         res.clearCookie('plenum.sid', { path: '/' });
-        await recordAudit(db().manager, { organisationId: actor.user.organisationId, userId: actor.user.id, userEmail: actor.user.email, requestId: String(req.id) }, { action: 'sign_out', entity: 'session' });
+        await recordAudit(
+          db().manager,
+          { organisationId: actor.user.organisationId, userId: actor.user.id, userEmail: actor.user.email, requestId: String(req.id) },
+          { action: 'sign_out', entity: 'session' },
+        );
         return { ok: true };
       },
     },

@@ -24,7 +24,11 @@ const INVALID = () => new SignInError(401, 'invalid_credentials', 'E-mail or pas
 
 function lockedError(until: Date, now: Date): SignInError {
   const minutes = Math.max(1, Math.ceil((until.getTime() - now.getTime()) / 60000));
-  return new SignInError(423, 'account_locked', `Too many failed sign-ins: this account is locked for ${minutes} more minute${minutes === 1 ? '' : 's'}. Try again after that, or ask an administrator to unlock it.`);
+  return new SignInError(
+    423,
+    'account_locked',
+    `Too many failed sign-ins: this account is locked for ${minutes} more minute${minutes === 1 ? '' : 's'}. Try again after that, or ask an administrator to unlock it.`,
+  );
 }
 
 /** Length of the n-th lock (n = 1, 2, …) since the last successful sign-in: the base, doubling, capped. */
@@ -61,7 +65,9 @@ function afterFailure(c: Counter, now: Date): { next: Counter; lockedUntil: Date
  */
 export async function verifyCredentials(email: string, password: string): Promise<SessionUser> {
   const key = email.trim().toLowerCase();
-  const user = await db().getRepository(User).findOne({ where: { email: key } });
+  const user = await db()
+    .getRepository(User)
+    .findOne({ where: { email: key } });
   const account = user && user.active ? user : null;
   const now = new Date();
   const before: Counter | undefined = account
@@ -91,30 +97,48 @@ export async function verifyCredentials(email: string, password: string): Promis
     if (account) {
       row = ((await m.query('SELECT failed_logins, lock_count, locked_until FROM app_user WHERE id = ? FOR UPDATE', [account.id])) as Counter[])[0];
     } else {
-      await m.query('INSERT INTO sign_in_unknown (email_key, failed_logins, lock_count, locked_until, updated_at) VALUES (?, 0, 0, NULL, NOW(3)) ON DUPLICATE KEY UPDATE email_key = email_key', [key]);
+      await m.query(
+        'INSERT INTO sign_in_unknown (email_key, failed_logins, lock_count, locked_until, updated_at) VALUES (?, 0, 0, NULL, NOW(3)) ON DUPLICATE KEY UPDATE email_key = email_key',
+        [key],
+      );
       row = ((await m.query('SELECT failed_logins, lock_count, locked_until FROM sign_in_unknown WHERE email_key = ? FOR UPDATE', [key])) as Counter[])[0];
     }
     if (!row) return { status: 'invalid' as const };
     if (ok && account) {
       // Locked meanwhile by parallel guesses: the right password waits like any other.
       if (row.locked_until && new Date(row.locked_until) > at) return { status: 'locked' as const, until: new Date(row.locked_until), at };
-      if (Number(row.failed_logins) > 0 || Number(row.lock_count) > 0 || row.locked_until) await m.query('UPDATE app_user SET failed_logins = 0, lock_count = 0, locked_until = NULL WHERE id = ?', [account.id]);
+      if (Number(row.failed_logins) > 0 || Number(row.lock_count) > 0 || row.locked_until)
+        await m.query('UPDATE app_user SET failed_logins = 0, lock_count = 0, locked_until = NULL WHERE id = ?', [account.id]);
       return { status: 'ok' as const };
     }
     const f = afterFailure(row, at);
     if (f.alreadyLocked) return { status: 'locked' as const, until: f.lockedUntil!, at };
     if (account) {
-      await m.query('UPDATE app_user SET failed_logins = ?, lock_count = ?, locked_until = ? WHERE id = ?', [f.next.failed_logins, f.next.lock_count, f.next.locked_until, account.id]);
+      await m.query('UPDATE app_user SET failed_logins = ?, lock_count = ?, locked_until = ? WHERE id = ?', [
+        f.next.failed_logins,
+        f.next.lock_count,
+        f.next.locked_until,
+        account.id,
+      ]);
       if (f.lockedUntil) {
-        await recordAudit(m, { organisationId: account.organisationId, userId: account.id, userEmail: account.email, requestId: null }, {
-          action: 'lock',
-          entity: 'user',
-          entityId: String(account.id),
-          after: { lockedUntil: f.lockedUntil.toISOString(), reason: `${LOGIN_MAX_FAILURES} failed sign-ins`, lockNumber: f.next.lock_count },
-        });
+        await recordAudit(
+          m,
+          { organisationId: account.organisationId, userId: account.id, userEmail: account.email, requestId: null },
+          {
+            action: 'lock',
+            entity: 'user',
+            entityId: String(account.id),
+            after: { lockedUntil: f.lockedUntil.toISOString(), reason: `${LOGIN_MAX_FAILURES} failed sign-ins`, lockNumber: f.next.lock_count },
+          },
+        );
       }
     } else {
-      await m.query('UPDATE sign_in_unknown SET failed_logins = ?, lock_count = ?, locked_until = ?, updated_at = NOW(3) WHERE email_key = ?', [f.next.failed_logins, f.next.lock_count, f.next.locked_until, key]);
+      await m.query('UPDATE sign_in_unknown SET failed_logins = ?, lock_count = ?, locked_until = ?, updated_at = NOW(3) WHERE email_key = ?', [
+        f.next.failed_logins,
+        f.next.lock_count,
+        f.next.locked_until,
+        key,
+      ]);
     }
     return f.lockedUntil ? { status: 'locked' as const, until: f.lockedUntil, at } : { status: 'invalid' as const };
   });
@@ -132,7 +156,17 @@ export async function verifyCredentials(email: string, password: string): Promis
  */
 export async function loadAuthUser(id: number, generation?: number): Promise<SessionUser | null> {
   // One round trip: the user with roles and granted sites (administrators: every site of the organisation).
-  const rows: { id: number; organisation_id: number; email: string; name: string; active: number; session_generation: number; roles: string | null; granted: string | null; all_sites: string | null }[] = await db().query(
+  const rows: {
+    id: number;
+    organisation_id: number;
+    email: string;
+    name: string;
+    active: number;
+    session_generation: number;
+    roles: string | null;
+    granted: string | null;
+    all_sites: string | null;
+  }[] = await db().query(
     `SELECT u.id, u.organisation_id, u.email, u.name, u.active, u.session_generation,
        (SELECT GROUP_CONCAT(r.role) FROM user_role r WHERE r.user_id = u.id) AS roles,
        (SELECT GROUP_CONCAT(us.site_id) FROM user_site us WHERE us.user_id = u.id) AS granted,
@@ -145,15 +179,30 @@ export async function loadAuthUser(id: number, generation?: number): Promise<Ses
   if (generation !== undefined && Number(u.session_generation) !== generation) return null;
   const roles = (u.roles ? u.roles.split(',') : []).sort() as Role[];
   const list = (roles.includes('administrator') ? u.all_sites : u.granted) ?? '';
-  const siteIds = list ? list.split(',').map(Number).sort((a, b) => a - b) : [];
-  return { id: Number(u.id), organisationId: Number(u.organisation_id), email: u.email, name: u.name, roles, siteIds, sessionGeneration: Number(u.session_generation) };
+  const siteIds = list
+    ? list
+        .split(',')
+        .map(Number)
+        .sort((a, b) => a - b)
+    : [];
+  return {
+    id: Number(u.id),
+    organisationId: Number(u.organisation_id),
+    email: u.email,
+    name: u.name,
+    roles,
+    siteIds,
+    sessionGeneration: Number(u.session_generation),
+  };
 }
 
 /** What GET /api/auth/me returns. */
 export async function describeMe(user: AuthUser): Promise<Me> {
   const ds = db();
   const org = await ds.getRepository(Organisation).findOneByOrFail({ id: user.organisationId });
-  const sites = user.siteIds.length ? await ds.getRepository(Site).find({ where: { id: In(user.siteIds), organisationId: user.organisationId }, order: { name: 'ASC' } }) : [];
+  const sites = user.siteIds.length
+    ? await ds.getRepository(Site).find({ where: { id: In(user.siteIds), organisationId: user.organisationId }, order: { name: 'ASC' } })
+    : [];
   return {
     user: { id: user.id, email: user.email, name: user.name, roles: user.roles },
     organisation: { id: org.id, name: org.name },
@@ -189,8 +238,14 @@ export async function changePassword(user: AuthUser, currentPassword: string, ne
   }
   const hash = await hashPassword(newPassword);
   return db().transaction(async (m) => {
-    await m.getRepository(User).update({ id: user.id }, { passwordHash: hash, passwordChangedAt: new Date(), sessionGeneration: () => 'session_generation + 1' });
-    await recordAudit(m, { organisationId: user.organisationId, userId: user.id, userEmail: user.email, requestId }, { action: 'update', entity: 'password', entityId: String(user.id), after: { changed: true } });
+    await m
+      .getRepository(User)
+      .update({ id: user.id }, { passwordHash: hash, passwordChangedAt: new Date(), sessionGeneration: () => 'session_generation + 1' });
+    await recordAudit(
+      m,
+      { organisationId: user.organisationId, userId: user.id, userEmail: user.email, requestId },
+      { action: 'update', entity: 'password', entityId: String(user.id), after: { changed: true } },
+    );
     const [gen] = (await m.query('SELECT session_generation FROM app_user WHERE id = ?', [user.id])) as { session_generation: number }[];
     return Number(gen.session_generation);
   });

@@ -71,7 +71,12 @@ export function capacityRoutes(): RouteDef[] {
     // diversity rule sets (the shipped ones read-only; the organisation's own copies editable)
     { method: 'get', path: '/api/rule-sets', access: READERS, handler: (req) => svc.listRuleSets(actorOf(req)) },
     { method: 'get', path: '/api/rule-sets/:id', access: READERS, handler: (req) => svc.getRuleSet(actorOf(req), id(req.params)) },
-    { method: 'post', path: '/api/rule-sets', access: ENGINEER, handler: (req) => svc.createRuleSet(actorOf(req), validate(ruleSetCreateSchema, req.body, 'rule set')) },
+    {
+      method: 'post',
+      path: '/api/rule-sets',
+      access: ENGINEER,
+      handler: (req) => svc.createRuleSet(actorOf(req), validate(ruleSetCreateSchema, req.body, 'rule set')),
+    },
     {
       method: 'put',
       path: '/api/rule-sets/:id',
@@ -84,7 +89,12 @@ export function capacityRoutes(): RouteDef[] {
     },
     { method: 'delete', path: '/api/rule-sets/:id', access: ENGINEER, handler: (req) => svc.deleteRuleSet(actorOf(req), id(req.params)) },
     // the check, and the engineer's sign-off
-    { method: 'get', path: '/api/sites/:id/capacity', access: READERS, handler: (req) => svc.getCapacity(actorOf(req), id(req.params), validate(capacityQuerySchema, req.query, 'capacity inputs')) },
+    {
+      method: 'get',
+      path: '/api/sites/:id/capacity',
+      access: READERS,
+      handler: (req) => svc.getCapacity(actorOf(req), id(req.params), validate(capacityQuerySchema, req.query, 'capacity inputs')),
+    },
     { method: 'get', path: '/api/sites/:id/capacity/signoffs', access: READERS, handler: (req) => svc.listSignoffs(actorOf(req), id(req.params)) },
     {
       method: 'post',

@@ -8,7 +8,19 @@ import { isGasCode, isLiquefiedGas } from '@common/gas/gases';
 import { freeGasLitresPerKg, type ReferenceCode } from '@common/gas/reference-conditions';
 import { cylinderTypeName } from '@common/catalogue/cylinder-type';
 import { meanDailyDemandL } from '@common/forecast/demand-model';
-import type { CapacityQuery, CapacityReport, CapacityResponse, PipeRunInput, RuleSetCreateInput, RuleSetRow, RuleSetUpdateInput, SignoffInput, SignoffRow, ZoneInput, ZoneRow } from '@common/schemas/capacity.schema';
+import type {
+  CapacityQuery,
+  CapacityReport,
+  CapacityResponse,
+  PipeRunInput,
+  RuleSetCreateInput,
+  RuleSetRow,
+  RuleSetUpdateInput,
+  SignoffInput,
+  SignoffRow,
+  ZoneInput,
+  ZoneRow,
+} from '@common/schemas/capacity.schema';
 import { InvalidInputError } from '@common/api/errors';
 import { db } from '../../db/db';
 import { CapacitySignoff, PipeRun, PipelineZone, RuleSet } from '../../db/entities/capacity.entity';
@@ -56,7 +68,10 @@ export function presentZone(z: PipelineZone, runs: PipeRun[]): ZoneRow {
     useProbability: z.useProbability,
     confidence: z.confidence,
     notes: z.notes,
-    pipeRuns: runs.filter((r) => r.zoneId === z.id).sort((a, b) => a.sortOrder - b.sortOrder || a.id - b.id).map(presentPipeRun),
+    pipeRuns: runs
+      .filter((r) => r.zoneId === z.id)
+      .sort((a, b) => a.sortOrder - b.sortOrder || a.id - b.id)
+      .map(presentPipeRun),
     updatedAt: z.updatedAt.toISOString(),
   };
 }
@@ -137,8 +152,12 @@ async function checkZoneRefs(m: EntityManager, actor: Actor, siteId: number, inp
   if (input.sourceId !== null) {
     const s = await m.getRepository(SupplySource).findOneBy({ id: input.sourceId, siteId });
     if (!s) throw badRequest('Unknown supply source', [{ path: 'sourceId', message: 'choose a supply source of this site' }]);
-    if (s.gasCode !== input.gasCode) throw badRequest('The source holds another gas', [{ path: 'sourceId', message: `this source supplies ${s.gasCode}, the zone ${input.gasCode}` }]);
-    if (s.type === 'emergency_reserve') throw badRequest('A reserve backs up a source; it is not the source of a zone', [{ path: 'sourceId', message: 'choose the primary source (manifold or bulk tank); the reserve is found from it' }]);
+    if (s.gasCode !== input.gasCode)
+      throw badRequest('The source holds another gas', [{ path: 'sourceId', message: `this source supplies ${s.gasCode}, the zone ${input.gasCode}` }]);
+    if (s.type === 'emergency_reserve')
+      throw badRequest('A reserve backs up a source; it is not the source of a zone', [
+        { path: 'sourceId', message: 'choose the primary source (manifold or bulk tank); the reserve is found from it' },
+      ]);
   }
   if (input.ruleSetId !== null && !(await m.getRepository(RuleSet).findOneBy({ id: input.ruleSetId, organisationId: actor.user.organisationId }))) {
     throw badRequest('Unknown rule set', [{ path: 'ruleSetId', message: "choose one of your organisation's rule sets" }]);
@@ -174,8 +193,14 @@ async function zoneWithRuns(m: EntityManager, id: number) {
 
 export async function listZones(actor: Actor, siteId: number) {
   await getSiteFor(actor, siteId);
-  const zones = await db().getRepository(PipelineZone).find({ where: { siteId }, order: { gasCode: 'ASC', name: 'ASC' } });
-  const runs = zones.length ? await db().getRepository(PipeRun).find({ where: { zoneId: In(zones.map((z) => z.id)) } }) : [];
+  const zones = await db()
+    .getRepository(PipelineZone)
+    .find({ where: { siteId }, order: { gasCode: 'ASC', name: 'ASC' } });
+  const runs = zones.length
+    ? await db()
+        .getRepository(PipeRun)
+        .find({ where: { zoneId: In(zones.map((z) => z.id)) } })
+    : [];
   return zones.map((z) => presentZone(z, runs));
 }
 
@@ -234,7 +259,10 @@ export async function getPipeRun(actor: Actor, id: number) {
 export async function createPipeRun(actor: Actor, zoneId: number, input: PipeRunInput) {
   return db().transaction(async (m) => {
     const zone = await zoneFor(actor, zoneId, m);
-    if (zone.gasCode === 'VAC') throw badRequest('Vacuum pipework runs below atmospheric pressure; the pressure-drop check does not apply', [{ path: 'zone', message: 'pipe runs belong to positive-pressure gas zones' }]);
+    if (zone.gasCode === 'VAC')
+      throw badRequest('Vacuum pipework runs below atmospheric pressure; the pressure-drop check does not apply', [
+        { path: 'zone', message: 'pipe runs belong to positive-pressure gas zones' },
+      ]);
     const repo = m.getRepository(PipeRun);
     if (await repo.findOneBy({ zoneId, name: input.name })) throw conflict(`A pipe run called "${input.name}" exists in this zone`, 'duplicate');
     const saved = await repo.save(repo.create({ ...pipeRunRow(input), zoneId }));
@@ -269,14 +297,22 @@ export async function deletePipeRun(actor: Actor, id: number) {
 
 async function usage(m: EntityManager, ids: number[]): Promise<Map<number, number>> {
   if (ids.length === 0) return new Map();
-  const rows: { id: number; n: string }[] = await m.query(`SELECT rule_set_id AS id, COUNT(*) AS n FROM pipeline_zone WHERE rule_set_id IN (${ids.map(() => '?').join(',')}) GROUP BY rule_set_id`, ids);
+  const rows: { id: number; n: string }[] = await m.query(
+    `SELECT rule_set_id AS id, COUNT(*) AS n FROM pipeline_zone WHERE rule_set_id IN (${ids.map(() => '?').join(',')}) GROUP BY rule_set_id`,
+    ids,
+  );
   return new Map(rows.map((r) => [Number(r.id), Number(r.n)]));
 }
 
 /** The shipped rule sets (read-only, to copy) and the organisation's own. */
 export async function listRuleSets(actor: Actor) {
-  const own = await db().getRepository(RuleSet).find({ where: { organisationId: actor.user.organisationId }, order: { name: 'ASC' } });
-  const used = await usage(db().manager, own.map((r) => r.id));
+  const own = await db()
+    .getRepository(RuleSet)
+    .find({ where: { organisationId: actor.user.organisationId }, order: { name: 'ASC' } });
+  const used = await usage(
+    db().manager,
+    own.map((r) => r.id),
+  );
   return [...Object.keys(DEFAULT_RULE_SETS).map(presentBuiltin), ...own.map((r) => presentRuleSet(r, used.get(r.id) ?? 0))];
 }
 
@@ -289,7 +325,10 @@ export async function getRuleSet(actor: Actor, id: number) {
 function storedRules(rules: DiversityRuleSet, id: number, name: string): string {
   const parsed = diversityRuleSetSchema.safeParse({ ...rules, id: `org-${id}`, name });
   if (!parsed.success) {
-    throw badRequest('The rule set is not valid', parsed.error.issues.map((i) => ({ path: ['rules', ...i.path.map(String)].join('.'), message: i.message })));
+    throw badRequest(
+      'The rule set is not valid',
+      parsed.error.issues.map((i) => ({ path: ['rules', ...i.path.map(String)].join('.'), message: i.message })),
+    );
   }
   return JSON.stringify(parsed.data);
 }
@@ -297,7 +336,8 @@ function storedRules(rules: DiversityRuleSet, id: number, name: string): string 
 export async function createRuleSet(actor: Actor, input: RuleSetCreateInput) {
   return db().transaction(async (m) => {
     const repo = m.getRepository(RuleSet);
-    if (await repo.findOneBy({ organisationId: actor.user.organisationId, name: input.name })) throw conflict(`A rule set called "${input.name}" exists already`, 'duplicate');
+    if (await repo.findOneBy({ organisationId: actor.user.organisationId, name: input.name }))
+      throw conflict(`A rule set called "${input.name}" exists already`, 'duplicate');
     let rules: DiversityRuleSet;
     let basedOn: string | null = null;
     if (typeof input.basedOn === 'number') {
@@ -350,8 +390,10 @@ export async function deleteRuleSet(actor: Actor, id: number) {
 export function cylinderFreeGasL(c: CylinderType, reference: ReferenceCode, atmosphericBar: number): number | null {
   if (!isGasCode(c.gasCode)) return null;
   try {
-    if (isLiquefiedGas(c.gasCode)) return c.maxFillingRatioKgPerL ? c.maxFillingRatioKgPerL * c.waterCapacityL * freeGasLitresPerKg(c.gasCode, reference) : null;
-    return compressedContents({ gas: c.gasCode, waterCapacityL: c.waterCapacityL, gaugeBar: c.fillPressureBar, temperatureC: 15, atmosphericBar, reference }).freeGasL;
+    if (isLiquefiedGas(c.gasCode))
+      return c.maxFillingRatioKgPerL ? c.maxFillingRatioKgPerL * c.waterCapacityL * freeGasLitresPerKg(c.gasCode, reference) : null;
+    return compressedContents({ gas: c.gasCode, waterCapacityL: c.waterCapacityL, gaugeBar: c.fillPressureBar, temperatureC: 15, atmosphericBar, reference })
+      .freeGasL;
   } catch (e) {
     if (e instanceof InvalidInputError) return null;
     throw e;
@@ -386,7 +428,9 @@ interface Loaded {
 async function loadCapacityInput(actor: Actor, site: Site, options: CapacityQuery): Promise<Loaded> {
   const ds = db();
   const zones = await ds.getRepository(PipelineZone).find({ where: { siteId: site.id }, order: { gasCode: 'ASC', name: 'ASC' } });
-  const runs = zones.length ? await ds.getRepository(PipeRun).find({ where: { zoneId: In(zones.map((z) => z.id)) }, order: { sortOrder: 'ASC', id: 'ASC' } }) : [];
+  const runs = zones.length
+    ? await ds.getRepository(PipeRun).find({ where: { zoneId: In(zones.map((z) => z.id)) }, order: { sortOrder: 'ASC', id: 'ASC' } })
+    : [];
   const sources = await ds.getRepository(SupplySource).find({ where: { siteId: site.id, active: true }, order: { name: 'ASC' } });
   const ruleSetIds = [...new Set(zones.map((z) => z.ruleSetId).filter((x): x is number => x !== null))];
   const ownSets = ruleSetIds.length ? await ds.getRepository(RuleSet).find({ where: { id: In(ruleSetIds), organisationId: actor.user.organisationId } }) : [];
@@ -414,7 +458,16 @@ async function loadCapacityInput(actor: Actor, site: Site, options: CapacityQuer
       confidence: z.confidence,
       pipeRuns: runs
         .filter((r) => r.zoneId === z.id)
-        .map((r) => ({ id: r.id, name: r.name, lengthM: r.lengthM, tube: r.tube, fittingsAllowancePercent: r.fittingsAllowancePercent, linePressureKPa: r.linePressureKPa, allowedDropKPa: r.allowedDropKPa, gasTemperatureC: r.gasTemperatureC })),
+        .map((r) => ({
+          id: r.id,
+          name: r.name,
+          lengthM: r.lengthM,
+          tube: r.tube,
+          fittingsAllowancePercent: r.fittingsAllowancePercent,
+          linePressureKPa: r.linePressureKPa,
+          allowedDropKPa: r.allowedDropKPa,
+          gasTemperatureC: r.gasTemperatureC,
+        })),
     };
   });
   const sourceData: SourceData[] = sources.map((s) => {
@@ -444,7 +497,11 @@ async function loadCapacityInput(actor: Actor, site: Site, options: CapacityQuer
       site: { referenceCode: reference, atmosphericBar: site.atmosphericBar },
       zones: zoneData,
       sources: sourceData,
-      options: { flowPerPatientLMin: options.flowPerPatientLMin, peakHoursPerDay: options.peakHoursPerDay, ...(options.vaporiserDerating !== undefined ? { vaporiserDerating: options.vaporiserDerating } : {}) },
+      options: {
+        flowPerPatientLMin: options.flowPerPatientLMin,
+        peakHoursPerDay: options.peakHoursPerDay,
+        ...(options.vaporiserDerating !== undefined ? { vaporiserDerating: options.vaporiserDerating } : {}),
+      },
     },
   };
 }
@@ -482,7 +539,9 @@ async function buildReport(actor: Actor, site: Site, options: CapacityQuery): Pr
 export async function getCapacity(actor: Actor, siteId: number, options: CapacityQuery): Promise<CapacityResponse> {
   const site = await getSiteFor(actor, siteId);
   const report = await buildReport(actor, site, options);
-  const latest = await db().getRepository(CapacitySignoff).findOne({ where: { siteId }, order: { signedAt: 'DESC', id: 'DESC' } });
+  const latest = await db()
+    .getRepository(CapacitySignoff)
+    .findOne({ where: { siteId }, order: { signedAt: 'DESC', id: 'DESC' } });
   return {
     ...report,
     latestSignoff: latest ? { ...presentSignoff(latest, false), current: latest.inputsHash === report.inputsHash } : null,
@@ -495,25 +554,45 @@ export async function getCapacity(actor: Actor, siteId: number, options: Capacit
  */
 export async function signOff(actor: Actor, siteId: number, input: SignoffInput) {
   const site = await getSiteFor(actor, siteId);
-  const report = await buildReport(actor, site, { flowPerPatientLMin: input.flowPerPatientLMin, vaporiserDerating: input.vaporiserDerating, peakHoursPerDay: input.peakHoursPerDay });
+  const report = await buildReport(actor, site, {
+    flowPerPatientLMin: input.flowPerPatientLMin,
+    vaporiserDerating: input.vaporiserDerating,
+    peakHoursPerDay: input.peakHoursPerDay,
+  });
   if (report.inputsHash !== input.inputsHash) {
     throw new AppError(409, 'inputs_changed', 'The zones, sources or rules changed since you loaded the check: review the new figures and sign again.');
   }
-  if (report.zoneCount === 0) throw badRequest('There is nothing to sign off: add the pipeline zones first', [{ path: 'inputsHash', message: 'no zones on this site' }]);
+  if (report.zoneCount === 0)
+    throw badRequest('There is nothing to sign off: add the pipeline zones first', [{ path: 'inputsHash', message: 'no zones on this site' }]);
   return db().transaction(async (m) => {
     const repo = m.getRepository(CapacitySignoff);
     const saved = await repo.save(
-      repo.create({ siteId, engineerName: input.engineerName, userId: actor.user.id, signedAt: new Date(), inputsHash: report.inputsHash, note: input.note, summaryJson: JSON.stringify(report) }),
+      repo.create({
+        siteId,
+        engineerName: input.engineerName,
+        userId: actor.user.id,
+        signedAt: new Date(),
+        inputsHash: report.inputsHash,
+        note: input.note,
+        summaryJson: JSON.stringify(report),
+      }),
     );
     const row = presentSignoff(saved, false);
-    await recordAudit(m, whoOf(actor), { action: 'sign_off', entity: 'capacity_signoff', entityId: String(saved.id), after: { ...row, totals: report.gases.map((g) => ({ gas: g.gasCode, designFlowLMin: g.designFlowLMin, limiting: g.limiting?.name ?? null })) } });
+    await recordAudit(m, whoOf(actor), {
+      action: 'sign_off',
+      entity: 'capacity_signoff',
+      entityId: String(saved.id),
+      after: { ...row, totals: report.gases.map((g) => ({ gas: g.gasCode, designFlowLMin: g.designFlowLMin, limiting: g.limiting?.name ?? null })) },
+    });
     return row;
   });
 }
 
 export async function listSignoffs(actor: Actor, siteId: number) {
   await getSiteFor(actor, siteId);
-  const rows = await db().getRepository(CapacitySignoff).find({ where: { siteId }, order: { signedAt: 'DESC', id: 'DESC' }, take: 100 });
+  const rows = await db()
+    .getRepository(CapacitySignoff)
+    .find({ where: { siteId }, order: { signedAt: 'DESC', id: 'DESC' }, take: 100 });
   return rows.map((r) => presentSignoff(r, false));
 }
 

@@ -79,7 +79,6 @@ export interface SourceData {
   forecastBasis: string | null;
 }
 
-
 export interface SiteCapacityInput {
   site: { referenceCode: ReferenceCode; atmosphericBar: number };
   zones: ZoneData[];
@@ -95,9 +94,10 @@ const orNull = (x: number | null | undefined, digits = 6) => (x === null || x ==
 /** Source of the binomial method (rule inputs are the engineer's). */
 const BINOMIAL_SOURCE: RuleSource = {
   id: 'binomial-zone',
-  citation: 'Binomial model of simultaneous use: the smallest k with P(X ≤ k) ≥ confidence, X ~ Binomial(n, p) ("Using probability to determine medical gas flow", PM Engineer)',
+  citation:
+    'Binomial model of simultaneous use: the smallest k with P(X ≤ k) ≥ confidence, X ~ Binomial(n, p) ("Using probability to determine medical gas flow", PM Engineer)',
   verified: true,
-  note: 'The method is documented; the use probability and confidence are the engineer\'s inputs for this zone.',
+  note: "The method is documented; the use probability and confidence are the engineer's inputs for this zone.",
 };
 
 interface ZoneFlowResult {
@@ -111,7 +111,15 @@ interface ZoneFlowResult {
 function zoneFlowOf(z: ZoneData): ZoneFlowResult {
   if (z.diversityMethod === 'binomial') {
     const flow = computeZoneDesignFlow(
-      { method: 'binomial', unit_L_min: z.unitFlowLMin ?? 0, use_probability: z.useProbability ?? 0, confidence: z.confidence ?? 0, counts: 'terminal_unit', source: BINOMIAL_SOURCE.id, verified: true },
+      {
+        method: 'binomial',
+        unit_L_min: z.unitFlowLMin ?? 0,
+        use_probability: z.useProbability ?? 0,
+        confidence: z.confidence ?? 0,
+        counts: 'terminal_unit',
+        source: BINOMIAL_SOURCE.id,
+        verified: true,
+      },
       z.terminalUnits,
     );
     return { zone: z, flow, warning: null, refused: null };
@@ -172,7 +180,9 @@ function combineZones(gas: CapacityGasCode, results: ZoneFlowResult[]): Combined
       set,
     );
     total += res.totalLMin;
-    notes.push(groups.size > 1 || binomialCount > 0 ? `${group[0].zone.ruleSetLabel.name}: ${res.totalNote} = ${round(res.totalLMin, 3)} L/min` : res.totalNote);
+    notes.push(
+      groups.size > 1 || binomialCount > 0 ? `${group[0].zone.ruleSetLabel.name}: ${res.totalNote} = ${round(res.totalLMin, 3)} L/min` : res.totalNote,
+    );
     for (const s of res.sources) sources.set(s.id, s);
     for (const w of res.warnings) warnings.add(w);
   }
@@ -235,7 +245,8 @@ function checkPipeRun(run: PipeRunData, gas: CapacityGasCode, flowLMin: number, 
     error: null,
     limiting: false,
   };
-  if (gas === 'VAC') return { out: { ...base, error: 'Vacuum pipework runs below atmospheric pressure; this positive-pressure check does not apply.' }, limit: null };
+  if (gas === 'VAC')
+    return { out: { ...base, error: 'Vacuum pipework runs below atmospheric pressure; this positive-pressure check does not apply.' }, limit: null };
   try {
     const spec = pipeSpecOf(run, site);
     const drop = computePipeRunPressureDrop({ ...spec, gas: gas as GasCode }, flowLMin);
@@ -283,7 +294,13 @@ function sourceLimits(s: SourceData, options: CapacityOptions): { limits: Capaci
     }
   }
   if (s.regulatorLMin) {
-    limits.push(resolveCapacityLimit({ kind: 'manifold_regulator', name: `${s.name}: ${s.type === 'manifold' ? 'manifold regulator' : 'regulator'}`, capacityLMin: s.regulatorLMin }));
+    limits.push(
+      resolveCapacityLimit({
+        kind: 'manifold_regulator',
+        name: `${s.name}: ${s.type === 'manifold' ? 'manifold regulator' : 'regulator'}`,
+        capacityLMin: s.regulatorLMin,
+      }),
+    );
   }
   let missing: string | null = null;
   if (limits.length === 0) {
@@ -403,7 +420,10 @@ function assessGas(gas: CapacityGasCode, zones: ZoneData[], input: SiteCapacityI
   const pipeChecks = new Map<number, PipeCheck[]>();
   for (const f of flows) {
     const q = f.flow?.designFlowLMin ?? 0;
-    pipeChecks.set(f.zone.id, f.zone.pipeRuns.map((run) => checkPipeRun(run, gas, q, site)));
+    pipeChecks.set(
+      f.zone.id,
+      f.zone.pipeRuns.map((run) => checkPipeRun(run, gas, q, site)),
+    );
   }
   const zoneLimits = (zoneId: number) => (pipeChecks.get(zoneId) ?? []).flatMap((c) => (c.limit ? [c.limit] : []));
 
@@ -430,8 +450,13 @@ function assessGas(gas: CapacityGasCode, zones: ZoneData[], input: SiteCapacityI
         site: { currentFlowLMin: combined.totalLMin, limits },
         zones: withFlow.map((f) => ({ name: String(f.zone.id), currentFlowLMin: f.flow!.designFlowLMin, limits: zoneLimits(f.zone.id) })),
       });
-      headroom = { extraPatients: h.site.extraPatients, firstLimit: h.site.firstLimit ? { kind: h.site.firstLimit.kind, name: h.site.firstLimit.name } : null, overloaded: h.site.overloaded };
-      if (h.site.firstLimit) siteHeadroomParts.push({ sourceId: s.id, kind: h.site.firstLimit.kind, name: h.site.firstLimit.name, extraPatients: h.site.extraPatients });
+      headroom = {
+        extraPatients: h.site.extraPatients,
+        firstLimit: h.site.firstLimit ? { kind: h.site.firstLimit.kind, name: h.site.firstLimit.name } : null,
+        overloaded: h.site.overloaded,
+      };
+      if (h.site.firstLimit)
+        siteHeadroomParts.push({ sourceId: s.id, kind: h.site.firstLimit.kind, name: h.site.firstLimit.name, extraPatients: h.site.extraPatients });
       for (const z of h.zones) {
         zoneHeadroom.set(Number(z.name), {
           extraPatients: Number.isFinite(z.extraPatients) ? z.extraPatients : null,
@@ -471,8 +496,11 @@ function assessGas(gas: CapacityGasCode, zones: ZoneData[], input: SiteCapacityI
     });
   }
   const unsourced = zones.filter((z) => z.sourceId === null);
-  if (unsourced.length > 0 && gas !== 'VAC') headroomNotes.push(`${unsourced.length} zone${unsourced.length > 1 ? 's have' : ' has'} no supply source: the site figure leaves ${unsourced.length > 1 ? 'them' : 'it'} out.`);
-  if (gas === 'VAC') headroomNotes.push('Vacuum plant capacity is not modelled here: compare the design flow with the plant\'s rating.');
+  if (unsourced.length > 0 && gas !== 'VAC')
+    headroomNotes.push(
+      `${unsourced.length} zone${unsourced.length > 1 ? 's have' : ' has'} no supply source: the site figure leaves ${unsourced.length > 1 ? 'them' : 'it'} out.`,
+    );
+  if (gas === 'VAC') headroomNotes.push("Vacuum plant capacity is not modelled here: compare the design flow with the plant's rating.");
 
   // Zone pipe-run limits at the zone's flow.
   const zoneOuts: ZoneOut[] = zones.map((z) => {
@@ -480,7 +508,10 @@ function assessGas(gas: CapacityGasCode, zones: ZoneData[], input: SiteCapacityI
     const checks = pipeChecks.get(z.id) ?? [];
     const q = f.flow?.designFlowLMin ?? 0;
     if (f.flow) {
-      const assessed = assessCapacityLimits(q, checks.flatMap((c) => (c.limit ? [c.limit] : [])));
+      const assessed = assessCapacityLimits(
+        q,
+        checks.flatMap((c) => (c.limit ? [c.limit] : [])),
+      );
       allLimits.push(...assessed.map((a) => limitOut(a, 'zone', z.id, q)));
     }
     return {
@@ -495,7 +526,11 @@ function assessGas(gas: CapacityGasCode, zones: ZoneData[], input: SiteCapacityI
       method: f.flow?.method ?? null,
       formula: f.flow?.formula ?? null,
       countedAs: f.flow?.countedAs ?? null,
-      ruleSource: f.flow ? (z.diversityMethod === 'binomial' ? BINOMIAL_SOURCE.citation : (z.ruleSet.sources.find((s) => s.id === f.flow!.source)?.citation ?? f.flow.source)) : null,
+      ruleSource: f.flow
+        ? z.diversityMethod === 'binomial'
+          ? BINOMIAL_SOURCE.citation
+          : (z.ruleSet.sources.find((s) => s.id === f.flow!.source)?.citation ?? f.flow.source)
+        : null,
       verified: f.flow?.verified ?? null,
       warning: f.warning,
       refused: f.refused,
@@ -508,7 +543,8 @@ function assessGas(gas: CapacityGasCode, zones: ZoneData[], input: SiteCapacityI
   let limiting: LimitOut | null = null;
   for (const l of allLimits) if (!limiting || l.utilisation > limiting.utilisation) limiting = l;
   if (limiting) limiting.limiting = true;
-  for (const so of sourceOuts) for (const l of so.limits) if (limiting && l.scope === limiting.scope && l.ownerId === limiting.ownerId && l.name === limiting.name) l.limiting = true;
+  for (const so of sourceOuts)
+    for (const l of so.limits) if (limiting && l.scope === limiting.scope && l.ownerId === limiting.ownerId && l.name === limiting.name) l.limiting = true;
   for (const zo of zoneOuts) {
     for (const p of zo.pipeRuns) {
       if (limiting && limiting.scope === 'zone' && limiting.ownerId === zo.id && limiting.name === p.name) p.limiting = true;
@@ -560,12 +596,12 @@ export function assessSiteCapacity(input: SiteCapacityInput): SiteCapacity {
     method: [
       {
         topic: 'Design flow',
-        text: 'Each zone: the department rule of its rule set, Q = first + (n − 1) × further × diversity (or the rule\'s own form), or the binomial method for small zones. Zones sharing a rule set combine by that set\'s several-zone rule where it has one; otherwise flows add.',
+        text: "Each zone: the department rule of its rule set, Q = first + (n − 1) × further × diversity (or the rule's own form), or the binomial method for small zones. Zones sharing a rule set combine by that set's several-zone rule where it has one; otherwise flows add.",
         source: 'Rule sets as data, each rule with its source; unverified rules say so.',
       },
       {
         topic: 'Supply sources',
-        text: 'The design flow of the zones a source feeds, against the manifold regulator\'s rated flow and the bulk vaporiser\'s nameplate × continuous-duty derating.',
+        text: "The design flow of the zones a source feeds, against the manifold regulator's rated flow and the bulk vaporiser's nameplate × continuous-duty derating.",
         source: VAPORISER_DERATING_SOURCE,
       },
       {
@@ -573,7 +609,11 @@ export function assessSiteCapacity(input: SiteCapacityInput): SiteCapacity {
         text: `Each pipe run at its zone's full design flow (errs high for branches): Darcy–Weisbach with the Colebrook–White friction factor; gas density from the real-gas equation of state at the run's mean pressure; fittings as ${DEFAULT_FITTINGS_ALLOWANCE_PERCENT} % of length unless entered; allowed drop ${DEFAULT_ALLOWED_DROP_FRACTION * 100} % of line pressure unless entered (common practice, from memory).`,
         source: `${EN13348_TUBES_SOURCE}; ${VISCOSITY_SOURCE}`,
       },
-      { topic: 'Manifold', text: 'Bank = cylinders per bank × nominal free gas of one cylinder (gas engine, 15 °C fill); duration = bank ÷ flow; changeover interval = bank ÷ forecast daily use; cylinders per week = weekly use ÷ one cylinder.', source: MANIFOLD_SIZING_SOURCE },
+      {
+        topic: 'Manifold',
+        text: 'Bank = cylinders per bank × nominal free gas of one cylinder (gas engine, 15 °C fill); duration = bank ÷ flow; changeover interval = bank ÷ forecast daily use; cylinders per week = weekly use ÷ one cylinder.',
+        source: MANIFOLD_SIZING_SOURCE,
+      },
       { topic: 'Reserve: 4-hour rule', text: 'Secondary/emergency reserve ≥ 4 h at design flow.', source: FOUR_HOUR_RULE_SOURCE },
       { topic: 'Reserve: average day', text: "Emergency reserve ≥ one average day's use (forecast mean demand × 24 h).", source: AVERAGE_DAY_RULE_SOURCE },
       {

@@ -17,7 +17,6 @@ import { FORECAST_CAUTION, measuredLPerDay, modelledLines, outlookFor, wardDeman
 import { overviewRow, sourceDetail, sourceForecastCsv } from './source-detail.service';
 import { presentScenario, presentTherapy, presentWard, wardFor } from '../supply/supply.service';
 
-
 /** Computed overview per site, by data version and a 5-minute clock bucket (see VersionedCache). */
 const overviewCache = new VersionedCache<OverviewSite>(BUCKET_MS);
 
@@ -79,7 +78,9 @@ async function wardDetail(actor: Actor, id: number): Promise<WardDetail> {
 function computeWardDetail(model: SiteModel, ward: Ward): WardDetail {
   const id = ward.id;
   const reference = model.site.referenceCode as ReferenceCode;
-  const gases = [...new Set([...model.therapy.filter((t) => t.wardId === id).map((t) => t.gasCode), ...model.feeds.filter((f) => f.wardId === id).map((f) => f.gasCode)])];
+  const gases = [
+    ...new Set([...model.therapy.filter((t) => t.wardId === id).map((t) => t.gasCode), ...model.feeds.filter((f) => f.wardId === id).map((f) => f.gasCode)]),
+  ];
   const perGas = gases.map((gas) => {
     const lines = wardDemandLines(model, id, gas);
     const modelledLPerDay = meanDailyDemandL(lines);
@@ -92,13 +93,27 @@ function computeWardDetail(model: SiteModel, ward: Ward): WardDetail {
       const srcModelled = meanDailyDemandL(modelledLines(model, src));
       if (srcMeasured !== null && srcModelled > 0) measured = (srcMeasured * modelledLPerDay) / srcModelled;
     }
-    return { gasCode: gas, modelledLPerDay, measuredLPerDay: measured, suggestedFactor: measured !== null && modelledLPerDay > 0 ? measured / modelledLPerDay : null, primarySource: src ? { id: src.id, name: src.name } : null, lines: lines.map((l) => ({ label: l.label ?? '', flowLMin: l.flow_L_min, hours: l.hours ?? null, weekdays: l.weekdays ?? null })) };
+    return {
+      gasCode: gas,
+      modelledLPerDay,
+      measuredLPerDay: measured,
+      suggestedFactor: measured !== null && modelledLPerDay > 0 ? measured / modelledLPerDay : null,
+      primarySource: src ? { id: src.id, name: src.name } : null,
+      lines: lines.map((l) => ({ label: l.label ?? '', flowLMin: l.flow_L_min, hours: l.hours ?? null, weekdays: l.weekdays ?? null })),
+    };
   });
   return {
     ward: presentWard(ward),
     site: { id: model.site.id, name: model.site.name, timeZone: model.site.timeZone, referenceCode: model.site.referenceCode },
     therapy: model.therapy.filter((t) => t.wardId === id).map(presentTherapy),
-    feeds: model.feeds.filter((f) => f.wardId === id).map((f) => ({ sourceId: f.sourceId, gasCode: f.gasCode, role: f.role as FeedRole, sourceName: model.sources.find((s) => s.id === f.sourceId)?.name ?? '' })),
+    feeds: model.feeds
+      .filter((f) => f.wardId === id)
+      .map((f) => ({
+        sourceId: f.sourceId,
+        gasCode: f.gasCode,
+        role: f.role as FeedRole,
+        sourceName: model.sources.find((s) => s.id === f.sourceId)?.name ?? '',
+      })),
     perGas,
     scenarios: model.scenarios.filter((s) => s.wardId === id || s.wardId === null).map(presentScenario),
   };
@@ -128,6 +143,12 @@ export function forecastRoutes(): RouteDef[] {
         return undefined;
       },
     },
-    { method: 'get', path: '/api/wards/:id', access: 'authenticated', revalidate: true, handler: (req) => wardDetail(actorOf(req), validate(idParamSchema, req.params, 'address').id) },
+    {
+      method: 'get',
+      path: '/api/wards/:id',
+      access: 'authenticated',
+      revalidate: true,
+      handler: (req) => wardDetail(actorOf(req), validate(idParamSchema, req.params, 'address').id),
+    },
   ];
 }

@@ -8,7 +8,15 @@ import type { DemandLine, DemandScenario } from '@common/forecast/demand-lines';
 import { freeGasLitresPerKg, type ReferenceCode } from '@common/gas/reference-conditions';
 import { isLiquefiedGas, type GasCode } from '@common/gas/gases';
 import { InvalidInputError } from '@common/api/errors';
-import { consumptionBetweenReadings, dailyRates, demandCvFromDays, detectRefills, orderedSeries, refillThreshold, type Consumption } from '@common/forecast/reconcile';
+import {
+  consumptionBetweenReadings,
+  dailyRates,
+  demandCvFromDays,
+  detectRefills,
+  orderedSeries,
+  refillThreshold,
+  type Consumption,
+} from '@common/forecast/reconcile';
 import { nominalContents } from '@common/catalogue/cylinder-type';
 import type { Scenario, SupplySource } from '../../db/entities/supply.entity';
 import { decideStatus, statusText, type SourceStatus } from '@common/forecast/status';
@@ -111,7 +119,14 @@ function recentConsumption(model: SiteModel, s: SupplySource): Consumption | nul
   let c: Consumption | null = null;
   if (points.length >= 2) {
     const cyl = s.cylinderTypeId ? model.cylinderTypes.get(s.cylinderTypeId) : undefined;
-    const full = cyl ? (nominalContents({ gas: cyl.gasCode, waterCapacityL: cyl.waterCapacityL, fillPressureBar: cyl.fillPressureBar, maxFillingRatioKgPerL: cyl.maxFillingRatioKgPerL })?.freeGasL ?? null) : null;
+    const full = cyl
+      ? (nominalContents({
+          gas: cyl.gasCode,
+          waterCapacityL: cyl.waterCapacityL,
+          fillPressureBar: cyl.fillPressureBar,
+          maxFillingRatioKgPerL: cyl.maxFillingRatioKgPerL,
+        })?.freeGasL ?? null)
+      : null;
     const minRise = refillThreshold({ capacity: s.capacityKg, fullCylinder: s.type === 'bulk_liquid' ? null : full });
     c = consumptionBetweenReadings(points, detectRefills(points, { minRise }));
   }
@@ -136,7 +151,10 @@ export function measuredLPerDay(model: SiteModel, s: SupplySource, reference: Re
  * Day-to-day variability of a source's measured use (coefficient of variation of whole local days) for
  * the Monte Carlo band; 0.2 until seven whole days of readings exist (reconcile.ts, demandCvFromDays).
  */
-export function measuredDemandCv(model: SiteModel, s: SupplySource): { cv: number; measured: boolean; days: number; persistence: number; persistenceMeasured: boolean } {
+export function measuredDemandCv(
+  model: SiteModel,
+  s: SupplySource,
+): { cv: number; measured: boolean; days: number; persistence: number; persistenceMeasured: boolean } {
   const c = recentConsumption(model, s);
   if (!c) return { cv: 0.2, measured: false, days: 0, persistence: DEFAULT_DEMAND_PERSISTENCE, persistenceMeasured: false };
   const days = dailyRates(c.curve, model.site.timeZone);
@@ -146,13 +164,22 @@ export function measuredDemandCv(model: SiteModel, s: SupplySource): { cv: numbe
 }
 
 /** A stored scenario as the engine's overlay for one source (extra patients go to the sources of their ward). */
-function scenarioFor(model: SiteModel, sc: Scenario, s: SupplySource, fedWardIds: Set<number>): { scenario: DemandScenario; wardWindow?: { wardId: number; from?: string; until?: string } } {
+function scenarioFor(
+  model: SiteModel,
+  sc: Scenario,
+  s: SupplySource,
+  fedWardIds: Set<number>,
+): { scenario: DemandScenario; wardWindow?: { wardId: number; from?: string; until?: string } } {
   const out: DemandScenario = { name: sc.name, from: sc.fromLocal, until: sc.untilLocal ?? undefined, multiplier: sc.multiplier };
   const appliesHere = sc.wardId ? fedWardIds.has(sc.wardId) : s.gasCode === 'O2' && fedWardIds.size > 0;
   if (sc.extraPatients > 0 && appliesHere && s.gasCode === 'O2') {
     // Without a ward, extra patients are shared among the site's primary oxygen sources.
-    const share = sc.wardId ? 1 : 1 / Math.max(1, model.sources.filter((o) => o.gasCode === 'O2' && model.feeds.some((f) => f.sourceId === o.id && f.role === 'primary')).length);
-    out.extra_lines = [{ flow_L_min: sc.extraPatients * sc.extraFlowLMin * share, label: `${sc.name}: +${sc.extraPatients} patients at ${sc.extraFlowLMin} L/min` }];
+    const share = sc.wardId
+      ? 1
+      : 1 / Math.max(1, model.sources.filter((o) => o.gasCode === 'O2' && model.feeds.some((f) => f.sourceId === o.id && f.role === 'primary')).length);
+    out.extra_lines = [
+      { flow_L_min: sc.extraPatients * sc.extraFlowLMin * share, label: `${sc.name}: +${sc.extraPatients} patients at ${sc.extraFlowLMin} L/min` },
+    ];
   }
   if (sc.wardId && sc.wardChange && fedWardIds.has(sc.wardId)) {
     return { scenario: out, wardWindow: sc.wardChange === 'close' ? { wardId: sc.wardId, until: sc.fromLocal } : { wardId: sc.wardId, from: sc.fromLocal } };
@@ -172,14 +199,23 @@ function reorderFields(s: SupplySource, kind: 'kg' | 'cylinders'): Record<string
  * The engine's request for one source, from its latest reading forward: demand of the wards it feeds
  * (model, measured or scaled), the chosen scenario, scheduled deliveries and its reorder rule.
  */
-export function buildForecastInput(model: SiteModel, s: SupplySource, opts: ForecastOptions = {}): { input: ForecastInput | null; note: string | null; basis: SourceOutlook['basis'] } {
+export function buildForecastInput(
+  model: SiteModel,
+  s: SupplySource,
+  opts: ForecastOptions = {},
+): { input: ForecastInput | null; note: string | null; basis: SourceOutlook['basis'] } {
   const reference = model.site.referenceCode as ReferenceCode;
   const zone = model.site.timeZone;
   const baseLines = modelledLines(model, s);
   const modelled = meanDailyDemandL(baseLines);
   const measured = measuredLPerDay(model, s, reference);
   let lines = baseLines;
-  let basis: SourceOutlook['basis'] = { used: 'model', message: 'Demand from the therapy lines of the wards this source feeds.', modelledLPerDay: modelled, measuredLPerDay: measured };
+  let basis: SourceOutlook['basis'] = {
+    used: 'model',
+    message: 'Demand from the therapy lines of the wards this source feeds.',
+    modelledLPerDay: modelled,
+    measuredLPerDay: measured,
+  };
   if (s.forecastBasis === 'measured') {
     if (measured !== null) {
       lines = [{ flow_L_min: measured / 1440, label: 'Measured mean use (recent readings)' }];
@@ -204,7 +240,11 @@ export function buildForecastInput(model: SiteModel, s: SupplySource, opts: Fore
     scenarios.push(scenario);
     if (wardWindow) {
       const wardName = model.wards.find((w) => w.id === wardWindow.wardId)?.name ?? '';
-      lines = lines.map((l) => (l.label?.startsWith(`${wardName}:`) ? { ...l, ...(wardWindow.from ? { from: wardWindow.from } : {}), ...(wardWindow.until ? { until: wardWindow.until } : {}) } : l));
+      lines = lines.map((l) =>
+        l.label?.startsWith(`${wardName}:`)
+          ? { ...l, ...(wardWindow.from ? { from: wardWindow.from } : {}), ...(wardWindow.until ? { until: wardWindow.until } : {}) }
+          : l,
+      );
     }
   }
 
@@ -217,7 +257,19 @@ export function buildForecastInput(model: SiteModel, s: SupplySource, opts: Fore
   const deliveries = model.deliveries
     .filter((d) => d.sourceId === s.id && d.dueAt.getTime() >= start.toMillis())
     .map((d) => ({ at: toLocal(d.dueAt, zone), ...(d.kg !== null ? { kg: d.kg } : {}), ...(d.cylinders !== null ? { cylinders: d.cylinders } : {}) }));
-  const common = { start: startLocal, timezone: zone, horizon_days: horizonDays, reference, demand: lines, scenarios, deliveries, draws: opts.draws ?? 0, demand_cv: measuredDemandCv(model, s).cv, demand_persistence: measuredDemandCv(model, s).persistence, seed: s.id };
+  const common = {
+    start: startLocal,
+    timezone: zone,
+    horizon_days: horizonDays,
+    reference,
+    demand: lines,
+    scenarios,
+    deliveries,
+    draws: opts.draws ?? 0,
+    demand_cv: measuredDemandCv(model, s).cv,
+    demand_persistence: measuredDemandCv(model, s).persistence,
+    seed: s.id,
+  };
   const detail = reading.detailJson ? (JSON.parse(reading.detailJson) as Record<string, unknown>) : {};
   const cyl = s.cylinderTypeId ? model.cylinderTypes.get(s.cylinderTypeId) : undefined;
   const temperatureC = s.temperatureC ?? model.site.storeTemperatureC;
@@ -240,18 +292,40 @@ export function buildForecastInput(model: SiteModel, s: SupplySource, opts: Fore
     };
   } else {
     if (!cyl) return { input: null, note: 'Choose the cylinder type of this source.', basis };
-    const cylinderCommon = { gas: s.gasCode, water_capacity_L: cyl.waterCapacityL, fill_gauge_bar: cyl.fillPressureBar, fill_temperature_C: 15, in_use_temperature_C: temperatureC, lead_time_hours: lead, ...reorderFields(s, 'cylinders') };
+    const cylinderCommon = {
+      gas: s.gasCode,
+      water_capacity_L: cyl.waterCapacityL,
+      fill_gauge_bar: cyl.fillPressureBar,
+      fill_temperature_C: 15,
+      in_use_temperature_C: temperatureC,
+      lead_time_hours: lead,
+      ...reorderFields(s, 'cylinders'),
+    };
     if (s.type === 'manifold' && reading.kind === 'bank_gauges') {
       raw = {
         ...common,
         deliveries: deliveries.filter((d) => 'cylinders' in d),
-        source: { type: 'manifold', ...cylinderCommon, cylinders_per_bank: s.cylindersPerBank ?? 1, duty_bank_gauge_bar: Number(detail.dutyBar ?? 0), standby_bank_gauge_bar: Number(detail.standbyBar ?? 0), spare_full: Number(detail.spareFull ?? 0), changeover_gauge_bar: s.changeoverGaugeBar ?? 0 },
+        source: {
+          type: 'manifold',
+          ...cylinderCommon,
+          cylinders_per_bank: s.cylindersPerBank ?? 1,
+          duty_bank_gauge_bar: Number(detail.dutyBar ?? 0),
+          standby_bank_gauge_bar: Number(detail.standbyBar ?? 0),
+          spare_full: Number(detail.spareFull ?? 0),
+          changeover_gauge_bar: s.changeoverGaugeBar ?? 0,
+        },
       };
     } else {
       raw = {
         ...common,
         deliveries: deliveries.filter((d) => 'cylinders' in d),
-        source: { type: 'cylinders', ...cylinderCommon, full: Number(detail.full ?? 0), in_use_gauge_bar: (detail.inUseGaugeBar as number[] | undefined) ?? [], ...(cyl.residualGaugeBar != null ? { residual_gauge_bar: cyl.residualGaugeBar } : {}) },
+        source: {
+          type: 'cylinders',
+          ...cylinderCommon,
+          full: Number(detail.full ?? 0),
+          in_use_gauge_bar: (detail.inUseGaugeBar as number[] | undefined) ?? [],
+          ...(cyl.residualGaugeBar != null ? { residual_gauge_bar: cyl.residualGaugeBar } : {}),
+        },
       };
     }
   }
@@ -341,7 +415,12 @@ export function outlookFor(model: SiteModel, s: SupplySource, opts: ForecastOpti
     const derated = s.vaporiserM3H * (s.vaporiserDerating ?? VAPORISER_DEFAULT_DERATING);
     for (let i = elapsed; i < f.demandLPerHour.length; i++) {
       if (f.demandLPerHour[i] / 1000 > derated) {
-        if (!risk || i + 1 < risk.atHours) risk = { code: 'vaporiser_overload', message: `Demand of ${(f.demandLPerHour[i] / 1000).toFixed(1)} m³/h is above the vaporiser's derated ${derated.toFixed(1)} m³/h.`, atHours: i };
+        if (!risk || i + 1 < risk.atHours)
+          risk = {
+            code: 'vaporiser_overload',
+            message: `Demand of ${(f.demandLPerHour[i] / 1000).toFixed(1)} m³/h is above the vaporiser's derated ${derated.toFixed(1)} m³/h.`,
+            atHours: i,
+          };
         break;
       }
     }

@@ -34,7 +34,11 @@ async function latestReadings(sourceIds: number[]): Promise<SourceReading[]> {
     [sourceIds],
   );
   const ids = rows.filter((r) => r.id !== null).map((r) => Number(r.id));
-  return ids.length ? db().getRepository(SourceReading).find({ where: { id: In(ids) } }) : [];
+  return ids.length
+    ? db()
+        .getRepository(SourceReading)
+        .find({ where: { id: In(ids) } })
+    : [];
 }
 
 export async function loadSiteModels(siteIds: number[], organisationId: number): Promise<SiteModel[]> {
@@ -56,7 +60,9 @@ export async function loadSiteModels(siteIds: number[], organisationId: number):
   const [feeds, therapy, deliveries, latest, recent] = await Promise.all([
     wardIds.length ? ds.getRepository(WardFeed).find({ where: { wardId: In(wardIds) } }) : Promise.resolve([]),
     wardIds.length ? ds.getRepository(TherapyLineRow).find({ where: { wardId: In(wardIds) }, order: { id: 'ASC' } }) : Promise.resolve([]),
-    sourceIds.length ? ds.getRepository(ScheduledDelivery).find({ where: { sourceId: In(sourceIds), status: 'scheduled' }, order: { dueAt: 'ASC' } }) : Promise.resolve([]),
+    sourceIds.length
+      ? ds.getRepository(ScheduledDelivery).find({ where: { sourceId: In(sourceIds), status: 'scheduled' }, order: { dueAt: 'ASC' } })
+      : Promise.resolve([]),
     sourceIds.length ? latestReadings(sourceIds) : Promise.resolve([]),
     sourceIds.length
       ? ds

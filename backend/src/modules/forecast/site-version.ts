@@ -19,7 +19,10 @@ export async function bumpOrganisationSiteVersions(m: EntityManager, organisatio
 
 export async function siteVersions(siteIds: number[], organisationId: number): Promise<Map<number, number>> {
   if (siteIds.length === 0) return new Map();
-  const rows: { id: number; data_version: string | number }[] = await db().query(`SELECT id, data_version FROM site WHERE organisation_id = ? AND id IN (${siteIds.map(() => '?').join(',')})`, [organisationId, ...siteIds]);
+  const rows: { id: number; data_version: string | number }[] = await db().query(
+    `SELECT id, data_version FROM site WHERE organisation_id = ? AND id IN (${siteIds.map(() => '?').join(',')})`,
+    [organisationId, ...siteIds],
+  );
   return new Map(rows.map((r) => [Number(r.id), Number(r.data_version)]));
 }
 

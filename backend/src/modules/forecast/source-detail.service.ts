@@ -67,13 +67,19 @@ function compute(model: SiteModel, s: SupplySource, q: SourceDetailQuery, readin
   // Columns, hourly, rounded for drawing (the CSV export keeps full precision and the demand column).
   const series = hourly ? toChartSeries(hourly.contents, startMs, hourly.from, o.unit) : toChartSeries([], now.getTime(), 0, o.unit);
   const iso = (h: number | null) => (h !== null && Number.isFinite(h) ? new Date(startMs + h * MS_H).toISOString() : null);
-  const band = f?.bands ? { draws: f.bands.draws, drawsOutlastingHorizon: f.bands.drawsOutlastingHorizon, p10: iso(f.bands.p10), p50: iso(f.bands.p50), p90: iso(f.bands.p90) } : null;
+  const band = f?.bands
+    ? { draws: f.bands.draws, drawsOutlastingHorizon: f.bands.drawsOutlastingHorizon, p10: iso(f.bands.p10), p50: iso(f.bands.p50), p90: iso(f.bands.p90) }
+    : null;
   const perCyl = f?.factors.usablePerCylinderL ?? f?.factors.fullCylinderFreeGasL;
   const reference = model.site.referenceCode as ReferenceCode;
   const cyl = s.cylinderTypeId ? model.cylinderTypes.get(s.cylinderTypeId) : undefined;
   const lines = modelledLines(model, s);
   const body = {
-    source: { ...presentSource(s), cylinderTypeName: cyl ? cylinderTypeName(cyl.waterCapacityL, cyl.fillPressureBar) : null, supplierName: s.supplierId ? (model.suppliers.get(s.supplierId)?.name ?? null) : null },
+    source: {
+      ...presentSource(s),
+      cylinderTypeName: cyl ? cylinderTypeName(cyl.waterCapacityL, cyl.fillPressureBar) : null,
+      supplierName: s.supplierId ? (model.suppliers.get(s.supplierId)?.name ?? null) : null,
+    },
     site: { id: model.site.id, name: model.site.name, timeZone: model.site.timeZone, referenceCode: model.site.referenceCode, currency: model.site.currency },
     computedAt: now.toISOString(),
     outlook: overviewRow(model, o),
@@ -81,9 +87,16 @@ function compute(model: SiteModel, s: SupplySource, q: SourceDetailQuery, readin
     band,
     // The level the engine places orders at (in the series' unit), so the chart's line and the orders agree.
     reorderLevel: f?.reorderLevel ?? null,
-    orders: (f?.orders ?? []).map((x) => ({ placedAt: new Date(startMs + x.placedHours * MS_H).toISOString(), arrivesAt: new Date(startMs + x.arrivesHours * MS_H).toISOString(), quantity: x.amount === null ? null : f!.quantityUnit === 'cylinders' && perCyl ? Math.round(x.amount / perCyl) : x.amount, quantityUnit: f!.quantityUnit })),
+    orders: (f?.orders ?? []).map((x) => ({
+      placedAt: new Date(startMs + x.placedHours * MS_H).toISOString(),
+      arrivesAt: new Date(startMs + x.arrivesHours * MS_H).toISOString(),
+      quantity: x.amount === null ? null : f!.quantityUnit === 'cylinders' && perCyl ? Math.round(x.amount / perCyl) : x.amount,
+      quantityUnit: f!.quantityUnit,
+    })),
     manifoldEvents: (f?.manifoldEvents ?? []).map((e) => ({ ...e, at: new Date(startMs + e.atHours * MS_H).toISOString() })),
-    deliveries: model.deliveries.filter((d) => d.sourceId === s.id).map((d) => ({ id: d.id, dueAt: d.dueAt.toISOString(), kg: d.kg, cylinders: d.cylinders, reference: d.reference })),
+    deliveries: model.deliveries
+      .filter((d) => d.sourceId === s.id)
+      .map((d) => ({ id: d.id, dueAt: d.dueAt.toISOString(), kg: d.kg, cylinders: d.cylinders, reference: d.reference })),
     scenarios: model.scenarios.map(presentScenario),
     scenarioId: q.scenario ?? null,
     wardsFed: wardsFedBy(model, s).map(presentWard),
@@ -100,7 +113,9 @@ function compute(model: SiteModel, s: SupplySource, q: SourceDetailQuery, readin
       demandLines: lines.map((l) => ({ label: l.label ?? '', flowLMin: l.flow_L_min, hours: l.hours ?? null, weekdays: l.weekdays ?? null })),
       text: [
         'Hour-by-hour projection in the site’s time zone from the latest reading: each hour removes the demand of the wards this source feeds (therapy lines × device flows, plus leakage)',
-        s.type === 'bulk_liquid' ? 'A bulk tank loses the larger of demand and its normal evaporation (evaporated gas feeds the pipeline; only the excess vents).' : 'Cylinders count in free gas at the reference conditions, from the real-gas equation of state at the fill pressure and the gauge readings.',
+        s.type === 'bulk_liquid'
+          ? 'A bulk tank loses the larger of demand and its normal evaporation (evaporated gas feeds the pipeline; only the excess vents).'
+          : 'Cylinders count in free gas at the reference conditions, from the real-gas equation of state at the fill pressure and the gauge readings.',
         'When contents cross the reorder level an order is placed; it arrives after the lead time and fills to the order-up-to level.',
         `The band is the 10th–90th percentile of the empty time over Monte Carlo draws of day-to-day demand (coefficient of variation ${(o.input?.demand_cv ?? 0.2).toFixed(2)}${measuredDemandCv(model, s).measured ? ', measured from the last three weeks of readings' : ', a default until seven whole days of readings exist'}). Busy and quiet days come in runs: each day’s factor carries ${(o.input?.demand_persistence ?? 0).toFixed(2)} of the day before (a first-order autoregressive model${measuredDemandCv(model, s).persistenceMeasured ? ', fitted from the measured daily use' : ', a default until 14 whole days of readings exist'}).`,
       ],
@@ -124,7 +139,9 @@ async function computed(actor: Actor, id: number, q: SourceDetailQuery): Promise
   return computeOnce(detailCache, key, async () => {
     const [models, readings] = await Promise.all([
       siteModelsAt(new Map([[source.siteId, version]]), organisationId, bucket),
-      db().getRepository(SourceReading).find({ where: { sourceId: id }, order: { takenAt: 'DESC', id: 'DESC' }, take: 20 }),
+      db()
+        .getRepository(SourceReading)
+        .find({ where: { sourceId: id }, order: { takenAt: 'DESC', id: 'DESC' }, take: 20 }),
     ]);
     const model = models.get(source.siteId);
     if (!model) throw notFound('Site');
@@ -145,6 +162,8 @@ export async function sourceForecastCsv(actor: Actor, id: number, q: Omit<Source
   const c = await computed(actor, id, { ...q, draws: 0 });
   const rows: (string | number)[][] = [];
   const h = c.hourly;
-  if (h) for (let i = h.from; i < h.contents.length; i++) rows.push([new Date(h.startMs + (i + 1) * MS_H).toISOString(), Number(h.contents[i].toFixed(3)), Number(h.demandL[i].toFixed(3))]);
+  if (h)
+    for (let i = h.from; i < h.contents.length; i++)
+      rows.push([new Date(h.startMs + (i + 1) * MS_H).toISOString(), Number(h.contents[i].toFixed(3)), Number(h.demandL[i].toFixed(3))]);
   return { filename: `forecast-source-${id}.csv`, csv: toCsv(['time_utc', `contents_${c.unit}`, 'demand_L_free_gas'], rows) };
 }

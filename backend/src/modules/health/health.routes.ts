@@ -56,5 +56,7 @@ export function healthRoutes(): RouteDef[] {
 
 /** One small read the way services read (repository, find options, order): throws if that path is broken. */
 async function readThroughRepository(): Promise<void> {
-  await db().getRepository(Organisation).find({ select: { id: true }, order: { id: 'ASC' }, take: 1 });
+  await db()
+    .getRepository(Organisation)
+    .find({ select: { id: true }, order: { id: 'ASC' }, take: 1 });
 }

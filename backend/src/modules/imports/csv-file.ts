@@ -23,7 +23,10 @@ export const MAX_LINE_CHARS = 64 * 1024;
 const HEAD_BYTES = 2 * (MAX_LINE_CHARS + 2);
 
 function lineTooLong(line: number) {
-  return badRequest(`The file cannot be read: line ${line} is too long (limit ${MAX_LINE_CHARS.toLocaleString('en-GB')} characters). Check that it is a CSV export with one record per line`, [{ path: 'file', message: `line ${line} too long (limit ${MAX_LINE_CHARS})` }]);
+  return badRequest(
+    `The file cannot be read: line ${line} is too long (limit ${MAX_LINE_CHARS.toLocaleString('en-GB')} characters). Check that it is a CSV export with one record per line`,
+    [{ path: 'file', message: `line ${line} too long (limit ${MAX_LINE_CHARS})` }],
+  );
 }
 
 /**
@@ -43,7 +46,9 @@ export async function inspectCsvFile(path: string): Promise<FileInspection> {
   for await (const chunk of createReadStream(path, { highWaterMark: 1 << 20 }) as AsyncIterable<Buffer>) {
     if (size === 0) {
       if ((chunk[0] === 0xff && chunk[1] === 0xfe) || (chunk[0] === 0xfe && chunk[1] === 0xff)) {
-        throw badRequest('The file is UTF-16 text, not UTF-8: in your spreadsheet choose “Save as → CSV UTF-8 (comma delimited)” and upload that file', [{ path: 'file', message: 'UTF-16 encoding' }]);
+        throw badRequest('The file is UTF-16 text, not UTF-8: in your spreadsheet choose “Save as → CSV UTF-8 (comma delimited)” and upload that file', [
+          { path: 'file', message: 'UTF-16 encoding' },
+        ]);
       }
     }
     hash.update(chunk);
@@ -69,12 +74,17 @@ export async function inspectCsvFile(path: string): Promise<FileInspection> {
   try {
     decoder.decode();
   } catch {
-    throw badRequest('The file is not UTF-8 text (it ends in the middle of a character): save it as “CSV UTF-8” and upload again', [{ path: 'file', message: 'not UTF-8' }]);
+    throw badRequest('The file is not UTF-8 text (it ends in the middle of a character): save it as “CSV UTF-8” and upload again', [
+      { path: 'file', message: 'not UTF-8' },
+    ]);
   }
   if (size > 0 && lastByte !== 0x0a) lines++;
   if (head.charCodeAt(0) === 0xfeff) head = head.slice(1);
   if (head.trim() === '') throw badRequest('The file is empty: it has no header and no rows', [{ path: 'file', message: 'empty file' }]);
-  if (head.includes('\u0000')) throw badRequest('The file holds binary data, not CSV text: export it from the spreadsheet as CSV UTF-8', [{ path: 'file', message: 'not a CSV text file' }]);
+  if (head.includes('\u0000'))
+    throw badRequest('The file holds binary data, not CSV text: export it from the spreadsheet as CSV UTF-8', [
+      { path: 'file', message: 'not a CSV text file' },
+    ]);
 
   // Every line of the head (the last one may be cut off, but is then at least this long) within the limit.
   const headLines = head.split('\n');
@@ -85,12 +95,19 @@ export async function inspectCsvFile(path: string): Promise<FileInspection> {
   const cut = head.length >= HEAD_BYTES ? head.slice(0, head.lastIndexOf('\n') + 1) : head;
   let records: string[][];
   try {
-    records = parseSync(cut, { delimiter: separator, relax_column_count: true, relax_quotes: true, skip_empty_lines: true, to_line: SAMPLE_ROWS + 1 }) as string[][];
+    records = parseSync(cut, {
+      delimiter: separator,
+      relax_column_count: true,
+      relax_quotes: true,
+      skip_empty_lines: true,
+      to_line: SAMPLE_ROWS + 1,
+    }) as string[][];
   } catch (e) {
     throw badRequest(`The file cannot be read as CSV: ${(e as Error).message}`, [{ path: 'file', message: 'not CSV' }]);
   }
   const header = (records[0] ?? []).map((h) => h.trim());
-  if (header.length === 0 || header.every((h) => h === '')) throw badRequest('The first line of the file is empty: it should hold the column names', [{ path: 'file', message: 'no header' }]);
+  if (header.length === 0 || header.every((h) => h === ''))
+    throw badRequest('The first line of the file is empty: it should hold the column names', [{ path: 'file', message: 'no header' }]);
   const sample = records.slice(1);
   if (sample.length === 0) throw badRequest('The file has a header row but no data rows', [{ path: 'file', message: 'no rows' }]);
   return { sha256: hash.digest('hex'), sizeBytes: size, lineCount: lines, separator, header, sample };
@@ -132,7 +149,17 @@ export function sniffSeparator(line: string): ',' | ';' {
  * (rare in these exports).
  */
 export async function* readCsvChunks(path: string, separator: ',' | ';'): AsyncGenerator<{ firstLine: number; records: string[][] }> {
-  const parser = createReadStream(path, { highWaterMark: 1 << 20 }).pipe(parseStream({ delimiter: separator, bom: true, relax_column_count: true, relax_quotes: true, skip_empty_lines: false, from_line: 2, max_record_size: MAX_LINE_CHARS }));
+  const parser = createReadStream(path, { highWaterMark: 1 << 20 }).pipe(
+    parseStream({
+      delimiter: separator,
+      bom: true,
+      relax_column_count: true,
+      relax_quotes: true,
+      skip_empty_lines: false,
+      from_line: 2,
+      max_record_size: MAX_LINE_CHARS,
+    }),
+  );
   let line = 2;
   let failure: Error | null = null;
   let ended = false;

@@ -12,7 +12,9 @@ describe('batchStatement', () => {
       [7, '2026-01-01 00:01:00.000', 'level_percent', 49.9, null, 4990, 'import', 3, ''],
     ];
     const st = batchStatement('tank_readings', rows, esc);
-    expect(st.sql).toBe("INSERT INTO source_reading (source_id, taken_at, kind, value, detail_json, contents, method, taken_by_user_id, note) VALUES (7, ?, 'level_percent', ?, NULL, ?, 'import', 3, '')");
+    expect(st.sql).toBe(
+      "INSERT INTO source_reading (source_id, taken_at, kind, value, detail_json, contents, method, taken_by_user_id, note) VALUES (7, ?, 'level_percent', ?, NULL, ?, 'import', 3, '')",
+    );
     expect(st.params).toEqual([
       ['2026-01-01 00:00:00.000', 50, 4990 + 10],
       ['2026-01-01 00:01:00.000', 49.9, 4990],
@@ -21,10 +23,14 @@ describe('batchStatement', () => {
   it('keeps every column a parameter for a single row, and escapes what it inlines', () => {
     const one = batchStatement('tank_readings', [[7, 't', 'kg', 1, null, 1, 'import', null, "O'Brien"]], esc);
     expect(one.sql).toMatch(/VALUES \(\?, \?, \?, \?, \?, \?, \?, \?, \?\)$/);
-    const two = batchStatement('tank_readings', [
-      [7, 't1', 'kg', 1, null, 1, 'import', null, "O'Brien"],
-      [7, 't2', 'kg', 2, null, 2, 'import', null, "O'Brien"],
-    ], esc);
+    const two = batchStatement(
+      'tank_readings',
+      [
+        [7, 't1', 'kg', 1, null, 1, 'import', null, "O'Brien"],
+        [7, 't2', 'kg', 2, null, 2, 'import', null, "O'Brien"],
+      ],
+      esc,
+    );
     expect(two.sql).toContain("'O''Brien'");
     expect(two.sql).toContain('NULL, ?');
   });
@@ -45,7 +51,10 @@ describe('parseTimeCell', () => {
     // UK clocks: forward 29 March 2026 01:00 GMT, back 25 October 2026 02:00 BST (IANA tz database).
     expect(parseTimeCell('2026-03-29T01:30', 'Europe/London', 'ymd', true)).toMatch(/does not exist/);
     const autumn = parseTimeCell('2026-10-25T01:30', 'Europe/London', 'ymd', true);
-    expect(typeof autumn === 'object' && [new Date(autumn.ms).toISOString(), new Date(autumn.altMs!).toISOString()]).toEqual(['2026-10-25T00:30:00.000Z', '2026-10-25T01:30:00.000Z']);
+    expect(typeof autumn === 'object' && [new Date(autumn.ms).toISOString(), new Date(autumn.altMs!).toISOString()]).toEqual([
+      '2026-10-25T00:30:00.000Z',
+      '2026-10-25T01:30:00.000Z',
+    ]);
   });
   it('says what is wrong with a bad cell', () => {
     expect(parseTimeCell('2026-02-29 08:00', 'UTC', 'ymd', true)).toBe('not a calendar date'); // 2026 is not a leap year
@@ -70,7 +79,14 @@ describe('parseTimeCell against luxon (property test)', () => {
     s: fc.option(fc.integer({ min: 0, max: 59 })),
     ms: fc.option(fc.integer({ min: 0, max: 999 })),
     sep: fc.constantFrom('T', ' '),
-    offset: fc.option(fc.oneof(fc.constant('Z'), fc.tuple(fc.constantFrom('+', '-'), fc.integer({ min: 0, max: 14 }), fc.constantFrom(0, 30, 45)).map(([sg, h, m]) => `${sg}${p2(h)}:${p2(h === 14 ? 0 : m)}`))),
+    offset: fc.option(
+      fc.oneof(
+        fc.constant('Z'),
+        fc
+          .tuple(fc.constantFrom('+', '-'), fc.integer({ min: 0, max: 14 }), fc.constantFrom(0, 30, 45))
+          .map(([sg, h, m]) => `${sg}${p2(h)}:${p2(h === 14 ? 0 : m)}`),
+      ),
+    ),
     zone: fc.constantFrom(...zones),
   });
 

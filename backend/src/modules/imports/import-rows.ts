@@ -59,8 +59,14 @@ export type RowParser = ((record: string[], line: number, onError: (e: ImportRow
 
 /** Where each kind's rows go: the table and the columns of `ParsedRow.values`, in order. */
 export const INSERT_TARGET: Record<ImportKind, { table: string; columns: readonly string[] }> = {
-  tank_readings: { table: 'source_reading', columns: ['source_id', 'taken_at', 'kind', 'value', 'detail_json', 'contents', 'method', 'taken_by_user_id', 'note'] },
-  store_counts: { table: 'source_reading', columns: ['source_id', 'taken_at', 'kind', 'value', 'detail_json', 'contents', 'method', 'taken_by_user_id', 'note'] },
+  tank_readings: {
+    table: 'source_reading',
+    columns: ['source_id', 'taken_at', 'kind', 'value', 'detail_json', 'contents', 'method', 'taken_by_user_id', 'note'],
+  },
+  store_counts: {
+    table: 'source_reading',
+    columns: ['source_id', 'taken_at', 'kind', 'value', 'detail_json', 'contents', 'method', 'taken_by_user_id', 'note'],
+  },
   flow_meter_totals: { table: 'flow_meter_reading', columns: ['site_id', 'ward_id', 'source_id', 'taken_at', 'total_l', 'note', 'import_job_id'] },
   historic_usage: { table: 'usage_history', columns: ['site_id', 'ward_id', 'gas_code', 'usage_date', 'volume_l', 'note', 'import_job_id'] },
 };
@@ -147,7 +153,15 @@ const wallFormats = new Map<string, Intl.DateTimeFormat>();
 function wallClockOf(ms: number, zone: string): string {
   let f = wallFormats.get(zone);
   if (!f) {
-    f = new Intl.DateTimeFormat('sv-SE', { timeZone: zone, year: 'numeric', month: '2-digit', day: '2-digit', hour: '2-digit', minute: '2-digit', hourCycle: 'h23' });
+    f = new Intl.DateTimeFormat('sv-SE', {
+      timeZone: zone,
+      year: 'numeric',
+      month: '2-digit',
+      day: '2-digit',
+      hour: '2-digit',
+      minute: '2-digit',
+      hourCycle: 'h23',
+    });
     if (wallFormats.size < 100) wallFormats.set(zone, f);
   }
   return f.format(new Date(ms)).replace(' ', 'T');
@@ -283,7 +297,13 @@ function parseIsoFast(text: string, zone: string, needTime: boolean, out: Parsed
  * local time (IANA zone); a time skipped by the spring clock change is an error; a time in the repeated
  * autumn hour gives both candidates. Returns a reason string when the cell cannot be read.
  */
-export function parseTimeCell(text: string, zone: string, order: DateOrder, needTime: boolean, out: ParsedTime = { ms: 0, altMs: null, hasTime: false, date: '' }): ParsedTime | string {
+export function parseTimeCell(
+  text: string,
+  zone: string,
+  order: DateOrder,
+  needTime: boolean,
+  out: ParsedTime = { ms: 0, altMs: null, hasTime: false, date: '' },
+): ParsedTime | string {
   if (text === '') return 'missing';
   const fast = parseIsoFast(text, zone, needTime, out);
   if (fast === true) return out;
@@ -337,7 +357,20 @@ export function parseTimeCell(text: string, zone: string, order: DateOrder, need
 
 // ---------- units ----------
 
-const TANK_UNITS: Record<string, ReadingInput['kind']> = { '%': 'level_percent', percent: 'level_percent', pct: 'level_percent', level_percent: 'level_percent', kg: 'kg', l: 'litres_liquid', litres: 'litres_liquid', liters: 'litres_liquid', litres_liquid: 'litres_liquid', l_liquid: 'litres_liquid', dp: 'calibration', calibration: 'calibration' };
+const TANK_UNITS: Record<string, ReadingInput['kind']> = {
+  '%': 'level_percent',
+  percent: 'level_percent',
+  pct: 'level_percent',
+  level_percent: 'level_percent',
+  kg: 'kg',
+  l: 'litres_liquid',
+  litres: 'litres_liquid',
+  liters: 'litres_liquid',
+  litres_liquid: 'litres_liquid',
+  l_liquid: 'litres_liquid',
+  dp: 'calibration',
+  calibration: 'calibration',
+};
 const VOLUME_UNITS: Record<string, number> = { l: 1, litres: 1, liters: 1, m3: 1000, 'm³': 1000, cubic_metres: 1000, cubic_meters: 1000 };
 
 const unitKey = (u: string) => u.trim().toLowerCase().replace(/³/g, '3').replace(/\s+/g, '_');
@@ -354,7 +387,8 @@ export function volumeUnitFactor(unit: string): number | null {
 }
 
 export function unitsAccepted(kind: ImportKind, source: SupplySource | null): string {
-  if (kind === 'tank_readings') return `%, kg, L (litres of liquid)${source?.calibrationUnit ? ` or ${source.calibrationUnit}` : ' or the tank’s calibration unit'}`;
+  if (kind === 'tank_readings')
+    return `%, kg, L (litres of liquid)${source?.calibrationUnit ? ` or ${source.calibrationUnit}` : ' or the tank’s calibration unit'}`;
   if (kind === 'flow_meter_totals' || kind === 'historic_usage') return 'L or m3';
   return '';
 }
@@ -495,18 +529,33 @@ export function createRowParser(ctx: RowContext): RowParser {
     const source = sourceOf(record, line, 'tank');
     const unitText = cell(record, c.unit) || ctx.defaultUnit || '';
     const kind = unitText ? tankUnitKind(unitText, source) : null;
-    if (!kind) report({ row: line, column: label('unit'), value: clip(unitText), reason: unitText ? `not a unit of a tank reading: use ${unitsAccepted('tank_readings', source)}` : 'missing: fill the unit column or choose the unit on upload' });
+    if (!kind)
+      report({
+        row: line,
+        column: label('unit'),
+        value: clip(unitText),
+        reason: unitText
+          ? `not a unit of a tank reading: use ${unitsAccepted('tank_readings', source)}`
+          : 'missing: fill the unit column or choose the unit on upload',
+      });
     const levelText = cell(record, c.level);
     const value = numberOf(levelText, comma);
     if (Number.isNaN(value)) report({ row: line, column: label('level'), value: clip(levelText), reason: levelText === '' ? 'missing' : 'not a number' });
-    else if (kind === 'level_percent' && (value < 0 || value > 100)) report({ row: line, column: label('level'), value: clip(levelText), reason: 'a level is 0–100 %' });
-    else if ((kind === 'kg' || kind === 'litres_liquid') && value < 0) report({ row: line, column: label('level'), value: clip(levelText), reason: 'cannot be negative' });
+    else if (kind === 'level_percent' && (value < 0 || value > 100))
+      report({ row: line, column: label('level'), value: clip(levelText), reason: 'a level is 0–100 %' });
+    else if ((kind === 'kg' || kind === 'litres_liquid') && value < 0)
+      report({ row: line, column: label('level'), value: clip(levelText), reason: 'cannot be negative' });
     const at = timeOf(record, line, source?.id ?? 0);
     const note = noteOf(record, line);
     if (errs !== before || !source || !kind || at === null || note === null) return null;
     const contents = contentsOf(source, { kind, value, takenAt: '', method: 'import', note } as ReadingInput, line, label('level'), levelText);
     if (contents === null) return null;
-    return { values: [source.id, formatUtc(at), kind, value, null, contents, 'import', ctx.userId, note], dupKey: keyOf(source.id, at), targetId: source.id, atMs: at };
+    return {
+      values: [source.id, formatUtc(at), kind, value, null, contents, 'import', ctx.userId, note],
+      dupKey: keyOf(source.id, at),
+      targetId: source.id,
+      atMs: at,
+    };
   };
 
   const storeRow = (record: string[], line: number): ParsedRow | null => {
@@ -532,7 +581,12 @@ export function createRowParser(ctx: RowContext): RowParser {
     const reading = { kind: 'store_count', full, inUseGaugeBar: gauges, empty, takenAt: '', method: 'import', note } as ReadingInput;
     const contents = contentsOf(source, reading, line, label('full'), String(full));
     if (contents === null) return null;
-    return { values: [source.id, formatUtc(at), 'store_count', null, JSON.stringify({ full, inUseGaugeBar: gauges, empty }), contents, 'import', ctx.userId, note], dupKey: keyOf(source.id, at), targetId: source.id, atMs: at };
+    return {
+      values: [source.id, formatUtc(at), 'store_count', null, JSON.stringify({ full, inUseGaugeBar: gauges, empty }), contents, 'import', ctx.userId, note],
+      dupKey: keyOf(source.id, at),
+      targetId: source.id,
+      atMs: at,
+    };
   };
 
   const meterTarget = ctx.defaultWard;
@@ -541,14 +595,26 @@ export function createRowParser(ctx: RowContext): RowParser {
     const before = errs;
     const unitText = cell(record, c.unit) || ctx.defaultUnit || '';
     const factor = unitText ? volumeUnitFactor(unitText) : null;
-    if (factor === null) report({ row: line, column: label('unit'), value: clip(unitText), reason: unitText ? 'use L or m3 (free gas at the reference conditions)' : 'missing: fill the unit column or choose the unit on upload' });
+    if (factor === null)
+      report({
+        row: line,
+        column: label('unit'),
+        value: clip(unitText),
+        reason: unitText ? 'use L or m3 (free gas at the reference conditions)' : 'missing: fill the unit column or choose the unit on upload',
+      });
     const totalText = cell(record, c.total);
     const total = numberOf(totalText, comma);
-    if (Number.isNaN(total) || total < 0) report({ row: line, column: label('total'), value: clip(totalText), reason: totalText === '' ? 'missing' : 'a meter total is a number from 0' });
+    if (Number.isNaN(total) || total < 0)
+      report({ row: line, column: label('total'), value: clip(totalText), reason: totalText === '' ? 'missing' : 'a meter total is a number from 0' });
     const at = timeOf(record, line, meterTarget?.id ?? 0);
     const note = noteOf(record, line);
     if (errs !== before || factor === null || at === null || note === null || !meterTarget) return null;
-    return { values: [ctx.site.id, meterIsWard ? meterTarget.id : null, meterIsWard ? null : meterTarget.id, formatUtc(at), total * factor, note, ctx.jobId], dupKey: keyOf(meterTarget.id, at), targetId: meterTarget.id, atMs: at };
+    return {
+      values: [ctx.site.id, meterIsWard ? meterTarget.id : null, meterIsWard ? null : meterTarget.id, formatUtc(at), total * factor, note, ctx.jobId],
+      dupKey: keyOf(meterTarget.id, at),
+      targetId: meterTarget.id,
+      atMs: at,
+    };
   };
 
   const historyRow = (record: string[], line: number): ParsedRow | null => {
@@ -566,19 +632,32 @@ export function createRowParser(ctx: RowContext): RowParser {
     }
     const wardText = cell(record, c.ward);
     const ward = wardText ? ctx.wards.get(wardText.toLowerCase()) : undefined;
-    if (!ward) report({ row: line, column: label('ward'), value: clip(wardText), reason: wardText ? 'no ward with this name or number on this site' : 'missing' });
+    if (!ward)
+      report({ row: line, column: label('ward'), value: clip(wardText), reason: wardText ? 'no ward with this name or number on this site' : 'missing' });
     const gasText = cell(record, c.gas) || 'O2';
     const gi = gasIndex.get(gasText.toLowerCase());
     if (gi === undefined) report({ row: line, column: label('gas'), value: clip(gasText), reason: `not a gas code: ${GAS_CODES_CATALOGUE.join(', ')}` });
     const unitText = cell(record, c.unit) || ctx.defaultUnit || '';
     const factor = unitText ? volumeUnitFactor(unitText) : null;
-    if (factor === null) report({ row: line, column: label('unit'), value: clip(unitText), reason: unitText ? 'use L or m3 (free gas at the reference conditions)' : 'missing: fill the unit column or choose the unit on upload' });
+    if (factor === null)
+      report({
+        row: line,
+        column: label('unit'),
+        value: clip(unitText),
+        reason: unitText ? 'use L or m3 (free gas at the reference conditions)' : 'missing: fill the unit column or choose the unit on upload',
+      });
     const volText = cell(record, c.volume);
     const vol = numberOf(volText, comma);
-    if (Number.isNaN(vol) || vol < 0) report({ row: line, column: label('volume'), value: clip(volText), reason: volText === '' ? 'missing' : 'a volume is a number from 0' });
+    if (Number.isNaN(vol) || vol < 0)
+      report({ row: line, column: label('volume'), value: clip(volText), reason: volText === '' ? 'missing' : 'a volume is a number from 0' });
     const note = noteOf(record, line);
     if (errs !== before || !ward || gi === undefined || factor === null || date === null || note === null) return null;
-    return { values: [ctx.site.id, ward.id, GAS_CODES_CATALOGUE[gi], date, vol * factor, note, ctx.jobId], dupKey: keyOf(ward.id, dayMs, GAS_CODES_CATALOGUE[gi]), targetId: ward.id, atMs: dayMs };
+    return {
+      values: [ctx.site.id, ward.id, GAS_CODES_CATALOGUE[gi], date, vol * factor, note, ctx.jobId],
+      dupKey: keyOf(ward.id, dayMs, GAS_CODES_CATALOGUE[gi]),
+      targetId: ward.id,
+      atMs: dayMs,
+    };
   };
 
   const row = ctx.kind === 'tank_readings' ? tankRow : ctx.kind === 'store_counts' ? storeRow : ctx.kind === 'flow_meter_totals' ? meterRow : historyRow;
@@ -586,7 +665,8 @@ export function createRowParser(ctx: RowContext): RowParser {
     sink = onError;
     return row(record, line);
   };
-  const groupOf = (targetId: number, gasCode?: string): number => (ctx.kind === 'historic_usage' ? indexOf(targetId) * 32 + (gasIndex.get((gasCode ?? 'O2').toLowerCase()) ?? 0) : indexOf(targetId));
+  const groupOf = (targetId: number, gasCode?: string): number =>
+    ctx.kind === 'historic_usage' ? indexOf(targetId) * 32 + (gasIndex.get((gasCode ?? 'O2').toLowerCase()) ?? 0) : indexOf(targetId);
   return Object.assign(parse, { keyOf, groupOf });
 }
 /** True for a record that is an empty line (csv-parse passes it through as one empty field). */

@@ -148,10 +148,22 @@ function previewOf(l: Loaded, line: number, r: ParsedRow): Record<string, unknow
   const zone = l.ctx.site.timeZone;
   switch (l.ctx.kind) {
     case 'tank_readings':
-      return { row: line, time: localText(r.atMs, zone), target: l.names.get(r.targetId), reading: `${v[3]} ${v[2] === 'level_percent' ? '%' : v[2] === 'kg' ? 'kg' : v[2] === 'litres_liquid' ? 'L liquid' : 'calibration'}`, contents: `${Math.round(Number(v[5]))} kg` };
+      return {
+        row: line,
+        time: localText(r.atMs, zone),
+        target: l.names.get(r.targetId),
+        reading: `${v[3]} ${v[2] === 'level_percent' ? '%' : v[2] === 'kg' ? 'kg' : v[2] === 'litres_liquid' ? 'L liquid' : 'calibration'}`,
+        contents: `${Math.round(Number(v[5]))} kg`,
+      };
     case 'store_counts': {
       const d = JSON.parse(String(v[4])) as { full: number; inUseGaugeBar: number[]; empty: number };
-      return { row: line, time: localText(r.atMs, zone), target: l.names.get(r.targetId), reading: `${d.full} full, ${d.inUseGaugeBar.length} in use, ${d.empty} empty`, contents: `${Math.round(Number(v[5]))} L` };
+      return {
+        row: line,
+        time: localText(r.atMs, zone),
+        target: l.names.get(r.targetId),
+        reading: `${d.full} full, ${d.inUseGaugeBar.length} in use, ${d.empty} empty`,
+        contents: `${Math.round(Number(v[5]))} L`,
+      };
     }
     case 'flow_meter_totals':
       return { row: line, time: localText(r.atMs, zone), target: l.names.get(r.targetId), reading: `${Math.round(Number(v[4]))} L total`, contents: null };
@@ -171,7 +183,9 @@ async function tick(jobId: number, workerId: string, processed: number, signal: 
     .execute();
   if (!res.affected) throw new Stop('lost');
   if (watchCancel) {
-    const row = await db().getRepository(ImportJob).findOne({ select: { id: true, cancelRequested: true }, where: { id: jobId } });
+    const row = await db()
+      .getRepository(ImportJob)
+      .findOne({ select: { id: true, cancelRequested: true }, where: { id: jobId } });
     if (row?.cancelRequested) throw new Stop('cancelled');
   }
   if (signal.stopping) throw new Stop('shutdown');
@@ -232,7 +246,12 @@ async function validateLoaded(l: Loaded, job: ImportJob, workerId: string, signa
         if (!r) continue;
         const first = keys.add(parse.groupOf(r.targetId, ctx.kind === 'historic_usage' ? String(r.values[2]) : undefined), r.atMs, r.dupKey, line);
         if (first) {
-          onError({ row: line, column: timeLabel(ctx.kind), value: ctx.kind === 'historic_usage' ? String(r.values[3]) : localText(r.atMs, ctx.site.timeZone), reason: `repeats row ${first} (same ${slotWord(ctx.kind)})` });
+          onError({
+            row: line,
+            column: timeLabel(ctx.kind),
+            value: ctx.kind === 'historic_usage' ? String(r.values[3]) : localText(r.atMs, ctx.site.timeZone),
+            reason: `repeats row ${first} (same ${slotWord(ctx.kind)})`,
+          });
           continue;
         }
         const g = ranges.get(r.targetId);
@@ -254,7 +273,14 @@ async function validateLoaded(l: Loaded, job: ImportJob, workerId: string, signa
       return;
     }
     if ((e as { code?: string }).code === 'invalid_input') {
-      await finish(job.id, workerId, 'validating', { status: 'invalid', message: (e as Error).message, errorCount: errorCount + 1, errorsJson: JSON.stringify(errors), totalRows: rows, processedRows: rows });
+      await finish(job.id, workerId, 'validating', {
+        status: 'invalid',
+        message: (e as Error).message,
+        errorCount: errorCount + 1,
+        errorsJson: JSON.stringify(errors),
+        totalRows: rows,
+        processedRows: rows,
+      });
       return;
     }
     throw e;
@@ -287,7 +313,12 @@ async function validateLoaded(l: Loaded, job: ImportJob, workerId: string, signa
 }
 
 /** Rows whose slot (target and time, or ward, gas and day) is stored already: found by streaming the stored keys. */
-async function checkStored(l: Loaded, keys: SlotTracker, ranges: Map<number, { min: number; max: number }>, onError: (e: ImportRowError) => void): Promise<void> {
+async function checkStored(
+  l: Loaded,
+  keys: SlotTracker,
+  ranges: Map<number, { min: number; max: number }>,
+  onError: (e: ImportRowError) => void,
+): Promise<void> {
   const { ctx, parse } = l;
   const conn = await bulkPool().getConnection();
   try {
@@ -310,7 +341,16 @@ async function checkStored(l: Loaded, keys: SlotTracker, ranges: Map<number, { m
       for await (const row of stream as AsyncIterable<{ t?: Date; d?: string; g?: string }>) {
         const at = row.t ? row.t.getTime() : Date.UTC(+row.d!.slice(0, 4), +row.d!.slice(5, 7) - 1, +row.d!.slice(8, 10));
         const line = keys.lineOf(parse.groupOf(targetId, row.g), at, parse.keyOf(targetId, at, row.g));
-        if (line) onError({ row: line, column: timeLabel(ctx.kind), value: row.d ?? localText(at, ctx.site.timeZone), reason: ctx.kind === 'historic_usage' ? 'usage for this ward, gas and day is stored already' : 'a reading at this time is stored already (imported before?)' });
+        if (line)
+          onError({
+            row: line,
+            column: timeLabel(ctx.kind),
+            value: row.d ?? localText(at, ctx.site.timeZone),
+            reason:
+              ctx.kind === 'historic_usage'
+                ? 'usage for this ward, gas and day is stored already'
+                : 'a reading at this time is stored already (imported before?)',
+          });
       }
     }
   } finally {
@@ -400,7 +440,11 @@ async function importLoaded(l: Loaded, job: ImportJob, workerId: string, signal:
     if (inflight) await inflight;
     await tick(job.id, workerId, rows, signal, true);
     if (recheck) await checkNoRepeats(conn, ctx.kind, ranges, ctx);
-    const who = job.committedByUserId ? await db().getRepository(User).findOne({ select: { id: true, email: true }, where: { id: job.committedByUserId } }) : null;
+    const who = job.committedByUserId
+      ? await db()
+          .getRepository(User)
+          .findOne({ select: { id: true, email: true }, where: { id: job.committedByUserId } })
+      : null;
     await conn.query('INSERT INTO audit_log (organisation_id, user_id, user_email, action, entity, entity_id, after_json) VALUES (?, ?, ?, ?, ?, ?, ?)', [
       job.organisationId,
       job.committedByUserId,
@@ -408,35 +452,74 @@ async function importLoaded(l: Loaded, job: ImportJob, workerId: string, signal:
       'import',
       'import_job',
       String(job.id),
-      JSON.stringify({ kind: ctx.kind, file: l.file.originalName, sha256: l.file.sha256, rows: inserted, targets: [...ranges.keys()].map((id) => ({ id, name: l.names.get(id) })) }),
+      JSON.stringify({
+        kind: ctx.kind,
+        file: l.file.originalName,
+        sha256: l.file.sha256,
+        rows: inserted,
+        targets: [...ranges.keys()].map((id) => ({ id, name: l.names.get(id) })),
+      }),
     ]);
     // Last look at the cancel flag before the point of no return.
     await tick(job.id, workerId, rows, signal, true);
     await conn.commit();
-    await finish(job.id, workerId, 'running', { status: 'done', insertedRows: inserted, processedRows: rows, finishedAt: new Date(), message: `${inserted.toLocaleString('en-GB')} rows imported.` });
+    await finish(job.id, workerId, 'running', {
+      status: 'done',
+      insertedRows: inserted,
+      processedRows: rows,
+      finishedAt: new Date(),
+      message: `${inserted.toLocaleString('en-GB')} rows imported.`,
+    });
     await removeFile(l.file);
   } catch (e) {
     if (inflight) await (inflight as Promise<void>).catch(() => undefined);
     await conn.rollback().catch(() => undefined);
     if (e instanceof Stop) {
       if (e.why === 'cancelled') {
-        await finish(job.id, workerId, 'running', { status: 'cancelled', finishedAt: new Date(), insertedRows: 0, message: `Cancelled after ${rows.toLocaleString('en-GB')} rows: the import was rolled back and nothing was written.` });
+        await finish(job.id, workerId, 'running', {
+          status: 'cancelled',
+          finishedAt: new Date(),
+          insertedRows: 0,
+          message: `Cancelled after ${rows.toLocaleString('en-GB')} rows: the import was rolled back and nothing was written.`,
+        });
         await removeFile(l.file);
       } else if (e.why === 'shutdown') {
-        await finish(job.id, workerId, 'running', { status: 'queued', workerId: null, processedRows: 0, message: 'Interrupted by a restart (nothing was written): it will run again.' });
+        await finish(job.id, workerId, 'running', {
+          status: 'queued',
+          workerId: null,
+          processedRows: 0,
+          message: 'Interrupted by a restart (nothing was written): it will run again.',
+        });
       }
       return;
     }
     if (e instanceof RowFailure) {
-      await finish(job.id, workerId, 'running', { status: 'failed', finishedAt: new Date(), insertedRows: 0, errorCount: e.errors.length || 1, errorsJson: JSON.stringify(e.errors), message: `${e.message}. The import stopped and was rolled back: nothing was written. Check the file and upload it again.` });
+      await finish(job.id, workerId, 'running', {
+        status: 'failed',
+        finishedAt: new Date(),
+        insertedRows: 0,
+        errorCount: e.errors.length || 1,
+        errorsJson: JSON.stringify(e.errors),
+        message: `${e.message}. The import stopped and was rolled back: nothing was written. Check the file and upload it again.`,
+      });
       return;
     }
     if (isDuplicateKey(e)) {
-      await finish(job.id, workerId, 'running', { status: 'failed', finishedAt: new Date(), insertedRows: 0, message: 'A row repeats data stored already (it arrived after the check). Nothing was written.' });
+      await finish(job.id, workerId, 'running', {
+        status: 'failed',
+        finishedAt: new Date(),
+        insertedRows: 0,
+        message: 'A row repeats data stored already (it arrived after the check). Nothing was written.',
+      });
       return;
     }
     logger.error(`import #${job.id} failed: ${(e as Error).stack ?? e}`);
-    await finish(job.id, workerId, 'running', { status: 'failed', finishedAt: new Date(), insertedRows: 0, message: `The import failed (${(e as Error).message.slice(0, 200)}). It was rolled back: nothing was written.` });
+    await finish(job.id, workerId, 'running', {
+      status: 'failed',
+      finishedAt: new Date(),
+      insertedRows: 0,
+      message: `The import failed (${(e as Error).message.slice(0, 200)}). It was rolled back: nothing was written.`,
+    });
   } finally {
     conn.release();
   }
@@ -467,13 +550,17 @@ async function checkNoRepeats(conn: PoolConnection, kind: ImportKind, ranges: Ma
   const table = kind === 'flow_meter_totals' ? 'flow_meter_reading' : 'source_reading';
   const col = kind === 'flow_meter_totals' ? (ctx.defaultWard && !('type' in ctx.defaultWard) ? 'ward_id' : 'source_id') : 'source_id';
   for (const [targetId, g] of ranges) {
-    const rows: { t: Date }[] = await conn.query(`SELECT taken_at AS t FROM ${table} WHERE ${col} = ? AND taken_at BETWEEN ? AND ? GROUP BY taken_at HAVING COUNT(*) > 1 LIMIT 5`, [
-      targetId,
-      new Date(g.min).toISOString().slice(0, 23).replace('T', ' '),
-      new Date(g.max).toISOString().slice(0, 23).replace('T', ' '),
-    ]);
+    const rows: { t: Date }[] = await conn.query(
+      `SELECT taken_at AS t FROM ${table} WHERE ${col} = ? AND taken_at BETWEEN ? AND ? GROUP BY taken_at HAVING COUNT(*) > 1 LIMIT 5`,
+      [targetId, new Date(g.min).toISOString().slice(0, 23).replace('T', ' '), new Date(g.max).toISOString().slice(0, 23).replace('T', ' ')],
+    );
     if (rows.length) {
-      const errors = rows.map((r) => ({ row: 0, column: timeLabel(kind), value: localText(r.t.getTime(), ctx.site.timeZone), reason: 'a reading at this time is stored already' }));
+      const errors = rows.map((r) => ({
+        row: 0,
+        column: timeLabel(kind),
+        value: localText(r.t.getTime(), ctx.site.timeZone),
+        reason: 'a reading at this time is stored already',
+      }));
       throw new RowFailure(errors, `${rows.length} time${rows.length === 1 ? '' : 's'} would hold two readings (stored meanwhile?), e.g. ${errors[0].value}`);
     }
   }
@@ -504,8 +591,14 @@ export function setRemoteWake(fn: (() => void) | null): void {
 /** Jobs whose worker stopped answering: an import is queued again (its transaction died with it), a check is released. */
 export async function recoverStaleJobs(): Promise<void> {
   const stale = `heartbeat_at < UTC_TIMESTAMP(3) - INTERVAL ${STALE_SECONDS} SECOND`;
-  await db().query(`UPDATE import_job SET status = 'queued', worker_id = NULL, processed_rows = 0, message = 'Interrupted (nothing was written): it will run again.' WHERE status = 'running' AND ${stale} AND attempts < ?`, [MAX_ATTEMPTS]);
-  await db().query(`UPDATE import_job SET status = 'failed', worker_id = NULL, finished_at = UTC_TIMESTAMP(3), message = 'The import was interrupted ${MAX_ATTEMPTS} times and has stopped; nothing was written.' WHERE status = 'running' AND ${stale} AND attempts >= ?`, [MAX_ATTEMPTS]);
+  await db().query(
+    `UPDATE import_job SET status = 'queued', worker_id = NULL, processed_rows = 0, message = 'Interrupted (nothing was written): it will run again.' WHERE status = 'running' AND ${stale} AND attempts < ?`,
+    [MAX_ATTEMPTS],
+  );
+  await db().query(
+    `UPDATE import_job SET status = 'failed', worker_id = NULL, finished_at = UTC_TIMESTAMP(3), message = 'The import was interrupted ${MAX_ATTEMPTS} times and has stopped; nothing was written.' WHERE status = 'running' AND ${stale} AND attempts >= ?`,
+    [MAX_ATTEMPTS],
+  );
   await db().query(`UPDATE import_job SET worker_id = NULL WHERE status = 'validating' AND worker_id IS NOT NULL AND ${stale}`);
 }
 
@@ -524,7 +617,12 @@ export async function processNextJob(workerId: string, signal: { stopping: boole
     const res = await db()
       .createQueryBuilder()
       .update(ImportJob)
-      .set({ status: toStatus, workerId, heartbeatAt: () => 'UTC_TIMESTAMP(3)', ...(toStatus === 'running' ? { startedAt: new Date(), attempts: () => 'attempts + 1', processedRows: 0 } : {}) })
+      .set({
+        status: toStatus,
+        workerId,
+        heartbeatAt: () => 'UTC_TIMESTAMP(3)',
+        ...(toStatus === 'running' ? { startedAt: new Date(), attempts: () => 'attempts + 1', processedRows: 0 } : {}),
+      })
       .where(fromStatus === 'queued' ? "id = :id AND status = 'queued'" : "id = :id AND status = 'validating' AND worker_id IS NULL", { id: c.id })
       .execute();
     if (!res.affected) continue;
@@ -534,7 +632,11 @@ export async function processNextJob(workerId: string, signal: { stopping: boole
       else await validateJob(job, workerId, signal);
     } catch (e) {
       logger.error(`upload #${job.id}: ${(e as Error).stack ?? e}`);
-      await finish(job.id, workerId, toStatus, { status: 'failed', finishedAt: new Date(), message: `The ${toStatus === 'running' ? 'import' : 'check'} failed: ${(e as Error).message.slice(0, 200)}. Nothing was written.` }).catch(() => undefined);
+      await finish(job.id, workerId, toStatus, {
+        status: 'failed',
+        finishedAt: new Date(),
+        message: `The ${toStatus === 'running' ? 'import' : 'check'} failed: ${(e as Error).message.slice(0, 200)}. Nothing was written.`,
+      }).catch(() => undefined);
     }
     return true;
   }
@@ -550,9 +652,13 @@ async function tidyAbandoned(): Promise<void> {
     .limit(50)
     .getMany();
   if (!old.length) return;
-  const files = await db().getRepository(ImportFile).find({ where: { id: In(old.map((j) => j.fileId)) } });
+  const files = await db()
+    .getRepository(ImportFile)
+    .find({ where: { id: In(old.map((j) => j.fileId)) } });
   for (const f of files) await removeFile(f);
-  await db().getRepository(ImportJob).update({ id: In(old.map((j) => j.id)) }, { status: 'cancelled', message: 'Left unfinished for a week: closed.', finishedAt: new Date() });
+  await db()
+    .getRepository(ImportJob)
+    .update({ id: In(old.map((j) => j.id)) }, { status: 'cancelled', message: 'Left unfinished for a week: closed.', finishedAt: new Date() });
 }
 
 /** Starts this process's import worker (main.ts; tests start their own). Returns a stop function. */

@@ -1,7 +1,15 @@
 import { unlink } from 'node:fs/promises';
 import { In, type EntityManager } from 'typeorm';
 import { DateTime } from 'luxon';
-import { IMPORT_COLUMNS, IMPORT_KIND_LABELS, type ImportKind, type ImportOptions, type ImportRemap, type ImportRowError, type ImportStatus } from '@common/schemas/usage.schema';
+import {
+  IMPORT_COLUMNS,
+  IMPORT_KIND_LABELS,
+  type ImportKind,
+  type ImportOptions,
+  type ImportRemap,
+  type ImportRowError,
+  type ImportStatus,
+} from '@common/schemas/usage.schema';
 import { toCsv } from '@common/api/csv';
 import { db } from '../../db/db';
 import { env } from '../../config/env';
@@ -61,7 +69,14 @@ export function presentJob(job: ImportJob, file: ImportFile | null): ImportJobVi
     status,
     phase: status === 'validating' ? 'check' : status === 'queued' || status === 'running' ? 'import' : null,
     file: file ? { name: file.originalName, sizeBytes: Number(file.sizeBytes), sha256: file.sha256, lines: file.lineCount } : null,
-    options: { sourceId: options.sourceId, wardId: options.wardId, unit: options.unit, headerUnit: options.headerUnit, dateOrder: options.dateOrder, separator: options.separator },
+    options: {
+      sourceId: options.sourceId,
+      wardId: options.wardId,
+      unit: options.unit,
+      headerUnit: options.headerUnit,
+      dateOrder: options.dateOrder,
+      separator: options.separator,
+    },
     mapping: options.mapping,
     columns: IMPORT_COLUMNS[job.kind as ImportKind],
     header: job.headerJson ? (JSON.parse(job.headerJson) as string[]) : [],
@@ -166,11 +181,16 @@ async function checkTargets(m: EntityManager, siteId: number, kind: ImportKind, 
     const s = await m.getRepository(SupplySource).findOneBy({ id: sourceId, siteId });
     const types = SOURCE_TYPES_FOR[kind];
     if (!s) throw badRequest('The chosen source is not on this site', [{ path: 'sourceId', message: 'choose a source of this site' }]);
-    if (!types || !types.includes(s.type)) throw badRequest(`${IMPORT_KIND_LABELS[kind]} cannot go to a ${s.type.replace('_', ' ')}`, [{ path: 'sourceId', message: `choose a ${(types ?? []).map((t) => t.replace('_', ' ')).join(' or ')}` }]);
+    if (!types || !types.includes(s.type))
+      throw badRequest(`${IMPORT_KIND_LABELS[kind]} cannot go to a ${s.type.replace('_', ' ')}`, [
+        { path: 'sourceId', message: `choose a ${(types ?? []).map((t) => t.replace('_', ' ')).join(' or ')}` },
+      ]);
   }
   if (wardId) {
-    if (kind !== 'flow_meter_totals') throw badRequest('Only flow-meter totals are uploaded for a ward', [{ path: 'wardId', message: 'not used for this kind' }]);
-    if (!(await m.getRepository(Ward).findOneBy({ id: wardId, siteId }))) throw badRequest('The chosen ward is not on this site', [{ path: 'wardId', message: 'choose a ward of this site' }]);
+    if (kind !== 'flow_meter_totals')
+      throw badRequest('Only flow-meter totals are uploaded for a ward', [{ path: 'wardId', message: 'not used for this kind' }]);
+    if (!(await m.getRepository(Ward).findOneBy({ id: wardId, siteId })))
+      throw badRequest('The chosen ward is not on this site', [{ path: 'wardId', message: 'choose a ward of this site' }]);
   }
   if (sourceId && wardId) throw badRequest('Choose a ward or a source for the meter, not both', [{ path: 'wardId', message: 'one target' }]);
 }
@@ -188,7 +208,12 @@ async function earlierImportOf(siteId: number, sha256: string, exceptJobId?: num
 
 function duplicateError(prev: { id: number; finished_at: Date | null; inserted_rows: number; name: string | null }, zone: string) {
   const when = prev.finished_at ? DateTime.fromJSDate(new Date(prev.finished_at), { zone }).toFormat('d LLL yyyy HH:mm') : 'earlier';
-  return new AppError(409, 'duplicate_file', `This file was imported already (upload #${prev.id}, ${when}${prev.name ? ` by ${prev.name}` : ''}, ${prev.inserted_rows} rows). Upload it again only if you mean to, e.g. for another tank.`, [{ path: 'file', message: `same content as upload #${prev.id}` }]);
+  return new AppError(
+    409,
+    'duplicate_file',
+    `This file was imported already (upload #${prev.id}, ${when}${prev.name ? ` by ${prev.name}` : ''}, ${prev.inserted_rows} rows). Upload it again only if you mean to, e.g. for another tank.`,
+    [{ path: 'file', message: `same content as upload #${prev.id}` }],
+  );
 }
 
 // ---------- the API's operations ----------
@@ -219,7 +244,18 @@ export async function createImport(actor: Actor, siteId: number, file: { path: s
     await fileStore().putFile(file.path, key);
     stored = key;
     const job = await db().transaction(async (m) => {
-      const f = await m.getRepository(ImportFile).save(m.getRepository(ImportFile).create({ organisationId: actor.user.organisationId, siteId, sha256: info.sha256, originalName: file.originalname.slice(0, 255), sizeBytes: String(info.sizeBytes), lineCount: info.lineCount, storagePath: key, uploadedByUserId: actor.user.id }));
+      const f = await m.getRepository(ImportFile).save(
+        m.getRepository(ImportFile).create({
+          organisationId: actor.user.organisationId,
+          siteId,
+          sha256: info.sha256,
+          originalName: file.originalname.slice(0, 255),
+          sizeBytes: String(info.sizeBytes),
+          lineCount: info.lineCount,
+          storagePath: key,
+          uploadedByUserId: actor.user.id,
+        }),
+      );
       const j = await m.getRepository(ImportJob).save(
         m.getRepository(ImportJob).create({
           organisationId: actor.user.organisationId,
@@ -236,7 +272,12 @@ export async function createImport(actor: Actor, siteId: number, file: { path: s
           totalRows: null,
         }),
       );
-      await recordAudit(m, whoOf(actor), { action: 'upload', entity: 'import_job', entityId: String(j.id), after: { kind: j.kind, file: f.originalName, sha256: f.sha256, sizeBytes: info.sizeBytes, duplicateOf: prev?.id ?? null } });
+      await recordAudit(m, whoOf(actor), {
+        action: 'upload',
+        entity: 'import_job',
+        entityId: String(j.id),
+        after: { kind: j.kind, file: f.originalName, sha256: f.sha256, sizeBytes: info.sizeBytes, duplicateOf: prev?.id ?? null },
+      });
       return j;
     });
     wakeImportWorker();
@@ -255,8 +296,14 @@ export async function getImport(actor: Actor, id: number) {
 
 export async function listImports(actor: Actor, siteId: number) {
   await getSiteFor(actor, siteId);
-  const jobs = await db().getRepository(ImportJob).find({ where: { siteId }, order: { id: 'DESC' }, take: 50 });
-  const files = jobs.length ? await db().getRepository(ImportFile).find({ where: { id: In(jobs.map((j) => j.fileId)) } }) : [];
+  const jobs = await db()
+    .getRepository(ImportJob)
+    .find({ where: { siteId }, order: { id: 'DESC' }, take: 50 });
+  const files = jobs.length
+    ? await db()
+        .getRepository(ImportFile)
+        .find({ where: { id: In(jobs.map((j) => j.fileId)) } })
+    : [];
   return jobs.map((j) => {
     const p = presentJob(j, files.find((f) => f.id === j.fileId) ?? null);
     // The list is light: no sample, preview rows or errors.
@@ -268,18 +315,41 @@ export async function listImports(actor: Actor, siteId: number) {
 export async function remapImport(actor: Actor, id: number, input: ImportRemap) {
   return db().transaction(async (m) => {
     const job = await jobFor(actor, id, m);
-    if (!['mapping', 'ready', 'invalid', 'failed'].includes(job.status)) throw new AppError(409, 'conflict', `This upload is ${job.status}: it cannot be changed now`);
+    if (!['mapping', 'ready', 'invalid', 'failed'].includes(job.status))
+      throw new AppError(409, 'conflict', `This upload is ${job.status}: it cannot be changed now`);
     const file = await m.getRepository(ImportFile).findOneByOrFail({ id: job.fileId });
     if (!file.storagePath) throw new AppError(409, 'conflict', 'The uploaded file is no longer kept: upload it again');
     await checkTargets(m, job.siteId, job.kind as ImportKind, input.sourceId, input.wardId);
     const old = JSON.parse(job.optionsJson) as JobOptions;
     const header = JSON.parse(job.headerJson ?? '[]') as string[];
     const mapping = Object.keys(input.mapping).length ? input.mapping : old.mapping;
-    const next: JobOptions = { ...old, sourceId: input.sourceId ?? null, wardId: input.wardId ?? null, unit: input.unit || null, dateOrder: input.dateOrder, mapping, headerUnit: headerUnitOf(mapping) };
+    const next: JobOptions = {
+      ...old,
+      sourceId: input.sourceId ?? null,
+      wardId: input.wardId ?? null,
+      unit: input.unit || null,
+      dateOrder: input.dateOrder,
+      mapping,
+      headerUnit: headerUnitOf(mapping),
+    };
     const problems = missingChoices(job.kind as ImportKind, next, header);
     await m.getRepository(ImportJob).update(
       { id },
-      { optionsJson: JSON.stringify(next), status: problems.length ? 'mapping' : 'validating', message: problems.join('. '), workerId: null, errorsJson: null, errorCount: 0, previewJson: null, processedRows: 0, insertedRows: 0, totalRows: null, cancelRequested: false, startedAt: null, finishedAt: null },
+      {
+        optionsJson: JSON.stringify(next),
+        status: problems.length ? 'mapping' : 'validating',
+        message: problems.join('. '),
+        workerId: null,
+        errorsJson: null,
+        errorCount: 0,
+        previewJson: null,
+        processedRows: 0,
+        insertedRows: 0,
+        totalRows: null,
+        cancelRequested: false,
+        startedAt: null,
+        finishedAt: null,
+      },
     );
     wakeImportWorker();
     return present(m, await m.getRepository(ImportJob).findOneByOrFail({ id }));
@@ -289,8 +359,18 @@ export async function remapImport(actor: Actor, id: number, input: ImportRemap) 
 /** Queues a checked upload for import (all rows in one transaction, in the background). */
 export async function commitImport(actor: Actor, id: number, confirmDuplicate: boolean) {
   const job = await jobFor(actor, id);
-  if (job.status === 'invalid') throw new AppError(409, 'conflict', `The file has ${job.errorCount} row error${job.errorCount === 1 ? '' : 's'}: correct the file and upload it again; nothing was imported`);
-  if (job.status !== 'ready') throw new AppError(409, 'conflict', job.status === 'mapping' || job.status === 'validating' ? 'The file has not been checked yet' : `This upload is ${job.status}`);
+  if (job.status === 'invalid')
+    throw new AppError(
+      409,
+      'conflict',
+      `The file has ${job.errorCount} row error${job.errorCount === 1 ? '' : 's'}: correct the file and upload it again; nothing was imported`,
+    );
+  if (job.status !== 'ready')
+    throw new AppError(
+      409,
+      'conflict',
+      job.status === 'mapping' || job.status === 'validating' ? 'The file has not been checked yet' : `This upload is ${job.status}`,
+    );
   const file = await db().getRepository(ImportFile).findOneByOrFail({ id: job.fileId });
   const prev = await earlierImportOf(job.siteId, file.sha256, job.id);
   if (prev && !confirmDuplicate && !job.confirmDuplicate) {
@@ -315,7 +395,12 @@ export async function cancelImport(actor: Actor, id: number) {
   if (job.status === 'running') {
     await db().getRepository(ImportJob).update({ id, status: 'running' }, { cancelRequested: true });
   } else {
-    const res = await db().createQueryBuilder().update(ImportJob).set({ status: 'cancelled', cancelRequested: true, finishedAt: new Date(), workerId: null, message: 'Cancelled before anything was imported.' }).where('id = :id AND status <> :r', { id, r: 'running' }).execute();
+    const res = await db()
+      .createQueryBuilder()
+      .update(ImportJob)
+      .set({ status: 'cancelled', cancelRequested: true, finishedAt: new Date(), workerId: null, message: 'Cancelled before anything was imported.' })
+      .where('id = :id AND status <> :r', { id, r: 'running' })
+      .execute();
     if (!res.affected) await db().getRepository(ImportJob).update({ id }, { cancelRequested: true });
     else await discardFile(job.fileId);
   }
@@ -335,7 +420,10 @@ export async function discardFile(fileId: number): Promise<void> {
 export async function errorsCsv(actor: Actor, id: number): Promise<string> {
   const job = await jobFor(actor, id);
   const errors = job.errorsJson ? (JSON.parse(job.errorsJson) as ImportRowError[]) : [];
-  return toCsv(['row', 'column', 'value', 'reason'], errors.map((e) => [e.row, e.column, e.value, e.reason]));
+  return toCsv(
+    ['row', 'column', 'value', 'reason'],
+    errors.map((e) => [e.row, e.column, e.value, e.reason]),
+  );
 }
 
 // ---------- templates ----------
@@ -343,18 +431,24 @@ export async function errorsCsv(actor: Actor, id: number): Promise<string> {
 /** A template CSV of one kind for a site: its columns and three example rows that import as they are. */
 export async function templateCsv(actor: Actor, siteId: number, kind: ImportKind): Promise<string> {
   const site = await getSiteFor(actor, siteId);
-  const ward = await db().getRepository(Ward).findOne({ where: { siteId, active: true }, order: { name: 'ASC' } });
+  const ward = await db()
+    .getRepository(Ward)
+    .findOne({ where: { siteId, active: true }, order: { name: 'ASC' } });
   const cols = IMPORT_COLUMNS[kind];
   const base = DateTime.now().setZone(site.timeZone).minus({ days: 3 }).startOf('day');
   const rows = [0, 1, 2].map((i) =>
     cols.map((c) => {
-      if (c.key === 'time') return base.plus({ days: kind === 'tank_readings' ? 0 : i, hours: 8 + (kind === 'tank_readings' ? i : 0) }).toFormat("yyyy-MM-dd'T'HH:mm");
+      if (c.key === 'time')
+        return base.plus({ days: kind === 'tank_readings' ? 0 : i, hours: 8 + (kind === 'tank_readings' ? i : 0) }).toFormat("yyyy-MM-dd'T'HH:mm");
       if (c.key === 'date') return base.plus({ days: i }).toISODate();
       if (c.key === 'ward') return ward?.name ?? c.examples[i];
       return c.examples[i] ?? '';
     }),
   );
-  return toCsv(cols.map((c) => c.key), rows);
+  return toCsv(
+    cols.map((c) => c.key),
+    rows,
+  );
 }
 
 export function uploadLimitBytes(): number {

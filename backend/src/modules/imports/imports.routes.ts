@@ -4,7 +4,16 @@ import { randomBytes } from 'node:crypto';
 import type { NextFunction, Request, Response } from 'express';
 import multer from 'multer';
 import { idParamSchema } from '@common/schemas/common.schema';
-import { exportQuerySchema, importCommitSchema, importOptionsSchema, importRemapSchema, importTemplateQuerySchema, IMPORT_COLUMNS, IMPORT_KINDS, IMPORT_KIND_LABELS } from '@common/schemas/usage.schema';
+import {
+  exportQuerySchema,
+  importCommitSchema,
+  importOptionsSchema,
+  importRemapSchema,
+  importTemplateQuerySchema,
+  IMPORT_COLUMNS,
+  IMPORT_KINDS,
+  IMPORT_KIND_LABELS,
+} from '@common/schemas/usage.schema';
 import type { Role } from '@common/api/roles';
 import type { RouteDef } from '../../http/route';
 import { actorOf } from '../../http/context';
@@ -33,7 +42,10 @@ function uploadCsv(req: Request, res: Response, next: NextFunction): void {
   const upload = multer({
     storage: multer.diskStorage({
       destination: (_req, _file, cb) => {
-        mkdir(dir, { recursive: true }).then(() => cb(null, dir), (e: Error) => cb(e, dir));
+        mkdir(dir, { recursive: true }).then(
+          () => cb(null, dir),
+          (e: Error) => cb(e, dir),
+        );
       },
       filename: (_req, _file, cb) => cb(null, `upload-${Date.now()}-${randomBytes(6).toString('hex')}.csv`),
     }),
@@ -42,10 +54,30 @@ function uploadCsv(req: Request, res: Response, next: NextFunction): void {
   upload(req, res, (err: unknown) => {
     if (!err) return next();
     if (err instanceof multer.MulterError) {
-      if (err.code === 'LIMIT_FILE_SIZE') return next(new AppError(413, 'too_large', `The file is larger than the ${limitMb} MB upload limit: nothing was stored. Split it (for example one file per month) and upload the parts.`, [{ path: 'file', message: `over ${limitMb} MB` }]));
-      if (err.code === 'LIMIT_UNEXPECTED_FILE' || err.code === 'LIMIT_FILE_COUNT') return next(badRequest('Send one CSV file, in the form field “file”', [{ path: 'file', message: 'one file' }]));
-      if (err.code === 'LIMIT_FIELD_VALUE') return next(badRequest(`The form field “${err.field ?? ''}” is too long (limit ${FIELD_MAX_KB} KB): nothing was stored. Send the file in the field “file” and only the short upload options beside it`, [{ path: err.field ?? 'file', message: `over ${FIELD_MAX_KB} KB` }]));
-      if (err.code === 'LIMIT_FIELD_COUNT' || err.code === 'LIMIT_PART_COUNT') return next(badRequest(`The upload has too many fields (limit ${FIELD_COUNT}): nothing was stored. Send the file and the upload options only`, [{ path: 'file', message: 'too many fields' }]));
+      if (err.code === 'LIMIT_FILE_SIZE')
+        return next(
+          new AppError(
+            413,
+            'too_large',
+            `The file is larger than the ${limitMb} MB upload limit: nothing was stored. Split it (for example one file per month) and upload the parts.`,
+            [{ path: 'file', message: `over ${limitMb} MB` }],
+          ),
+        );
+      if (err.code === 'LIMIT_UNEXPECTED_FILE' || err.code === 'LIMIT_FILE_COUNT')
+        return next(badRequest('Send one CSV file, in the form field “file”', [{ path: 'file', message: 'one file' }]));
+      if (err.code === 'LIMIT_FIELD_VALUE')
+        return next(
+          badRequest(
+            `The form field “${err.field ?? ''}” is too long (limit ${FIELD_MAX_KB} KB): nothing was stored. Send the file in the field “file” and only the short upload options beside it`,
+            [{ path: err.field ?? 'file', message: `over ${FIELD_MAX_KB} KB` }],
+          ),
+        );
+      if (err.code === 'LIMIT_FIELD_COUNT' || err.code === 'LIMIT_PART_COUNT')
+        return next(
+          badRequest(`The upload has too many fields (limit ${FIELD_COUNT}): nothing was stored. Send the file and the upload options only`, [
+            { path: 'file', message: 'too many fields' },
+          ]),
+        );
       return next(badRequest(`The upload could not be read: ${err.message}. Nothing was stored`, [{ path: 'file', message: err.code }]));
     }
     // The multipart parser's own errors (a body cut short, a missing or broken boundary, a client gone
@@ -54,8 +86,12 @@ function uploadCsv(req: Request, res: Response, next: NextFunction): void {
       const cut = /unexpected end|request (aborted|closed)/i.test(err.message);
       return next(
         cut
-          ? badRequest('The upload was cut off before its end, so it is incomplete: nothing was stored. Upload the file again', [{ path: 'file', message: 'incomplete upload' }])
-          : badRequest(`The upload could not be read as a multipart form (${err.message}): nothing was stored. Upload the file from the form again`, [{ path: 'file', message: 'not a multipart form' }]),
+          ? badRequest('The upload was cut off before its end, so it is incomplete: nothing was stored. Upload the file again', [
+              { path: 'file', message: 'incomplete upload' },
+            ])
+          : badRequest(`The upload could not be read as a multipart form (${err.message}): nothing was stored. Upload the file from the form again`, [
+              { path: 'file', message: 'not a multipart form' },
+            ]),
       );
     }
     next(err);
@@ -68,7 +104,11 @@ export function importRoutes(): RouteDef[] {
       method: 'get',
       path: '/api/import-kinds',
       access: FM,
-      handler: () => ({ maxMb: env().UPLOAD_MAX_MB, kinds: IMPORT_KINDS.map((kind) => ({ kind, label: IMPORT_KIND_LABELS[kind], columns: IMPORT_COLUMNS[kind] })) }) satisfies ImportKinds,
+      handler: () =>
+        ({
+          maxMb: env().UPLOAD_MAX_MB,
+          kinds: IMPORT_KINDS.map((kind) => ({ kind, label: IMPORT_KIND_LABELS[kind], columns: IMPORT_COLUMNS[kind] })),
+        }) satisfies ImportKinds,
     },
     {
       method: 'post',
@@ -114,8 +154,18 @@ export function importRoutes(): RouteDef[] {
       },
     },
     { method: 'get', path: '/api/imports/:id', access: FM, handler: (req) => svc.getImport(actorOf(req), id(req.params)) },
-    { method: 'put', path: '/api/imports/:id/mapping', access: FM, handler: (req) => svc.remapImport(actorOf(req), id(req.params), validate(importRemapSchema, req.body, 'mapping')) },
-    { method: 'post', path: '/api/imports/:id/commit', access: FM, handler: (req) => svc.commitImport(actorOf(req), id(req.params), validate(importCommitSchema, req.body, 'confirmation').confirmDuplicate) },
+    {
+      method: 'put',
+      path: '/api/imports/:id/mapping',
+      access: FM,
+      handler: (req) => svc.remapImport(actorOf(req), id(req.params), validate(importRemapSchema, req.body, 'mapping')),
+    },
+    {
+      method: 'post',
+      path: '/api/imports/:id/commit',
+      access: FM,
+      handler: (req) => svc.commitImport(actorOf(req), id(req.params), validate(importCommitSchema, req.body, 'confirmation').confirmDuplicate),
+    },
     { method: 'post', path: '/api/imports/:id/cancel', access: FM, handler: (req) => svc.cancelImport(actorOf(req), id(req.params)) },
     {
       method: 'get',

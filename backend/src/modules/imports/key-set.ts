@@ -28,7 +28,7 @@ export class KeyLineMap {
   }
 
   private static hash(k: number): number {
-    const lo = k % 4294967296 | 0;
+    const lo = (k % 4294967296) | 0;
     const hi = (k / 4294967296) | 0;
     let h = Math.imul(lo ^ Math.imul(hi, 0x9e3779b1), 0x85ebca6b);
     h ^= h >>> 13;

@@ -20,19 +20,38 @@ export function mailRoutes(): RouteDef[] {
       access: ['administrator'],
       handler: async (req) => {
         const q = validate(mailListQuerySchema, req.query, 'query');
-        const qb = db().getRepository(MailMessage).createQueryBuilder('m').select(['m.id', 'm.receivedAt', 'm.mailFrom', 'm.mailTo', 'm.subject', 'm.sizeBytes']);
+        const qb = db()
+          .getRepository(MailMessage)
+          .createQueryBuilder('m')
+          .select(['m.id', 'm.receivedAt', 'm.mailFrom', 'm.mailTo', 'm.subject', 'm.sizeBytes']);
         if (q.q) qb.where('(m.subject LIKE :q OR m.mail_to LIKE :q OR m.mail_from LIKE :q)', { q: `%${q.q}%` });
-        const sortable = new Map<typeof q.sort, string>([['receivedAt', 'm.received_at'], ['subject', 'm.subject'], ['to', 'm.mail_to'], ['from', 'm.mail_from']]);
+        const sortable = new Map<typeof q.sort, string>([
+          ['receivedAt', 'm.received_at'],
+          ['subject', 'm.subject'],
+          ['to', 'm.mail_to'],
+          ['from', 'm.mail_from'],
+        ]);
         const col = q.sort ? sortable.get(q.sort) : undefined;
         if (col) qb.orderBy(col, q.dir === 'desc' ? 'DESC' : 'ASC').addOrderBy('m.id', 'DESC');
         else qb.orderBy('m.id', 'DESC');
         qb.skip((q.page - 1) * q.pageSize).take(q.pageSize);
         const [rows, total] = await qb.getManyAndCount();
         const counts: { id: number; n: string }[] = rows.length
-          ? await db().query(`SELECT mail_message_id AS id, COUNT(*) AS n FROM mail_attachment WHERE mail_message_id IN (${rows.map(() => '?').join(',')}) GROUP BY mail_message_id`, rows.map((r) => r.id))
+          ? await db().query(
+              `SELECT mail_message_id AS id, COUNT(*) AS n FROM mail_attachment WHERE mail_message_id IN (${rows.map(() => '?').join(',')}) GROUP BY mail_message_id`,
+              rows.map((r) => r.id),
+            )
           : [];
         return {
-          items: rows.map((r) => ({ id: r.id, receivedAt: r.receivedAt.toISOString(), from: r.mailFrom, to: r.mailTo, subject: r.subject, sizeBytes: r.sizeBytes, attachments: Number(counts.find((c) => Number(c.id) === r.id)?.n ?? 0) })),
+          items: rows.map((r) => ({
+            id: r.id,
+            receivedAt: r.receivedAt.toISOString(),
+            from: r.mailFrom,
+            to: r.mailTo,
+            subject: r.subject,
+            sizeBytes: r.sizeBytes,
+            attachments: Number(counts.find((c) => Number(c.id) === r.id)?.n ?? 0),
+          })),
           total,
           page: q.page,
           pageSize: q.pageSize,
@@ -47,8 +66,19 @@ export function mailRoutes(): RouteDef[] {
         const { id } = validate(idParamSchema, req.params, 'address');
         const m = await db().getRepository(MailMessage).findOneBy({ id });
         if (!m) throw notFound('Message');
-        const attachments = await db().getRepository(MailAttachment).find({ select: { id: true, filename: true, contentType: true, sizeBytes: true }, where: { mailMessageId: id } });
-        return { id: m.id, receivedAt: m.receivedAt.toISOString(), from: m.mailFrom, to: m.mailTo, subject: m.subject, text: m.textBody, html: m.htmlBody, attachments: attachments.map((a) => ({ id: a.id, filename: a.filename, contentType: a.contentType, sizeBytes: a.sizeBytes })) } satisfies MailMessageView;
+        const attachments = await db()
+          .getRepository(MailAttachment)
+          .find({ select: { id: true, filename: true, contentType: true, sizeBytes: true }, where: { mailMessageId: id } });
+        return {
+          id: m.id,
+          receivedAt: m.receivedAt.toISOString(),
+          from: m.mailFrom,
+          to: m.mailTo,
+          subject: m.subject,
+          text: m.textBody,
+          html: m.htmlBody,
+          attachments: attachments.map((a) => ({ id: a.id, filename: a.filename, contentType: a.contentType, sizeBytes: a.sizeBytes })),
+        } satisfies MailMessageView;
       },
     },
     {

@@ -61,10 +61,22 @@ async function planReading(actor: Actor, po: PurchaseOrder, input: DeliveryRecor
   const since = latest ? ` added to the count of ${latest.takenAt.toISOString().slice(0, 16).replace('T', ' ')} UTC` : '';
   if (latest?.kind === 'bank_gauges' || (!latest && s.type === 'manifold')) {
     const d = { dutyBar: Number(detail?.dutyBar ?? 0), standbyBar: Number(detail?.standbyBar ?? 0), spareFull: Number(detail?.spareFull ?? 0) + qty };
-    return { takenAt: at, input: { kind: 'bank_gauges', ...d, takenAt: at.toISOString(), method: 'delivery_note', note: '' } as ReadingInput, note: `${label}: +${qty} spare full cylinders${since}` };
+    return {
+      takenAt: at,
+      input: { kind: 'bank_gauges', ...d, takenAt: at.toISOString(), method: 'delivery_note', note: '' } as ReadingInput,
+      note: `${label}: +${qty} spare full cylinders${since}`,
+    };
   }
-  const d = { full: Number(detail?.full ?? 0) + qty, inUseGaugeBar: (detail?.inUseGaugeBar as number[] | undefined) ?? [], empty: Math.max(0, Number(detail?.empty ?? 0) - input.emptiesCollected) };
-  return { takenAt: at, input: { kind: 'store_count', ...d, takenAt: at.toISOString(), method: 'delivery_note', note: '' } as ReadingInput, note: `${label}: +${qty} full cylinders, ${input.emptiesCollected} empties collected${since}` };
+  const d = {
+    full: Number(detail?.full ?? 0) + qty,
+    inUseGaugeBar: (detail?.inUseGaugeBar as number[] | undefined) ?? [],
+    empty: Math.max(0, Number(detail?.empty ?? 0) - input.emptiesCollected),
+  };
+  return {
+    takenAt: at,
+    input: { kind: 'store_count', ...d, takenAt: at.toISOString(), method: 'delivery_note', note: '' } as ReadingInput,
+    note: `${label}: +${qty} full cylinders, ${input.emptiesCollected} empties collected${since}`,
+  };
 }
 
 /**
@@ -74,12 +86,18 @@ async function planReading(actor: Actor, po: PurchaseOrder, input: DeliveryRecor
  */
 export async function recordDelivery(actor: Actor, orderId: number, input: DeliveryRecordInput, key?: string) {
   const deliveredAt = new Date(input.deliveredAt);
-  if (deliveredAt.getTime() > Date.now() + 5 * 60_000) throw badRequest('A delivery cannot be in the future', [{ path: 'deliveredAt', message: 'in the future' }]);
+  if (deliveredAt.getTime() > Date.now() + 5 * 60_000)
+    throw badRequest('A delivery cannot be in the future', [{ path: 'deliveredAt', message: 'in the future' }]);
   const found = await db().getRepository(PurchaseOrder).findOneBy({ id: orderId, organisationId: actor.user.organisationId });
   if (!found || !actor.user.siteIds.includes(found.siteId)) throw notFound('Purchase order');
-  if (found.unit === 'cylinders' && !Number.isInteger(input.quantity)) throw badRequest('Cylinders are delivered whole', [{ path: 'quantity', message: 'enter whole cylinders' }]);
-  if (found.unit === 'cylinders' && input.quantity > MAX_ORDER_CYLINDERS) throw badRequest(`At most ${MAX_ORDER_CYLINDERS.toLocaleString('en-GB')} cylinders are delivered at once`, [{ path: 'quantity', message: `at most ${MAX_ORDER_CYLINDERS.toLocaleString('en-GB')} cylinders: check the delivery note` }]);
-  if (deliveredAt.getTime() < found.createdAt.getTime() - 86_400_000) throw badRequest('The delivery is dated before the order', [{ path: 'deliveredAt', message: 'before the order' }]);
+  if (found.unit === 'cylinders' && !Number.isInteger(input.quantity))
+    throw badRequest('Cylinders are delivered whole', [{ path: 'quantity', message: 'enter whole cylinders' }]);
+  if (found.unit === 'cylinders' && input.quantity > MAX_ORDER_CYLINDERS)
+    throw badRequest(`At most ${MAX_ORDER_CYLINDERS.toLocaleString('en-GB')} cylinders are delivered at once`, [
+      { path: 'quantity', message: `at most ${MAX_ORDER_CYLINDERS.toLocaleString('en-GB')} cylinders: check the delivery note` },
+    ]);
+  if (deliveredAt.getTime() < found.createdAt.getTime() - 86_400_000)
+    throw badRequest('The delivery is dated before the order', [{ path: 'deliveredAt', message: 'before the order' }]);
   const plan = found.status === 'approved' || found.status === 'ordered' ? await planReading(actor, found, input) : null;
 
   await transactionWithRetry(db(), (m) =>
@@ -87,7 +105,10 @@ export async function recordDelivery(actor: Actor, orderId: number, input: Deliv
       const po = await m.getRepository(PurchaseOrder).createQueryBuilder('p').setLock('pessimistic_write').where('p.id = :id', { id: orderId }).getOneOrFail();
       if (po.status !== 'approved' && po.status !== 'ordered') {
         const d = await m.getRepository(DeliveryRecord).findOneBy({ purchaseOrderId: orderId });
-        throw conflict(`This order is ${po.status.replace('_', ' ')} already${d ? ` (delivery note ${d.deliveryNote})` : ''}: a delivery is recorded once`, 'already_delivered');
+        throw conflict(
+          `This order is ${po.status.replace('_', ' ')} already${d ? ` (delivery note ${d.deliveryNote})` : ''}: a delivery is recorded once`,
+          'already_delivered',
+        );
       }
       const source = await m.getRepository(SupplySource).findOneByOrFail({ id: po.sourceId });
       let readingId: string | null = null;
@@ -99,23 +120,66 @@ export async function recordDelivery(actor: Actor, orderId: number, input: Deliv
         const { kind, takenAt: _t, method: _m, note: _n, ...rest } = plan.input as ReadingInput & Record<string, unknown>;
         const value = 'value' in rest ? (rest.value as number) : null;
         const saved = await m.getRepository(SourceReading).save(
-          m.getRepository(SourceReading).create({ sourceId: source.id, takenAt: plan.takenAt, kind, value, detailJson: 'value' in rest ? null : JSON.stringify(rest), contents, method: 'delivery_note', note: plan.note.slice(0, 500), takenByUserId: actor.user.id }),
+          m.getRepository(SourceReading).create({
+            sourceId: source.id,
+            takenAt: plan.takenAt,
+            kind,
+            value,
+            detailJson: 'value' in rest ? null : JSON.stringify(rest),
+            contents,
+            method: 'delivery_note',
+            note: plan.note.slice(0, 500),
+            takenByUserId: actor.user.id,
+          }),
         );
         readingId = saved.id;
         readingNote = plan.note;
-        await recordAudit(m, whoOfDoer(actor, po.organisationId), { action: 'create', entity: 'source_reading', entityId: saved.id, after: presentReading(saved) });
+        await recordAudit(m, whoOfDoer(actor, po.organisationId), {
+          action: 'create',
+          entity: 'source_reading',
+          entityId: saved.id,
+          after: presentReading(saved),
+        });
       }
       const short = input.quantity < po.quantity;
       const status = short ? 'part_delivered' : 'delivered';
-      await m.getRepository(DeliveryRecord).insert({ purchaseOrderId: po.id, siteId: po.siteId, sourceId: po.sourceId, deliveryNote: input.deliveryNote, deliveredAt, quantity: input.quantity, unit: po.unit, emptiesCollected: input.emptiesCollected, readingId, note: input.note, recordedByUserId: actor.user.id });
+      await m.getRepository(DeliveryRecord).insert({
+        purchaseOrderId: po.id,
+        siteId: po.siteId,
+        sourceId: po.sourceId,
+        deliveryNote: input.deliveryNote,
+        deliveredAt,
+        quantity: input.quantity,
+        unit: po.unit,
+        emptiesCollected: input.emptiesCollected,
+        readingId,
+        note: input.note,
+        recordedByUserId: actor.user.id,
+      });
       await m.getRepository(PurchaseOrder).update({ id: po.id }, { status, deliveredQuantity: input.quantity });
       if (po.scheduledDeliveryId) await m.getRepository(ScheduledDelivery).update({ id: po.scheduledDeliveryId }, { status: 'delivered' });
       await bumpSiteVersion(m, po.siteId);
-      const r = await m.getRepository(ReorderRequest).createQueryBuilder('r').setLock('pessimistic_write').where('r.id = :id', { id: po.requestId }).getOneOrFail();
+      const r = await m
+        .getRepository(ReorderRequest)
+        .createQueryBuilder('r')
+        .setLock('pessimistic_write')
+        .where('r.id = :id', { id: po.requestId })
+        .getOneOrFail();
       await m.getRepository(ReorderRequest).update({ id: r.id }, { status, version: r.version + 1 });
       const comment = `${formatQuantity(input.quantity, po.unit)} of ${formatQuantity(po.quantity, po.unit)} delivered, note ${input.deliveryNote}${input.emptiesCollected ? `, ${input.emptiesCollected} empties collected` : ''}${short ? '; the order is closed in part' : ''}. ${readingNote}`;
-      await addEvent(m, r.id, actor, short ? 'part_delivered' : 'delivered', r.status, status, comment, { deliveryNote: input.deliveryNote, quantity: input.quantity, emptiesCollected: input.emptiesCollected, readingId });
-      await recordAudit(m, whoOfDoer(actor, po.organisationId), { action: 'deliver', entity: 'purchase_order', entityId: String(po.id), before: { status: po.status }, after: { status, quantity: input.quantity, deliveryNote: input.deliveryNote } });
+      await addEvent(m, r.id, actor, short ? 'part_delivered' : 'delivered', r.status, status, comment, {
+        deliveryNote: input.deliveryNote,
+        quantity: input.quantity,
+        emptiesCollected: input.emptiesCollected,
+        readingId,
+      });
+      await recordAudit(m, whoOfDoer(actor, po.organisationId), {
+        action: 'deliver',
+        entity: 'purchase_order',
+        entityId: String(po.id),
+        before: { status: po.status },
+        after: { status, quantity: input.quantity, deliveryNote: input.deliveryNote },
+      });
       return orderId;
     }),
   );

@@ -1,7 +1,19 @@
 import { z } from 'zod';
 import type { Role } from '@common/api/roles';
 import { idParamSchema } from '@common/schemas/common.schema';
-import { approvalLimitSchema, cancelSchema, changeQuantitySchema, createRequestSchema, decisionSchema, deliverySchema, outboxQuerySchema, rejectSchema, requestListQuerySchema, spendQuerySchema, subscriptionSchema } from '@common/schemas/orders.schema';
+import {
+  approvalLimitSchema,
+  cancelSchema,
+  changeQuantitySchema,
+  createRequestSchema,
+  decisionSchema,
+  deliverySchema,
+  outboxQuerySchema,
+  rejectSchema,
+  requestListQuerySchema,
+  spendQuerySchema,
+  subscriptionSchema,
+} from '@common/schemas/orders.schema';
 import type { RouteDef } from '../../http/route';
 import { actorOf } from '../../http/context';
 import { validate } from '../../http/validate';
@@ -21,13 +33,28 @@ const FM_PO: Role[] = ['facilities_manager', 'purchasing_officer'];
 /** Who reads requests, orders and spend: the people who raise, approve and administer them. */
 const READERS: Role[] = ['facilities_manager', 'purchasing_officer', 'administrator'];
 const ADMIN: Role[] = ['administrator'];
-const orderListQuery = z.object({ status: z.enum(['open', 'approved', 'ordered', 'part_delivered', 'delivered', 'all']).default('all'), siteId: z.coerce.number().int().positive().optional(), page: z.coerce.number().int().min(1).default(1), pageSize: z.coerce.number().int().min(1).max(200).default(50) });
+const orderListQuery = z.object({
+  status: z.enum(['open', 'approved', 'ordered', 'part_delivered', 'delivered', 'all']).default('all'),
+  siteId: z.coerce.number().int().positive().optional(),
+  page: z.coerce.number().int().min(1).default(1),
+  pageSize: z.coerce.number().int().min(1).max(200).default(50),
+});
 
 export function orderRoutes(): RouteDef[] {
   return [
     // reorder requests
-    { method: 'get', path: '/api/requests', access: READERS, handler: (req) => requests.listRequests(actorOf(req), validate(requestListQuerySchema, req.query, 'query')) },
-    { method: 'post', path: '/api/requests', access: FM, handler: (req) => requests.createRequest(actorOf(req), validate(createRequestSchema, req.body, 'request'), idempotencyKeyOf(req)) },
+    {
+      method: 'get',
+      path: '/api/requests',
+      access: READERS,
+      handler: (req) => requests.listRequests(actorOf(req), validate(requestListQuerySchema, req.query, 'query')),
+    },
+    {
+      method: 'post',
+      path: '/api/requests',
+      access: FM,
+      handler: (req) => requests.createRequest(actorOf(req), validate(createRequestSchema, req.body, 'request'), idempotencyKeyOf(req)),
+    },
     {
       method: 'post',
       path: '/api/requests/scan',
@@ -38,11 +65,42 @@ export function orderRoutes(): RouteDef[] {
       },
     },
     { method: 'get', path: '/api/requests/:id', access: READERS, handler: (req) => requests.getRequest(actorOf(req), id(req.params)) },
-    { method: 'post', path: '/api/requests/:id/submit', access: FM, handler: (req) => requests.submitRequest(actorOf(req), id(req.params), validate(z.object({ version: z.number().int().positive().optional() }), req.body, 'request').version, idempotencyKeyOf(req)) },
-    { method: 'put', path: '/api/requests/:id/quantity', access: FM_PO, handler: (req) => requests.changeQuantity(actorOf(req), id(req.params), validate(changeQuantitySchema, req.body, 'quantity'), idempotencyKeyOf(req)) },
-    { method: 'post', path: '/api/requests/:id/approve', access: PO, handler: (req) => requests.approveRequest(actorOf(req), id(req.params), validate(decisionSchema, req.body, 'approval'), idempotencyKeyOf(req)) },
-    { method: 'post', path: '/api/requests/:id/reject', access: PO, handler: (req) => requests.rejectRequest(actorOf(req), id(req.params), validate(rejectSchema, req.body, 'rejection'), idempotencyKeyOf(req)) },
-    { method: 'post', path: '/api/requests/:id/cancel', access: FM_PO, handler: (req) => requests.cancelRequest(actorOf(req), id(req.params), validate(cancelSchema, req.body, 'cancellation'), idempotencyKeyOf(req)) },
+    {
+      method: 'post',
+      path: '/api/requests/:id/submit',
+      access: FM,
+      handler: (req) =>
+        requests.submitRequest(
+          actorOf(req),
+          id(req.params),
+          validate(z.object({ version: z.number().int().positive().optional() }), req.body, 'request').version,
+          idempotencyKeyOf(req),
+        ),
+    },
+    {
+      method: 'put',
+      path: '/api/requests/:id/quantity',
+      access: FM_PO,
+      handler: (req) => requests.changeQuantity(actorOf(req), id(req.params), validate(changeQuantitySchema, req.body, 'quantity'), idempotencyKeyOf(req)),
+    },
+    {
+      method: 'post',
+      path: '/api/requests/:id/approve',
+      access: PO,
+      handler: (req) => requests.approveRequest(actorOf(req), id(req.params), validate(decisionSchema, req.body, 'approval'), idempotencyKeyOf(req)),
+    },
+    {
+      method: 'post',
+      path: '/api/requests/:id/reject',
+      access: PO,
+      handler: (req) => requests.rejectRequest(actorOf(req), id(req.params), validate(rejectSchema, req.body, 'rejection'), idempotencyKeyOf(req)),
+    },
+    {
+      method: 'post',
+      path: '/api/requests/:id/cancel',
+      access: FM_PO,
+      handler: (req) => requests.cancelRequest(actorOf(req), id(req.params), validate(cancelSchema, req.body, 'cancellation'), idempotencyKeyOf(req)),
+    },
     { method: 'get', path: '/api/sources/:id/order-suggestion', access: FM_PO, handler: (req) => requests.suggestionFor(actorOf(req), id(req.params)) },
     // purchase orders and deliveries
     { method: 'get', path: '/api/orders', access: READERS, handler: (req) => orders.listOrders(actorOf(req), validate(orderListQuery, req.query, 'query')) },
@@ -60,7 +118,12 @@ export function orderRoutes(): RouteDef[] {
         return undefined;
       },
     },
-    { method: 'post', path: '/api/orders/:id/deliveries', access: FM_PO, handler: (req) => recordDelivery(actorOf(req), id(req.params), validate(deliverySchema, req.body, 'delivery'), idempotencyKeyOf(req)) },
+    {
+      method: 'post',
+      path: '/api/orders/:id/deliveries',
+      access: FM_PO,
+      handler: (req) => recordDelivery(actorOf(req), id(req.params), validate(deliverySchema, req.body, 'delivery'), idempotencyKeyOf(req)),
+    },
     // spend and rental
     { method: 'get', path: '/api/spend', access: READERS, handler: (req) => spendReport(actorOf(req), validate(spendQuerySchema, req.query, 'query')) },
     {
@@ -78,13 +141,23 @@ export function orderRoutes(): RouteDef[] {
     // approval limits
     { method: 'get', path: '/api/approval-limits', access: ADMIN, handler: (req) => listApprovalLimits(actorOf(req)) },
     { method: 'get', path: '/api/approval-limits/mine', access: 'authenticated', handler: (req) => myApprovalLimit(actorOf(req)) },
-    { method: 'put', path: '/api/users/:id/approval-limit', access: ADMIN, handler: (req) => setApprovalLimit(actorOf(req), id(req.params), validate(approvalLimitSchema, req.body, 'approval limit')) },
+    {
+      method: 'put',
+      path: '/api/users/:id/approval-limit',
+      access: ADMIN,
+      handler: (req) => setApprovalLimit(actorOf(req), id(req.params), validate(approvalLimitSchema, req.body, 'approval limit')),
+    },
     // mail outbox (administrators)
     { method: 'get', path: '/api/outbox', access: ADMIN, handler: (req) => listOutbox(actorOf(req), validate(outboxQuerySchema, req.query, 'query')) },
     { method: 'post', path: '/api/outbox/:id/retry', access: ADMIN, handler: (req) => retryOutbox(actorOf(req), id(req.params)) },
     // alert subscriptions (one's own)
     { method: 'get', path: '/api/subscriptions', access: 'authenticated', handler: (req) => listSubscriptions(actorOf(req)) },
-    { method: 'put', path: '/api/sites/:id/subscription', access: 'authenticated', handler: (req) => setSubscription(actorOf(req), id(req.params), validate(subscriptionSchema, req.body, 'subscription')) },
+    {
+      method: 'put',
+      path: '/api/sites/:id/subscription',
+      access: 'authenticated',
+      handler: (req) => setSubscription(actorOf(req), id(req.params), validate(subscriptionSchema, req.body, 'subscription')),
+    },
     { method: 'delete', path: '/api/sites/:id/subscription', access: 'authenticated', handler: (req) => deleteSubscription(actorOf(req), id(req.params)) },
   ];
 }

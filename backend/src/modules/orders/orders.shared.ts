@@ -16,7 +16,9 @@ export const OPEN = [...OPEN_REQUEST_STATUSES] as string[];
 export type Doer = Actor | null;
 
 export function whoOfDoer(doer: Doer, organisationId: number): AuditWho {
-  return doer ? { organisationId, userId: doer.user.id, userEmail: doer.user.email, requestId: doer.requestId } : { organisationId, userId: null, userEmail: 'plenum (automatic)', requestId: null };
+  return doer
+    ? { organisationId, userId: doer.user.id, userEmail: doer.user.email, requestId: doer.requestId }
+    : { organisationId, userId: null, userEmail: 'plenum (automatic)', requestId: null };
 }
 
 export async function addEvent(
@@ -66,10 +68,19 @@ export async function priceFor(m: EntityManager, source: SupplySource, site: Sit
   if (!source.supplierId) return { supplier: null, unitPriceMinor: null, problem: 'This source has no supplier: set one on the source first.' };
   const supplier = await m.getRepository(Supplier).findOneBy({ id: source.supplierId });
   if (!supplier || !supplier.active) return { supplier: null, unitPriceMinor: null, problem: 'The supplier of this source is not active.' };
-  const where = source.type === 'bulk_liquid' ? { supplierId: supplier.id, gasCode: source.gasCode, unit: 'kg' } : { supplierId: supplier.id, cylinderTypeId: source.cylinderTypeId ?? -1, unit: 'cylinder' };
+  const where =
+    source.type === 'bulk_liquid'
+      ? { supplierId: supplier.id, gasCode: source.gasCode, unit: 'kg' }
+      : { supplierId: supplier.id, cylinderTypeId: source.cylinderTypeId ?? -1, unit: 'cylinder' };
   const price = await m.getRepository(SupplierPrice).findOneBy(where);
-  if (!price) return { supplier, unitPriceMinor: null, problem: `${supplier.name} has no price for this item: ask an administrator to add it to the price list.` };
-  if (supplier.currency !== site.currency) return { supplier, unitPriceMinor: price.priceMinor, problem: `${supplier.name} prices in ${supplier.currency} but the site accounts in ${site.currency}.` };
+  if (!price)
+    return { supplier, unitPriceMinor: null, problem: `${supplier.name} has no price for this item: ask an administrator to add it to the price list.` };
+  if (supplier.currency !== site.currency)
+    return {
+      supplier,
+      unitPriceMinor: price.priceMinor,
+      problem: `${supplier.name} prices in ${supplier.currency} but the site accounts in ${site.currency}.`,
+    };
   return { supplier, unitPriceMinor: price.priceMinor, problem: '' };
 }
 

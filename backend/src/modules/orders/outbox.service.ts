@@ -71,7 +71,9 @@ export async function sendNextMail(ds: DataSource = db()): Promise<boolean> {
   await qr.connect();
   try {
     await qr.startTransaction();
-    const rows: { id: string }[] = await qr.query("SELECT id FROM mail_outbox WHERE status = 'pending' AND next_attempt_at <= NOW(3) ORDER BY next_attempt_at, id LIMIT 1 FOR UPDATE SKIP LOCKED");
+    const rows: { id: string }[] = await qr.query(
+      "SELECT id FROM mail_outbox WHERE status = 'pending' AND next_attempt_at <= NOW(3) ORDER BY next_attempt_at, id LIMIT 1 FOR UPDATE SKIP LOCKED",
+    );
     if (!rows.length) {
       await qr.commitTransaction();
       return false;
@@ -100,7 +102,9 @@ export async function sendNextMail(ds: DataSource = db()): Promise<boolean> {
     }
     const attempts = msg.attempts + 1;
     if (sendError === null) {
-      await m.getRepository(MailOutbox).update({ id: msg.id }, { status: 'sent', attempts, sentAt: new Date(), messageId: info?.messageId?.slice(0, 300) ?? null, lastError: '' });
+      await m
+        .getRepository(MailOutbox)
+        .update({ id: msg.id }, { status: 'sent', attempts, sentAt: new Date(), messageId: info?.messageId?.slice(0, 300) ?? null, lastError: '' });
       if (msg.kind === 'purchase_order' && msg.purchaseOrderId) await markOrdered(m, msg);
     } else {
       const text = (sendError as Error)?.message ?? String(sendError);
@@ -108,9 +112,23 @@ export async function sendNextMail(ds: DataSource = db()): Promise<boolean> {
       const failed = permanent && attempts >= e.OUTBOX_MAX_ATTEMPTS;
       await m.getRepository(MailOutbox).update(
         { id: msg.id },
-        { attempts, lastError: text.slice(0, 1000), status: failed ? 'failed' : 'pending', nextAttemptAt: new Date(Date.now() + backoffMs(attempts, { baseMs: e.OUTBOX_BACKOFF_BASE_MS, maxMs: e.OUTBOX_BACKOFF_MAX_MS })) },
+        {
+          attempts,
+          lastError: text.slice(0, 1000),
+          status: failed ? 'failed' : 'pending',
+          nextAttemptAt: new Date(Date.now() + backoffMs(attempts, { baseMs: e.OUTBOX_BACKOFF_BASE_MS, maxMs: e.OUTBOX_BACKOFF_MAX_MS })),
+        },
       );
-      if (failed && msg.requestId) await addEvent(m, msg.requestId, null, 'email_failed', null, null, `The message "${msg.subject}" could not be delivered after ${attempts} attempts: ${text.slice(0, 300)}`);
+      if (failed && msg.requestId)
+        await addEvent(
+          m,
+          msg.requestId,
+          null,
+          'email_failed',
+          null,
+          null,
+          `The message "${msg.subject}" could not be delivered after ${attempts} attempts: ${text.slice(0, 300)}`,
+        );
       logger.error(`outbox ${msg.id}: attempt ${attempts} failed${failed ? ' (marked failed)' : ''}: ${text}`);
     }
     await qr.commitTransaction();
@@ -132,7 +150,15 @@ async function markOrdered(m: EntityManager, msg: MailOutbox): Promise<void> {
   const r = await m.getRepository(ReorderRequest).findOneBy({ id: po.requestId });
   if (r && r.status === 'approved') {
     await m.getRepository(ReorderRequest).update({ id: r.id }, { status: 'ordered', version: r.version + 1 });
-    await addEvent(m, r.id, null, 'ordered', 'approved', 'ordered', `Purchase order ${po.poNumber} e-mailed to ${msg.toAddress}${msg.ccAddress ? `, copy to ${msg.ccAddress}` : ''}`);
+    await addEvent(
+      m,
+      r.id,
+      null,
+      'ordered',
+      'approved',
+      'ordered',
+      `Purchase order ${po.poNumber} e-mailed to ${msg.toAddress}${msg.ccAddress ? `, copy to ${msg.ccAddress}` : ''}`,
+    );
   } else if (r) {
     await addEvent(m, r.id, null, 'emailed', null, null, `Purchase order ${po.poNumber} e-mailed to ${msg.toAddress}`);
   }
@@ -208,13 +234,38 @@ export function presentOutbox(o: MailOutbox, attentionAttempts: number): OutboxM
 /** The organisation's outbox; "attention" lists failed messages and ones that keep failing. */
 export async function listOutbox(actor: Actor, q: { status: string; page: number; pageSize: number }): Promise<OutboxPage> {
   const attention = Math.min(3, env().OUTBOX_MAX_ATTEMPTS);
-  const qb = db().getRepository(MailOutbox).createQueryBuilder('o').select(['o.id', 'o.kind', 'o.toAddress', 'o.ccAddress', 'o.subject', 'o.status', 'o.attempts', 'o.nextAttemptAt', 'o.lastError', 'o.sentAt', 'o.createdAt', 'o.purchaseOrderId', 'o.requestId']).where('o.organisation_id = :org', { org: actor.user.organisationId });
+  const qb = db()
+    .getRepository(MailOutbox)
+    .createQueryBuilder('o')
+    .select([
+      'o.id',
+      'o.kind',
+      'o.toAddress',
+      'o.ccAddress',
+      'o.subject',
+      'o.status',
+      'o.attempts',
+      'o.nextAttemptAt',
+      'o.lastError',
+      'o.sentAt',
+      'o.createdAt',
+      'o.purchaseOrderId',
+      'o.requestId',
+    ])
+    .where('o.organisation_id = :org', { org: actor.user.organisationId });
   if (q.status === 'attention') qb.andWhere("(o.status = 'failed' OR (o.status = 'pending' AND o.attempts >= :n))", { n: attention });
   else if (q.status !== 'all') qb.andWhere('o.status = :st', { st: q.status });
-  qb.orderBy('o.id', 'DESC').skip((q.page - 1) * q.pageSize).take(q.pageSize);
+  qb.orderBy('o.id', 'DESC')
+    .skip((q.page - 1) * q.pageSize)
+    .take(q.pageSize);
   const [rows, total] = await qb.getManyAndCount();
-  const counts: { status: string; n: string }[] = await db().query('SELECT status, COUNT(*) AS n FROM mail_outbox WHERE organisation_id = ? GROUP BY status', [actor.user.organisationId]);
-  const [{ n: attn }] = (await db().query("SELECT COUNT(*) AS n FROM mail_outbox WHERE organisation_id = ? AND (status = 'failed' OR (status = 'pending' AND attempts >= ?))", [actor.user.organisationId, attention])) as { n: string }[];
+  const counts: { status: string; n: string }[] = await db().query('SELECT status, COUNT(*) AS n FROM mail_outbox WHERE organisation_id = ? GROUP BY status', [
+    actor.user.organisationId,
+  ]);
+  const [{ n: attn }] = (await db().query(
+    "SELECT COUNT(*) AS n FROM mail_outbox WHERE organisation_id = ? AND (status = 'failed' OR (status = 'pending' AND attempts >= ?))",
+    [actor.user.organisationId, attention],
+  )) as { n: string }[];
   return {
     items: rows.map((o) => presentOutbox(o, attention)),
     total,
@@ -232,7 +283,12 @@ export async function retryOutbox(actor: Actor, id: number) {
     const o = await m.getRepository(MailOutbox).findOneByOrFail({ id: String(id) });
     if (o.status === 'sent') throw conflict('This message was sent already', 'already_sent');
     await m.getRepository(MailOutbox).update({ id: o.id }, { status: 'pending', nextAttemptAt: new Date(), attempts: 0 });
-    await recordAudit(m, whoOf(actor), { action: 'retry', entity: 'mail_outbox', entityId: String(id), before: { status: o.status, attempts: o.attempts, lastError: o.lastError } });
+    await recordAudit(m, whoOf(actor), {
+      action: 'retry',
+      entity: 'mail_outbox',
+      entityId: String(id),
+      before: { status: o.status, attempts: o.attempts, lastError: o.lastError },
+    });
     return presentOutbox({ ...o, status: 'pending', attempts: 0, nextAttemptAt: new Date() } as MailOutbox, 3);
   });
 }

@@ -46,7 +46,17 @@ const ACCENT = '#0f5d73';
  * order's, so the same order always renders the same content.
  */
 export function renderPurchaseOrderPdf(po: PurchaseOrderDocument): Promise<Buffer> {
-  const doc = new PDFDocument({ size: 'A4', margin: 50, info: { Title: `Purchase order ${po.poNumber}`, Author: po.organisationName, Subject: `Purchase order ${po.poNumber} to ${po.supplier.name}`, CreationDate: po.issuedAt, Producer: 'Plenum' } });
+  const doc = new PDFDocument({
+    size: 'A4',
+    margin: 50,
+    info: {
+      Title: `Purchase order ${po.poNumber}`,
+      Author: po.organisationName,
+      Subject: `Purchase order ${po.poNumber} to ${po.supplier.name}`,
+      CreationDate: po.issuedAt,
+      Producer: 'Plenum',
+    },
+  });
   const chunks: Buffer[] = [];
   doc.on('data', (c: Buffer) => chunks.push(c));
   const done = new Promise<Buffer>((resolve, reject) => {
@@ -62,7 +72,11 @@ export function renderPurchaseOrderPdf(po: PurchaseOrderDocument): Promise<Buffe
   doc.rect(0, 0, doc.page.width, 8).fill(ACCENT);
   doc.fillColor(INK).font('Lato-Bold').fontSize(20).text('Purchase order', left, 40);
   doc.font('Lato-Bold').fontSize(14).fillColor(ACCENT).text(po.poNumber, left, 44, { width, align: 'right' });
-  doc.font('Lato').fontSize(9).fillColor(MUTED).text(`Issued ${when(po.issuedAt, po.timeZone)} · request ${po.requestReference}`, left, 64, { width, align: 'right' });
+  doc
+    .font('Lato')
+    .fontSize(9)
+    .fillColor(MUTED)
+    .text(`Issued ${when(po.issuedAt, po.timeZone)} · request ${po.requestReference}`, left, 64, { width, align: 'right' });
   doc.font('Lato').fontSize(10).fillColor(INK).text(po.organisationName, left, 68);
 
   // Supplier and delivery blocks
@@ -70,7 +84,11 @@ export function renderPurchaseOrderPdf(po: PurchaseOrderDocument): Promise<Buffe
   const col = width / 2 - 10;
   const block = (x: number, title: string, lines: string[]) => {
     doc.font('Lato-Bold').fontSize(9).fillColor(MUTED).text(title.toUpperCase(), x, top, { width: col, characterSpacing: 0.5 });
-    doc.font('Lato').fontSize(10.5).fillColor(INK).text(lines.filter(Boolean).join('\n'), x, top + 14, { width: col, lineGap: 2 });
+    doc
+      .font('Lato')
+      .fontSize(10.5)
+      .fillColor(INK)
+      .text(lines.filter(Boolean).join('\n'), x, top + 14, { width: col, lineGap: 2 });
   };
   block(left, 'Supplier', [po.supplier.name, po.supplier.orderEmail, po.supplier.phone]);
   block(left + col + 20, 'Deliver to', [po.siteName, ...po.deliveryAddress.split('\n').filter((l) => l !== po.siteName)]);
@@ -78,8 +96,16 @@ export function renderPurchaseOrderPdf(po: PurchaseOrderDocument): Promise<Buffe
   // Delivery window
   let y = top + 90;
   doc.roundedRect(left, y, width, 38, 4).fillAndStroke('#eef4f6', RULE);
-  doc.font('Lato-Bold').fontSize(9).fillColor(MUTED).text('DELIVERY WINDOW', left + 12, y + 7, { characterSpacing: 0.5 });
-  doc.font('Lato').fontSize(11).fillColor(INK).text(`${when(po.windowStart, po.timeZone)} – ${when(po.windowEnd, po.timeZone)} (${po.timeZone})`, left + 12, y + 20);
+  doc
+    .font('Lato-Bold')
+    .fontSize(9)
+    .fillColor(MUTED)
+    .text('DELIVERY WINDOW', left + 12, y + 7, { characterSpacing: 0.5 });
+  doc
+    .font('Lato')
+    .fontSize(11)
+    .fillColor(INK)
+    .text(`${when(po.windowStart, po.timeZone)} – ${when(po.windowEnd, po.timeZone)} (${po.timeZone})`, left + 12, y + 20);
   y += 58;
 
   // Lines
@@ -93,7 +119,12 @@ export function renderPurchaseOrderPdf(po: PurchaseOrderDocument): Promise<Buffe
   doc.font('Lato-Bold').fontSize(9).fillColor(MUTED);
   for (const c of cols) doc.text(c.title.toUpperCase(), c.x, y, { width: c.w, align: c.align, characterSpacing: 0.4 });
   y += 15;
-  doc.moveTo(left, y).lineTo(left + width, y).lineWidth(0.8).strokeColor(RULE).stroke();
+  doc
+    .moveTo(left, y)
+    .lineTo(left + width, y)
+    .lineWidth(0.8)
+    .strokeColor(RULE)
+    .stroke();
   y += 7;
   let total = 0;
   doc.font('Lato').fontSize(10).fillColor(INK);
@@ -109,30 +140,67 @@ export function renderPurchaseOrderPdf(po: PurchaseOrderDocument): Promise<Buffe
     y += h + 8;
     total += l.totalMinor;
   }
-  doc.moveTo(left, y).lineTo(left + width, y).lineWidth(0.8).strokeColor(RULE).stroke();
+  doc
+    .moveTo(left, y)
+    .lineTo(left + width, y)
+    .lineWidth(0.8)
+    .strokeColor(RULE)
+    .stroke();
   y += 8;
-  doc.font('Lato').fontSize(10).fillColor(MUTED).text('Subtotal', left + 300, y, { width: 134, align: 'right' });
+  doc
+    .font('Lato')
+    .fontSize(10)
+    .fillColor(MUTED)
+    .text('Subtotal', left + 300, y, { width: 134, align: 'right' });
   doc.fillColor(INK).text(money(total, po.currency), cols[4].x, y, { width: cols[4].w, align: 'right' });
   y += 16;
-  doc.font('Lato-Bold').fontSize(12).fillColor(INK).text(`Total (${po.currency})`, left + 300, y, { width: 134, align: 'right' });
+  doc
+    .font('Lato-Bold')
+    .fontSize(12)
+    .fillColor(INK)
+    .text(`Total (${po.currency})`, left + 300, y, { width: 134, align: 'right' });
   doc.text(money(total, po.currency), cols[4].x - 20, y, { width: cols[4].w + 20, align: 'right' });
   y += 20;
-  doc.font('Lato').fontSize(8.5).fillColor(MUTED).text('Prices from the supplier’s price list, before any tax that applies.', left, y, { width, align: 'right' });
+  doc
+    .font('Lato')
+    .fontSize(8.5)
+    .fillColor(MUTED)
+    .text('Prices from the supplier’s price list, before any tax that applies.', left, y, { width, align: 'right' });
   y += 30;
 
   // Contact and approval
   doc.font('Lato-Bold').fontSize(9).fillColor(MUTED).text('CONTACT', left, y, { characterSpacing: 0.5 });
-  doc.font('Lato').fontSize(10.5).fillColor(INK).text(`${po.contact.name} · ${po.contact.email}`, left, y + 14);
-  doc.font('Lato-Bold').fontSize(9).fillColor(MUTED).text('APPROVED BY', left + col + 20, y, { characterSpacing: 0.5 });
-  doc.font('Lato').fontSize(10.5).fillColor(INK).text(po.approvedBy.join(', '), left + col + 20, y + 14, { width: col });
+  doc
+    .font('Lato')
+    .fontSize(10.5)
+    .fillColor(INK)
+    .text(`${po.contact.name} · ${po.contact.email}`, left, y + 14);
+  doc
+    .font('Lato-Bold')
+    .fontSize(9)
+    .fillColor(MUTED)
+    .text('APPROVED BY', left + col + 20, y, { characterSpacing: 0.5 });
+  doc
+    .font('Lato')
+    .fontSize(10.5)
+    .fillColor(INK)
+    .text(po.approvedBy.join(', '), left + col + 20, y + 14, { width: col });
   y += 50;
-  doc.font('Lato').fontSize(9.5).fillColor(INK).text(
-    `Please quote ${po.poNumber} on the delivery note and collect the empty cylinders that are ready. Deliver within the window above; if you cannot, tell the contact before the window opens.`,
-    left,
-    y,
-    { width, lineGap: 2 },
-  );
-  doc.font('Lato').fontSize(8).fillColor(MUTED).text(`${po.organisationName} · ${po.poNumber}`, left, doc.page.height - 75, { width, align: 'center', lineBreak: false });
+  doc
+    .font('Lato')
+    .fontSize(9.5)
+    .fillColor(INK)
+    .text(
+      `Please quote ${po.poNumber} on the delivery note and collect the empty cylinders that are ready. Deliver within the window above; if you cannot, tell the contact before the window opens.`,
+      left,
+      y,
+      { width, lineGap: 2 },
+    );
+  doc
+    .font('Lato')
+    .fontSize(8)
+    .fillColor(MUTED)
+    .text(`${po.organisationName} · ${po.poNumber}`, left, doc.page.height - 75, { width, align: 'center', lineBreak: false });
   doc.end();
   return done;
 }

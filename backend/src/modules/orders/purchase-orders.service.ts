@@ -39,7 +39,16 @@ export async function pdfForOrder(ds: DataSource, id: number): Promise<{ pdf: Bu
     deliveryAddress: po.deliveryAddress,
     timeZone: site.timeZone,
     supplier: { name: supplier.name, orderEmail: supplier.orderEmail, phone: supplier.phone },
-    lines: [{ description: po.description, sourceName: source.name, quantity: po.quantity, unit: po.unit, unitPriceMinor: po.unitPriceMinor, totalMinor: po.totalMinor }],
+    lines: [
+      {
+        description: po.description,
+        sourceName: source.name,
+        quantity: po.quantity,
+        unit: po.unit,
+        unitPriceMinor: po.unitPriceMinor,
+        totalMinor: po.totalMinor,
+      },
+    ],
     currency: po.currency,
     windowStart: po.windowStart,
     windowEnd: po.windowEnd,
@@ -97,13 +106,25 @@ function presentOrder(po: PurchaseOrder, names: { site?: string; supplier?: stri
 export async function listOrders(actor: Actor, q: { status?: string; siteId?: number; page: number; pageSize: number }) {
   const siteIds = q.siteId ? actor.user.siteIds.filter((x) => x === q.siteId) : actor.user.siteIds;
   if (!siteIds.length) return { items: [], total: 0, page: q.page, pageSize: q.pageSize };
-  const qb = db().getRepository(PurchaseOrder).createQueryBuilder('p').where('p.organisation_id = :org AND p.site_id IN (:...ids)', { org: actor.user.organisationId, ids: siteIds });
+  const qb = db()
+    .getRepository(PurchaseOrder)
+    .createQueryBuilder('p')
+    .where('p.organisation_id = :org AND p.site_id IN (:...ids)', { org: actor.user.organisationId, ids: siteIds });
   if (q.status === 'open') qb.andWhere("p.status IN ('approved','ordered')");
   else if (q.status && q.status !== 'all') qb.andWhere('p.status = :st', { st: q.status });
-  qb.orderBy('p.seq', 'DESC').skip((q.page - 1) * q.pageSize).take(q.pageSize);
+  qb.orderBy('p.seq', 'DESC')
+    .skip((q.page - 1) * q.pageSize)
+    .take(q.pageSize);
   const [rows, total] = await qb.getManyAndCount();
   const names = await namesFor(rows);
-  return { items: rows.map((p) => presentOrder(p, { site: names.sites.get(p.siteId), supplier: names.suppliers.get(p.supplierId), source: names.sources.get(p.sourceId) })), total, page: q.page, pageSize: q.pageSize } satisfies Page<OrderRow>;
+  return {
+    items: rows.map((p) =>
+      presentOrder(p, { site: names.sites.get(p.siteId), supplier: names.suppliers.get(p.supplierId), source: names.sources.get(p.sourceId) }),
+    ),
+    total,
+    page: q.page,
+    pageSize: q.pageSize,
+  } satisfies Page<OrderRow>;
 }
 
 async function namesFor(rows: PurchaseOrder[]) {
@@ -112,7 +133,11 @@ async function namesFor(rows: PurchaseOrder[]) {
   const sites = rows.length ? await ds.getRepository(Site).findBy({ id: In(uniq((p) => p.siteId)) }) : [];
   const suppliers = rows.length ? await ds.getRepository(Supplier).findBy({ id: In(uniq((p) => p.supplierId)) }) : [];
   const sources = rows.length ? await ds.getRepository(SupplySource).findBy({ id: In(uniq((p) => p.sourceId)) }) : [];
-  return { sites: new Map(sites.map((s) => [s.id, s.name])), suppliers: new Map(suppliers.map((s) => [s.id, s.name])), sources: new Map(sources.map((s) => [s.id, s.name])) };
+  return {
+    sites: new Map(sites.map((s) => [s.id, s.name])),
+    suppliers: new Map(suppliers.map((s) => [s.id, s.name])),
+    sources: new Map(sources.map((s) => [s.id, s.name])),
+  };
 }
 
 /** An order with its delivery, its e-mail's progress and the request it came from. */
@@ -120,15 +145,39 @@ export async function getOrder(actor: Actor, id: number) {
   const po = await orderFor(actor, id);
   const names = await namesFor([po]);
   const delivery = await db().getRepository(DeliveryRecord).findOneBy({ purchaseOrderId: id });
-  const mails = await db().getRepository(MailOutbox).find({ select: { id: true, kind: true, toAddress: true, ccAddress: true, status: true, attempts: true, lastError: true, sentAt: true, nextAttemptAt: true }, where: { purchaseOrderId: id } });
+  const mails = await db()
+    .getRepository(MailOutbox)
+    .find({
+      select: { id: true, kind: true, toAddress: true, ccAddress: true, status: true, attempts: true, lastError: true, sentAt: true, nextAttemptAt: true },
+      where: { purchaseOrderId: id },
+    });
   const request = await db().getRepository(ReorderRequest).findOneByOrFail({ id: po.requestId });
   return {
     ...presentOrder(po, { site: names.sites.get(po.siteId), supplier: names.suppliers.get(po.supplierId), source: names.sources.get(po.sourceId) }),
     pdfUrl: `/api/orders/${po.id}/pdf`,
     request: { id: request.id, reference: `R-${request.id}`, status: request.status, origin: request.origin },
     delivery: delivery
-      ? { id: delivery.id, deliveryNote: delivery.deliveryNote, deliveredAt: delivery.deliveredAt.toISOString(), quantity: delivery.quantity, unit: delivery.unit, emptiesCollected: delivery.emptiesCollected, note: delivery.note, readingId: delivery.readingId }
+      ? {
+          id: delivery.id,
+          deliveryNote: delivery.deliveryNote,
+          deliveredAt: delivery.deliveredAt.toISOString(),
+          quantity: delivery.quantity,
+          unit: delivery.unit,
+          emptiesCollected: delivery.emptiesCollected,
+          note: delivery.note,
+          readingId: delivery.readingId,
+        }
       : null,
-    emails: mails.map((x) => ({ id: Number(x.id), kind: x.kind, to: x.toAddress, cc: x.ccAddress, status: x.status, attempts: x.attempts, lastError: x.lastError, sentAt: x.sentAt?.toISOString() ?? null, nextAttemptAt: x.nextAttemptAt.toISOString() })),
+    emails: mails.map((x) => ({
+      id: Number(x.id),
+      kind: x.kind,
+      to: x.toAddress,
+      cc: x.ccAddress,
+      status: x.status,
+      attempts: x.attempts,
+      lastError: x.lastError,
+      sentAt: x.sentAt?.toISOString() ?? null,
+      nextAttemptAt: x.nextAttemptAt.toISOString(),
+    })),
   } satisfies OrderDetail;
 }

@@ -1,5 +1,14 @@
 import { In, type EntityManager } from 'typeorm';
-import { MAX_ORDER_CYLINDERS, REQUEST_STATUS_TEXT, type ChangeQuantityInput, type CreateRequestInput, type DecisionInput, type RejectInput, type RequestListQuery, type RequestStatus } from '@common/schemas/orders.schema';
+import {
+  MAX_ORDER_CYLINDERS,
+  REQUEST_STATUS_TEXT,
+  type ChangeQuantityInput,
+  type CreateRequestInput,
+  type DecisionInput,
+  type RejectInput,
+  type RequestListQuery,
+  type RequestStatus,
+} from '@common/schemas/orders.schema';
 import type { ActionState, OrderUnit, RequestAction, RequestDetail, RequestRow } from '@common/schemas/orders.schema';
 import type { Page } from '@common/schemas/common.schema';
 import { db } from '../../db/db';
@@ -16,7 +25,19 @@ import { loadSiteModels, type SiteModel } from '../forecast/site-model';
 import { outlookFor, type SourceOutlook } from '../forecast/forecast.service';
 import { sourceFor } from '../supply/supply.service';
 import { bumpSiteVersion } from '../forecast/site-version';
-import { OPEN, addEvent, describeItem, formatMoney, formatQuantity, lineTotalMinor, priceFor, unitOf, usersWithRoleAtSite, whoOfDoer, type Doer } from './orders.shared';
+import {
+  OPEN,
+  addEvent,
+  describeItem,
+  formatMoney,
+  formatQuantity,
+  lineTotalMinor,
+  priceFor,
+  unitOf,
+  usersWithRoleAtSite,
+  whoOfDoer,
+  type Doer,
+} from './orders.shared';
 import { idempotent, isDuplicateKey, transactionWithRetry } from './transactions';
 import { enqueueMail } from './outbox.service';
 
@@ -47,7 +68,8 @@ export function suggestOrder(model: SiteModel, s: SupplySource, o: SourceOutlook
   const upTo = s.orderUpTo ?? (unit === 'kg' ? s.capacityKg : null);
   if (first && first.amount !== null && first.amount > 0) {
     raw = unit === 'kg' ? first.amount : perCyl ? first.amount / perCyl : null;
-    if (raw !== null) basis = `Brings the forecast contents on arrival (${new Date(f!.index.startUtcMs + first.arrivesHours * MS_H).toISOString().slice(0, 16).replace('T', ' ')} UTC) up to the order-up-to level of ${upTo ?? '—'} ${unit}.`;
+    if (raw !== null)
+      basis = `Brings the forecast contents on arrival (${new Date(f!.index.startUtcMs + first.arrivesHours * MS_H).toISOString().slice(0, 16).replace('T', ' ')} UTC) up to the order-up-to level of ${upTo ?? '—'} ${unit}.`;
   }
   if (raw === null && upTo !== null && o.contentsNow !== null) {
     const now = unit === 'kg' ? o.contentsNow : perCyl ? o.contentsNow / perCyl : 0;
@@ -130,10 +152,20 @@ async function insertRequest(m: EntityManager, doer: Doer, n: NewRequest): Promi
     throw e;
   }
   const why = n.origin === 'auto' ? 'The forecast crosses the reorder level inside the lead time.' : n.note;
-  await addEvent(m, saved.id, doer, 'raised', null, 'draft', why, { suggested: n.suggestion.quantity, unit: n.suggestion.unit, basis: n.suggestion.basis, ...(n.quantity !== n.suggestion.quantity ? { quantity: n.quantity, reason: n.reason } : {}) });
+  await addEvent(m, saved.id, doer, 'raised', null, 'draft', why, {
+    suggested: n.suggestion.quantity,
+    unit: n.suggestion.unit,
+    basis: n.suggestion.basis,
+    ...(n.quantity !== n.suggestion.quantity ? { quantity: n.quantity, reason: n.reason } : {}),
+  });
   if (status === 'submitted') await addEvent(m, saved.id, doer, 'submitted', 'draft', 'submitted');
   else if (pricing.problem) await addEvent(m, saved.id, doer, 'held', 'draft', 'draft', pricing.problem);
-  await recordAudit(m, whoOfDoer(doer, n.organisationId), { action: 'create', entity: 'reorder_request', entityId: String(saved.id), after: { sourceId: saved.sourceId, quantity: saved.quantity, unit: saved.unit, status: saved.status, origin: saved.origin } });
+  await recordAudit(m, whoOfDoer(doer, n.organisationId), {
+    action: 'create',
+    entity: 'reorder_request',
+    entityId: String(saved.id),
+    after: { sourceId: saved.sourceId, quantity: saved.quantity, unit: saved.unit, status: saved.status, origin: saved.origin },
+  });
   return saved;
 }
 
@@ -160,8 +192,30 @@ export async function raiseRequestsForCrossings(siteIds?: number[], now = new Da
         const o = outlookFor(model, s, { now });
         if (!crossesReorderLevel(s, o, now)) continue;
         const suggestion = suggestOrder(model, s, o);
-        const trigger = { status: o.status, daysOfStock: o.daysOfStock, reorderAt: o.reorderAt, emptyAt: o.emptyAt, contentsNow: o.contentsNow, unit: o.unit, firstRisk: o.firstRisk, at: now.toISOString() };
-        const saved = await ds.transaction((m) => insertRequest(m, null, { organisationId: orgId, site: model.site, source: s, origin: 'auto', suggestion, quantity: suggestion.quantity, reason: '', note: '', submit: true, trigger }));
+        const trigger = {
+          status: o.status,
+          daysOfStock: o.daysOfStock,
+          reorderAt: o.reorderAt,
+          emptyAt: o.emptyAt,
+          contentsNow: o.contentsNow,
+          unit: o.unit,
+          firstRisk: o.firstRisk,
+          at: now.toISOString(),
+        };
+        const saved = await ds.transaction((m) =>
+          insertRequest(m, null, {
+            organisationId: orgId,
+            site: model.site,
+            source: s,
+            origin: 'auto',
+            suggestion,
+            quantity: suggestion.quantity,
+            reason: '',
+            note: '',
+            submit: true,
+            trigger,
+          }),
+        );
         if (saved) raised.push(saved.id);
       }
     }
@@ -200,18 +254,38 @@ export async function suggestionFor(actor: Actor, sourceId: number) {
 /** A facilities manager raises a request by hand (one open request per source still holds). */
 export async function createRequest(actor: Actor, input: CreateRequestInput, key?: string) {
   const source = await sourceFor(actor, input.sourceId);
-  if (source.type === 'emergency_reserve') throw badRequest('An emergency reserve is restocked with its primary supply, not ordered on its own', [{ path: 'sourceId', message: 'choose a supply source' }]);
+  if (source.type === 'emergency_reserve')
+    throw badRequest('An emergency reserve is restocked with its primary supply, not ordered on its own', [
+      { path: 'sourceId', message: 'choose a supply source' },
+    ]);
   const { model, s, o } = await modelAndOutlook(actor, source);
   const suggestion = suggestOrder(model, s, o);
   const quantity = input.quantity ?? suggestion.quantity;
   checkQuantity(suggestion.unit, quantity);
-  if (quantity !== suggestion.quantity && input.reason.trim().length < 3) throw badRequest('Say why the quantity differs from the suggestion', [{ path: 'reason', message: `the suggestion is ${formatQuantity(suggestion.quantity, suggestion.unit)}` }]);
+  if (quantity !== suggestion.quantity && input.reason.trim().length < 3)
+    throw badRequest('Say why the quantity differs from the suggestion', [
+      { path: 'reason', message: `the suggestion is ${formatQuantity(suggestion.quantity, suggestion.unit)}` },
+    ]);
   const id = await transactionWithRetry(db(), (m) =>
     idempotent(m, actor.user.id, key, `create-request:${input.sourceId}`, async () => {
-      const saved = await insertRequest(m, actor, { organisationId: actor.user.organisationId, site: model.site, source: s, origin: 'manual', suggestion, quantity, reason: quantity !== suggestion.quantity ? input.reason : '', note: input.note, submit: input.submit, trigger: { status: o.status, daysOfStock: o.daysOfStock, reorderAt: o.reorderAt, emptyAt: o.emptyAt, contentsNow: o.contentsNow, unit: o.unit } });
+      const saved = await insertRequest(m, actor, {
+        organisationId: actor.user.organisationId,
+        site: model.site,
+        source: s,
+        origin: 'manual',
+        suggestion,
+        quantity,
+        reason: quantity !== suggestion.quantity ? input.reason : '',
+        note: input.note,
+        submit: input.submit,
+        trigger: { status: o.status, daysOfStock: o.daysOfStock, reorderAt: o.reorderAt, emptyAt: o.emptyAt, contentsNow: o.contentsNow, unit: o.unit },
+      });
       if (!saved) {
         const existing = await m.getRepository(ReorderRequest).findOne({ where: { sourceId: s.id, status: In(OPEN) } });
-        throw conflict(`This source has an open request already (R-${existing?.id ?? '?'}, ${REQUEST_STATUS_TEXT[(existing?.status ?? 'draft') as RequestStatus].toLowerCase()}): change that one instead`, 'open_request_exists');
+        throw conflict(
+          `This source has an open request already (R-${existing?.id ?? '?'}, ${REQUEST_STATUS_TEXT[(existing?.status ?? 'draft') as RequestStatus].toLowerCase()}): change that one instead`,
+          'open_request_exists',
+        );
       }
       return saved.id;
     }),
@@ -220,8 +294,12 @@ export async function createRequest(actor: Actor, input: CreateRequestInput, key
 }
 
 function checkQuantity(unit: string, quantity: number) {
-  if (unit === 'cylinders' && !Number.isInteger(quantity)) throw badRequest('Cylinders are ordered whole', [{ path: 'quantity', message: 'enter whole cylinders' }]);
-  if (unit === 'cylinders' && quantity > MAX_ORDER_CYLINDERS) throw badRequest(`At most ${MAX_ORDER_CYLINDERS.toLocaleString('en-GB')} cylinders are ordered at once`, [{ path: 'quantity', message: `at most ${MAX_ORDER_CYLINDERS.toLocaleString('en-GB')} cylinders: check the quantity` }]);
+  if (unit === 'cylinders' && !Number.isInteger(quantity))
+    throw badRequest('Cylinders are ordered whole', [{ path: 'quantity', message: 'enter whole cylinders' }]);
+  if (unit === 'cylinders' && quantity > MAX_ORDER_CYLINDERS)
+    throw badRequest(`At most ${MAX_ORDER_CYLINDERS.toLocaleString('en-GB')} cylinders are ordered at once`, [
+      { path: 'quantity', message: `at most ${MAX_ORDER_CYLINDERS.toLocaleString('en-GB')} cylinders: check the quantity` },
+    ]);
 }
 
 // ---------- reading ----------
@@ -238,7 +316,10 @@ async function requestFor(m: EntityManager, actor: Actor, id: number, lock = fal
 export async function listRequests(actor: Actor, q: RequestListQuery) {
   const siteIds = q.siteId ? actor.user.siteIds.filter((x) => x === q.siteId) : actor.user.siteIds;
   if (!siteIds.length) return { items: [], total: 0, page: q.page, pageSize: q.pageSize };
-  const qb = db().getRepository(ReorderRequest).createQueryBuilder('r').where('r.organisation_id = :org AND r.site_id IN (:...ids)', { org: actor.user.organisationId, ids: siteIds });
+  const qb = db()
+    .getRepository(ReorderRequest)
+    .createQueryBuilder('r')
+    .where('r.organisation_id = :org AND r.site_id IN (:...ids)', { org: actor.user.organisationId, ids: siteIds });
   if (q.status === 'open') qb.andWhere('r.status IN (:...st)', { st: OPEN });
   else if (q.status === 'closed') qb.andWhere('r.status NOT IN (:...st)', { st: OPEN });
   else if (q.status !== 'all') qb.andWhere('r.status = :st', { st: q.status });
@@ -261,17 +342,37 @@ interface Ctx {
 async function contextFor(rows: ReorderRequest[]): Promise<Ctx> {
   const ids = (f: (r: ReorderRequest) => number | null) => [...new Set(rows.map(f).filter((x): x is number => x !== null))];
   const ds = db();
-  const q = <T extends { id: number }>(cls: new () => T, list: number[]) => (list.length ? ds.getRepository(cls).findBy({ id: In(list) } as never) : Promise.resolve([] as T[]));
+  const q = <T extends { id: number }>(cls: new () => T, list: number[]) =>
+    list.length ? ds.getRepository(cls).findBy({ id: In(list) } as never) : Promise.resolve([] as T[]);
   // One query after another: a request holds one pooled connection at a time, so a burst of requests
   // queues fairly instead of overflowing the pool's queue.
-  const sites = await q(Site, ids((r) => r.siteId));
-  const sources = await q(SupplySource, ids((r) => r.sourceId));
-  const suppliers = await q(Supplier, ids((r) => r.supplierId));
+  const sites = await q(
+    Site,
+    ids((r) => r.siteId),
+  );
+  const sources = await q(
+    SupplySource,
+    ids((r) => r.sourceId),
+  );
+  const suppliers = await q(
+    Supplier,
+    ids((r) => r.supplierId),
+  );
   const users = await q(User, [...new Set([...ids((r) => r.requestedByUserId), ...ids((r) => r.amendedByUserId)])]);
-  const cyl = await q(CylinderType, ids((r) => r.cylinderTypeId));
+  const cyl = await q(
+    CylinderType,
+    ids((r) => r.cylinderTypeId),
+  );
   const orders = rows.length ? await ds.getRepository(PurchaseOrder).find({ where: { requestId: In(rows.map((r) => r.id)) } }) : [];
   const map = <T extends { id: number }>(list: T[]) => new Map(list.map((x) => [x.id, x]));
-  return { sites: map(sites), sources: map(sources), suppliers: map(suppliers), users: map(users), cyl: map(cyl), orders: new Map(orders.map((o) => [o.requestId, o])) };
+  return {
+    sites: map(sites),
+    sources: map(sources),
+    suppliers: map(suppliers),
+    users: map(users),
+    cyl: map(cyl),
+    orders: new Map(orders.map((o) => [o.requestId, o])),
+  };
 }
 
 function presentRequestRow(r: ReorderRequest, ctx: Ctx) {
@@ -315,15 +416,38 @@ function presentRequestRow(r: ReorderRequest, ctx: Ctx) {
 export async function getRequest(actor: Actor, id: number) {
   const r = await requestFor(db().manager, actor, id);
   const ctx = await contextFor([r]);
-  const events = await db().getRepository(ReorderRequestEvent).find({ where: { requestId: id }, order: { at: 'ASC', id: 'ASC' } });
-  const approvals = await db().getRepository(RequestApproval).find({ where: { requestId: id }, order: { at: 'ASC' } });
+  const events = await db()
+    .getRepository(ReorderRequestEvent)
+    .find({ where: { requestId: id }, order: { at: 'ASC', id: 'ASC' } });
+  const approvals = await db()
+    .getRepository(RequestApproval)
+    .find({ where: { requestId: id }, order: { at: 'ASC' } });
   const limit = await db().getRepository(UserApprovalLimit).findOneBy({ userId: actor.user.id });
-  const approvers = approvals.length ? await db().getRepository(User).findBy({ id: In(approvals.map((a) => a.userId)) }) : [];
+  const approvers = approvals.length
+    ? await db()
+        .getRepository(User)
+        .findBy({ id: In(approvals.map((a) => a.userId)) })
+    : [];
   return {
     ...presentRequestRow(r, ctx),
     trigger: r.triggerJson ? (JSON.parse(r.triggerJson) as RequestDetail['trigger']) : null,
-    approvals: approvals.map((a) => ({ userId: a.userId, name: approvers.find((u) => u.id === a.userId)?.name ?? '', at: a.at.toISOString(), limitMinor: a.limitMinor, comment: a.comment })),
-    timeline: events.map((e) => ({ at: e.at.toISOString(), action: e.action, by: e.userName, userId: e.userId, fromStatus: e.fromStatus, toStatus: e.toStatus, comment: e.comment, detail: e.detailJson ? (JSON.parse(e.detailJson) as Record<string, unknown>) : null })),
+    approvals: approvals.map((a) => ({
+      userId: a.userId,
+      name: approvers.find((u) => u.id === a.userId)?.name ?? '',
+      at: a.at.toISOString(),
+      limitMinor: a.limitMinor,
+      comment: a.comment,
+    })),
+    timeline: events.map((e) => ({
+      at: e.at.toISOString(),
+      action: e.action,
+      by: e.userName,
+      userId: e.userId,
+      fromStatus: e.fromStatus,
+      toStatus: e.toStatus,
+      comment: e.comment,
+      detail: e.detailJson ? (JSON.parse(e.detailJson) as Record<string, unknown>) : null,
+    })),
     myApprovalLimit: limit ? { limitMinor: limit.limitMinor, currency: limit.currency } : null,
     actions: actionsFor(actor, r, approvals, limit),
   } satisfies RequestDetail;
@@ -342,15 +466,28 @@ function actionsFor(actor: Actor, r: ReorderRequest, approvals: RequestApproval[
     if (r.amendedByUserId === actor.user.id) return no('You changed the quantity or price of this request last: another purchasing officer must approve it.');
     if (approvals.some((a) => a.userId === actor.user.id)) return no('You gave the first approval: a second purchasing officer must approve it.');
     if (!limit || limit.limitMinor <= 0) return no('You have no approval limit: ask an administrator to set one.');
-    if (r.totalMinor !== null && approvals.length > 0 && r.totalMinor > limit.limitMinor) return no(`The total of ${formatMoney(r.totalMinor, r.currency)} is above your limit of ${formatMoney(limit.limitMinor, limit.currency)}: the second approval needs an officer whose limit covers it.`);
+    if (r.totalMinor !== null && approvals.length > 0 && r.totalMinor > limit.limitMinor)
+      return no(
+        `The total of ${formatMoney(r.totalMinor, r.currency)} is above your limit of ${formatMoney(limit.limitMinor, limit.currency)}: the second approval needs an officer whose limit covers it.`,
+      );
     return ok;
   })();
   return {
     approve,
     reject: po ? (r.status === 'submitted' ? ok : no('Only a request awaiting approval can be rejected.')) : no('Only purchasing officers reject requests.'),
     submit: fm ? (r.status === 'draft' ? (r.problem ? no(r.problem) : ok) : no('Only a draft is submitted.')) : no('Facilities managers submit requests.'),
-    cancel: fm || po ? (['draft', 'submitted'].includes(r.status) ? ok : no('Only a draft or a request awaiting approval can be cancelled.')) : no('Your role cannot cancel requests.'),
-    changeQuantity: fm || po ? (['draft', 'submitted'].includes(r.status) ? ok : no('The quantity is fixed once the request is approved.')) : no('Your role cannot change requests.'),
+    cancel:
+      fm || po
+        ? ['draft', 'submitted'].includes(r.status)
+          ? ok
+          : no('Only a draft or a request awaiting approval can be cancelled.')
+        : no('Your role cannot cancel requests.'),
+    changeQuantity:
+      fm || po
+        ? ['draft', 'submitted'].includes(r.status)
+          ? ok
+          : no('The quantity is fixed once the request is approved.')
+        : no('Your role cannot change requests.'),
   };
 }
 
@@ -358,7 +495,10 @@ function actionsFor(actor: Actor, r: ReorderRequest, approvals: RequestApproval[
 
 function checkVersion(r: ReorderRequest, version: number | undefined) {
   if (version !== undefined && version !== r.version) {
-    throw conflict(`This request changed since you opened it (it is now ${REQUEST_STATUS_TEXT[r.status as RequestStatus].toLowerCase()}): reload and check it again`, 'stale_request');
+    throw conflict(
+      `This request changed since you opened it (it is now ${REQUEST_STATUS_TEXT[r.status as RequestStatus].toLowerCase()}): reload and check it again`,
+      'stale_request',
+    );
   }
 }
 
@@ -371,7 +511,8 @@ export async function submitRequest(actor: Actor, id: number, version: number | 
     idempotent(m, actor.user.id, key, `submit:${id}`, async () => {
       const r = await requestFor(m, actor, id, true);
       checkVersion(r, version);
-      if (r.status !== 'draft') throw conflict(`Only a draft is submitted; this request is ${REQUEST_STATUS_TEXT[r.status as RequestStatus].toLowerCase()}`, 'invalid_transition');
+      if (r.status !== 'draft')
+        throw conflict(`Only a draft is submitted; this request is ${REQUEST_STATUS_TEXT[r.status as RequestStatus].toLowerCase()}`, 'invalid_transition');
       // Prices and the supplier are taken again at submission: the price list may have changed since the draft.
       const source = await m.getRepository(SupplySource).findOneByOrFail({ id: r.sourceId });
       const site = await m.getRepository(Site).findOneByOrFail({ id: r.siteId });
@@ -382,9 +523,31 @@ export async function submitRequest(actor: Actor, id: number, version: number | 
       }
       // A price that changed since the draft is the submitter's change (the four-eyes rule counts it).
       const repriced = pricing.unitPriceMinor !== r.unitPriceMinor;
-      await bump(m, r, { status: 'submitted', problem: '', supplierId: pricing.supplier!.id, unitPriceMinor: pricing.unitPriceMinor, totalMinor: lineTotalMinor(r.quantity, pricing.unitPriceMinor!), ...(repriced ? { amendedByUserId: actor.user.id } : {}) });
-      await addEvent(m, id, actor, 'submitted', 'draft', 'submitted', '', repriced ? { priceChanged: { from: r.unitPriceMinor, to: pricing.unitPriceMinor, currency: r.currency } } : undefined);
-      await recordAudit(m, whoOfDoer(actor, r.organisationId), { action: 'submit', entity: 'reorder_request', entityId: String(id), before: { status: 'draft' }, after: { status: 'submitted' } });
+      await bump(m, r, {
+        status: 'submitted',
+        problem: '',
+        supplierId: pricing.supplier!.id,
+        unitPriceMinor: pricing.unitPriceMinor,
+        totalMinor: lineTotalMinor(r.quantity, pricing.unitPriceMinor!),
+        ...(repriced ? { amendedByUserId: actor.user.id } : {}),
+      });
+      await addEvent(
+        m,
+        id,
+        actor,
+        'submitted',
+        'draft',
+        'submitted',
+        '',
+        repriced ? { priceChanged: { from: r.unitPriceMinor, to: pricing.unitPriceMinor, currency: r.currency } } : undefined,
+      );
+      await recordAudit(m, whoOfDoer(actor, r.organisationId), {
+        action: 'submit',
+        entity: 'reorder_request',
+        entityId: String(id),
+        before: { status: 'draft' },
+        after: { status: 'submitted' },
+      });
       return id;
     }),
   );
@@ -402,8 +565,19 @@ export async function changeQuantity(actor: Actor, id: number, input: ChangeQuan
       if (approvals.length) await m.getRepository(RequestApproval).delete({ requestId: id });
       const totalMinor = r.unitPriceMinor === null ? null : lineTotalMinor(input.quantity, r.unitPriceMinor);
       await bump(m, r, { quantity: input.quantity, quantityReason: input.reason, totalMinor, amendedByUserId: actor.user.id });
-      await addEvent(m, id, actor, 'quantity_changed', r.status, r.status, input.reason, { from: r.quantity, to: input.quantity, unit: r.unit, ...(approvals.length ? { approvalsCleared: approvals.length } : {}) });
-      await recordAudit(m, whoOfDoer(actor, r.organisationId), { action: 'update', entity: 'reorder_request', entityId: String(id), before: { quantity: r.quantity, totalMinor: r.totalMinor }, after: { quantity: input.quantity, totalMinor, reason: input.reason } });
+      await addEvent(m, id, actor, 'quantity_changed', r.status, r.status, input.reason, {
+        from: r.quantity,
+        to: input.quantity,
+        unit: r.unit,
+        ...(approvals.length ? { approvalsCleared: approvals.length } : {}),
+      });
+      await recordAudit(m, whoOfDoer(actor, r.organisationId), {
+        action: 'update',
+        entity: 'reorder_request',
+        entityId: String(id),
+        before: { quantity: r.quantity, totalMinor: r.totalMinor },
+        after: { quantity: input.quantity, totalMinor, reason: input.reason },
+      });
       return id;
     }),
   );
@@ -415,10 +589,17 @@ export async function cancelRequest(actor: Actor, id: number, input: { reason: s
     idempotent(m, actor.user.id, key, `cancel:${id}`, async () => {
       const r = await requestFor(m, actor, id, true);
       checkVersion(r, input.version);
-      if (!['draft', 'submitted'].includes(r.status)) throw conflict(`A request that is ${REQUEST_STATUS_TEXT[r.status as RequestStatus].toLowerCase()} cannot be cancelled here`, 'invalid_transition');
+      if (!['draft', 'submitted'].includes(r.status))
+        throw conflict(`A request that is ${REQUEST_STATUS_TEXT[r.status as RequestStatus].toLowerCase()} cannot be cancelled here`, 'invalid_transition');
       await bump(m, r, { status: 'cancelled' });
       await addEvent(m, id, actor, 'cancelled', r.status, 'cancelled', input.reason);
-      await recordAudit(m, whoOfDoer(actor, r.organisationId), { action: 'cancel', entity: 'reorder_request', entityId: String(id), before: { status: r.status }, after: { status: 'cancelled', reason: input.reason } });
+      await recordAudit(m, whoOfDoer(actor, r.organisationId), {
+        action: 'cancel',
+        entity: 'reorder_request',
+        entityId: String(id),
+        before: { status: r.status },
+        after: { status: 'cancelled', reason: input.reason },
+      });
       return id;
     }),
   );
@@ -430,13 +611,25 @@ export async function rejectRequest(actor: Actor, id: number, input: RejectInput
     idempotent(m, actor.user.id, key, `reject:${id}`, async () => {
       const r = await requestFor(m, actor, id, true);
       checkVersion(r, input.version);
-      if (r.status !== 'submitted') throw conflict(`Only a request awaiting approval can be rejected; this one is ${REQUEST_STATUS_TEXT[r.status as RequestStatus].toLowerCase()}`, 'invalid_transition');
+      if (r.status !== 'submitted')
+        throw conflict(
+          `Only a request awaiting approval can be rejected; this one is ${REQUEST_STATUS_TEXT[r.status as RequestStatus].toLowerCase()}`,
+          'invalid_transition',
+        );
       await bump(m, r, { status: 'rejected' });
       await addEvent(m, id, actor, 'rejected', 'submitted', 'rejected', input.comment);
-      await recordAudit(m, whoOfDoer(actor, r.organisationId), { action: 'reject', entity: 'reorder_request', entityId: String(id), before: { status: 'submitted' }, after: { status: 'rejected', comment: input.comment } });
+      await recordAudit(m, whoOfDoer(actor, r.organisationId), {
+        action: 'reject',
+        entity: 'reorder_request',
+        entityId: String(id),
+        before: { status: 'submitted' },
+        after: { status: 'rejected', comment: input.comment },
+      });
       const source = await m.getRepository(SupplySource).findOneByOrFail({ id: r.sourceId });
       const site = await m.getRepository(Site).findOneByOrFail({ id: r.siteId });
-      const recipients = r.requestedByUserId ? await m.getRepository(User).findBy({ id: r.requestedByUserId }) : await usersWithRoleAtSite(m, r.organisationId, r.siteId, 'facilities_manager');
+      const recipients = r.requestedByUserId
+        ? await m.getRepository(User).findBy({ id: r.requestedByUserId })
+        : await usersWithRoleAtSite(m, r.organisationId, r.siteId, 'facilities_manager');
       if (recipients.length) {
         await enqueueMail(m, {
           organisationId: r.organisationId,
@@ -478,30 +671,66 @@ export async function approveRequest(actor: Actor, id: number, input: DecisionIn
       const r = await requestFor(m, actor, id, true);
       if (r.status !== 'submitted') {
         const po = await m.getRepository(PurchaseOrder).findOneBy({ requestId: id });
-        throw conflict(`This request is ${REQUEST_STATUS_TEXT[r.status as RequestStatus].toLowerCase()} already${po ? ` (purchase order ${po.poNumber})` : ''}: nothing was approved twice`, 'not_awaiting_approval');
+        throw conflict(
+          `This request is ${REQUEST_STATUS_TEXT[r.status as RequestStatus].toLowerCase()} already${po ? ` (purchase order ${po.poNumber})` : ''}: nothing was approved twice`,
+          'not_awaiting_approval',
+        );
       }
       checkVersion(r, input.version);
-      if (r.requestedByUserId === actor.user.id) throw new AppError(409, 'self_approval', 'You raised this request, so you cannot approve it: another purchasing officer must.');
-      if (r.amendedByUserId === actor.user.id) throw new AppError(409, 'own_change_approval', 'You changed the quantity or price of this request last, so you cannot approve it: another purchasing officer must.');
-      if (r.problem || r.totalMinor === null || r.unitPriceMinor === null || !r.supplierId) throw conflict(r.problem || 'This request has no price: it cannot be approved', 'request_problem');
+      if (r.requestedByUserId === actor.user.id)
+        throw new AppError(409, 'self_approval', 'You raised this request, so you cannot approve it: another purchasing officer must.');
+      if (r.amendedByUserId === actor.user.id)
+        throw new AppError(
+          409,
+          'own_change_approval',
+          'You changed the quantity or price of this request last, so you cannot approve it: another purchasing officer must.',
+        );
+      if (r.problem || r.totalMinor === null || r.unitPriceMinor === null || !r.supplierId)
+        throw conflict(r.problem || 'This request has no price: it cannot be approved', 'request_problem');
       const limit = await m.getRepository(UserApprovalLimit).findOneBy({ userId: actor.user.id });
-      if (!limit || limit.limitMinor <= 0) throw new AppError(409, 'no_approval_limit', 'You have no approval limit: ask an administrator to set one before approving.');
-      if (limit.currency !== r.currency) throw new AppError(409, 'approval_limit_currency', `Your approval limit is in ${limit.currency}; this request is in ${r.currency}: ask an administrator.`);
+      if (!limit || limit.limitMinor <= 0)
+        throw new AppError(409, 'no_approval_limit', 'You have no approval limit: ask an administrator to set one before approving.');
+      if (limit.currency !== r.currency)
+        throw new AppError(
+          409,
+          'approval_limit_currency',
+          `Your approval limit is in ${limit.currency}; this request is in ${r.currency}: ask an administrator.`,
+        );
       const prior = await m.getRepository(RequestApproval).find({ where: { requestId: id } });
-      if (prior.some((a) => a.userId === actor.user.id)) throw new AppError(409, 'second_approver_needed', 'You gave the first approval: a second purchasing officer must approve this request.');
+      if (prior.some((a) => a.userId === actor.user.id))
+        throw new AppError(409, 'second_approver_needed', 'You gave the first approval: a second purchasing officer must approve this request.');
       const total = r.totalMinor;
       if (prior.length > 0 && total > limit.limitMinor) {
-        throw new AppError(409, 'above_approval_limit', `The total of ${formatMoney(total, r.currency)} is above your limit of ${formatMoney(limit.limitMinor, limit.currency)}: the second approval needs an officer whose limit covers it.`);
+        throw new AppError(
+          409,
+          'above_approval_limit',
+          `The total of ${formatMoney(total, r.currency)} is above your limit of ${formatMoney(limit.limitMinor, limit.currency)}: the second approval needs an officer whose limit covers it.`,
+        );
       }
-      await m.getRepository(RequestApproval).insert({ requestId: id, userId: actor.user.id, limitMinor: limit.limitMinor, totalMinor: total, comment: input.comment });
+      await m
+        .getRepository(RequestApproval)
+        .insert({ requestId: id, userId: actor.user.id, limitMinor: limit.limitMinor, totalMinor: total, comment: input.comment });
       if (prior.length === 0 && total > limit.limitMinor) {
         await bump(m, r, {});
-        await addEvent(m, id, actor, 'approved_first', 'submitted', 'submitted', input.comment, { totalMinor: total, limitMinor: limit.limitMinor, note: 'Above this approver’s limit: a second approval is needed.' });
-        await recordAudit(m, whoOfDoer(actor, org), { action: 'approve_first', entity: 'reorder_request', entityId: String(id), after: { totalMinor: total, limitMinor: limit.limitMinor } });
+        await addEvent(m, id, actor, 'approved_first', 'submitted', 'submitted', input.comment, {
+          totalMinor: total,
+          limitMinor: limit.limitMinor,
+          note: 'Above this approver’s limit: a second approval is needed.',
+        });
+        await recordAudit(m, whoOfDoer(actor, org), {
+          action: 'approve_first',
+          entity: 'reorder_request',
+          entityId: String(id),
+          after: { totalMinor: total, limitMinor: limit.limitMinor },
+        });
         return id;
       }
       await bump(m, r, { status: 'approved' });
-      await addEvent(m, id, actor, 'approved', 'submitted', 'approved', input.comment, { totalMinor: total, limitMinor: limit.limitMinor, approvals: prior.length + 1 });
+      await addEvent(m, id, actor, 'approved', 'submitted', 'approved', input.comment, {
+        totalMinor: total,
+        limitMinor: limit.limitMinor,
+        approvals: prior.length + 1,
+      });
       await createPurchaseOrder(m, actor, r, [...prior.map((a) => a.userId), actor.user.id]);
       return id;
     }),
@@ -522,11 +751,20 @@ async function createPurchaseOrder(m: EntityManager, actor: Actor, r: ReorderReq
   const windowEnd = new Date(windowStart.getTime() + 24 * MS_H);
   // The forecast counts the order from its expected arrival until the delivery is recorded.
   const sd = await m.getRepository(ScheduledDelivery).save(
-    m.getRepository(ScheduledDelivery).create({ sourceId: source.id, dueAt: windowStart, kg: r.unit === 'kg' ? r.quantity : null, cylinders: r.unit === 'cylinders' ? r.quantity : null, status: 'scheduled', reference: `R-${r.id}` }),
+    m.getRepository(ScheduledDelivery).create({
+      sourceId: source.id,
+      dueAt: windowStart,
+      kg: r.unit === 'kg' ? r.quantity : null,
+      cylinders: r.unit === 'cylinders' ? r.quantity : null,
+      status: 'scheduled',
+      reference: `R-${r.id}`,
+    }),
   );
   // Number last, so the sequence row is locked for the shortest time; a rollback returns the number.
   await m.query('UPDATE po_sequence SET last_value = last_value + 1 WHERE organisation_id = ?', [r.organisationId]);
-  const [{ last_value: seqRaw }] = (await m.query('SELECT last_value FROM po_sequence WHERE organisation_id = ?', [r.organisationId])) as { last_value: number }[];
+  const [{ last_value: seqRaw }] = (await m.query('SELECT last_value FROM po_sequence WHERE organisation_id = ?', [r.organisationId])) as {
+    last_value: number;
+  }[];
   const seq = Number(seqRaw);
   const poNumber = `PO-${String(seq).padStart(6, '0')}`;
   const approvedBy = approverIds.map((uid) => ({ userId: uid, name: approvers.find((u) => u.id === uid)?.name ?? '' }));
@@ -560,7 +798,9 @@ async function createPurchaseOrder(m: EntityManager, actor: Actor, r: ReorderReq
   );
   await m.getRepository(ScheduledDelivery).update({ id: sd.id }, { reference: poNumber });
   await bumpSiteVersion(m, site.id);
-  const copyTo = r.requestedByUserId ? await m.getRepository(User).findBy({ id: r.requestedByUserId }) : await usersWithRoleAtSite(m, r.organisationId, r.siteId, 'facilities_manager');
+  const copyTo = r.requestedByUserId
+    ? await m.getRepository(User).findBy({ id: r.requestedByUserId })
+    : await usersWithRoleAtSite(m, r.organisationId, r.siteId, 'facilities_manager');
   await enqueueMail(m, {
     organisationId: r.organisationId,
     kind: 'purchase_order',
@@ -587,7 +827,15 @@ async function createPurchaseOrder(m: EntityManager, actor: Actor, r: ReorderReq
     requestId: r.id,
     dedupeKey: `po:${po.id}`,
   });
-  await addEvent(m, r.id, actor, 'po_created', 'approved', 'approved', `Purchase order ${poNumber} queued for e-mail to ${supplier.orderEmail}`, { purchaseOrderId: po.id, poNumber, windowStart: windowStart.toISOString() });
-  await recordAudit(m, whoOfDoer(actor, r.organisationId), { action: 'create', entity: 'purchase_order', entityId: String(po.id), after: { poNumber, requestId: r.id, totalMinor: po.totalMinor, currency: po.currency } });
+  await addEvent(m, r.id, actor, 'po_created', 'approved', 'approved', `Purchase order ${poNumber} queued for e-mail to ${supplier.orderEmail}`, {
+    purchaseOrderId: po.id,
+    poNumber,
+    windowStart: windowStart.toISOString(),
+  });
+  await recordAudit(m, whoOfDoer(actor, r.organisationId), {
+    action: 'create',
+    entity: 'purchase_order',
+    entityId: String(po.id),
+    after: { poNumber, requestId: r.id, totalMinor: po.totalMinor, currency: po.currency },
+  });
 }
-

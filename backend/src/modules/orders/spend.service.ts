@@ -73,21 +73,34 @@ export async function spendReport(actor: Actor, q: SpendQuery): Promise<SpendRep
     const k = `${month}|${siteId}|${gasCode}|${supplierId}|${currency}`;
     let r = rows.get(k);
     if (!r) {
-      r = { month, siteId, siteName: siteName.get(siteId) ?? '', gasCode, supplierId, supplierName: suppliers.get(supplierId)?.name ?? '', currency, orderedMinor: 0, deliveredMinor: 0, rentalMinor: 0, cylinderDays: 0 };
+      r = {
+        month,
+        siteId,
+        siteName: siteName.get(siteId) ?? '',
+        gasCode,
+        supplierId,
+        supplierName: suppliers.get(supplierId)?.name ?? '',
+        currency,
+        orderedMinor: 0,
+        deliveredMinor: 0,
+        rentalMinor: 0,
+        cylinderDays: 0,
+      };
       rows.set(k, r);
     }
     return r;
   };
 
-  const orders: { month: string; site_id: number; gas_code: string; supplier_id: number; currency: string; ordered: string; delivered: string }[] = await ds.query(
-    `SELECT DATE_FORMAT(p.created_at, '%Y-%m') AS month, p.site_id, r.gas_code, p.supplier_id, p.currency,
+  const orders: { month: string; site_id: number; gas_code: string; supplier_id: number; currency: string; ordered: string; delivered: string }[] =
+    await ds.query(
+      `SELECT DATE_FORMAT(p.created_at, '%Y-%m') AS month, p.site_id, r.gas_code, p.supplier_id, p.currency,
             SUM(p.total_minor) AS ordered,
             SUM(CASE WHEN p.delivered_quantity IS NULL THEN 0 ELSE ROUND(p.delivered_quantity * p.unit_price_minor) END) AS delivered
        FROM purchase_order p JOIN reorder_request r ON r.id = p.request_id
       WHERE p.organisation_id = ? AND p.site_id IN (?) AND p.created_at >= ? AND p.created_at < ?
       GROUP BY month, p.site_id, r.gas_code, p.supplier_id, p.currency`,
-    [actor.user.organisationId, ids, new Date(range.fromMs), new Date(range.toMs)],
-  );
+      [actor.user.organisationId, ids, new Date(range.fromMs), new Date(range.toMs)],
+    );
   for (const o of orders) {
     const r = rowFor(o.month, Number(o.site_id), o.gas_code, Number(o.supplier_id), o.currency);
     r.orderedMinor += Number(o.ordered);
@@ -95,7 +108,9 @@ export async function spendReport(actor: Actor, q: SpendQuery): Promise<SpendRep
   }
 
   // Rental: cylinder sources with a supplier that charges it.
-  const sources = (await ds.getRepository(SupplySource).find({ where: { siteId: In(ids) } })).filter((s) => s.type !== 'bulk_liquid' && s.supplierId && (suppliers.get(s.supplierId)?.rentalMinorPerCylinderDay ?? 0) > 0);
+  const sources = (await ds.getRepository(SupplySource).find({ where: { siteId: In(ids) } })).filter(
+    (s) => s.type !== 'bulk_liquid' && s.supplierId && (suppliers.get(s.supplierId)?.rentalMinorPerCylinderDay ?? 0) > 0,
+  );
   if (sources.length) {
     const untilMs = Math.min(range.toMs, Date.now());
     const readings: { source_id: number; taken_at: Date; kind: string; detail_json: string | null }[] = await ds.query(
@@ -109,7 +124,10 @@ export async function spendReport(actor: Actor, q: SpendQuery): Promise<SpendRep
       const sup = suppliers.get(s.supplierId!)!;
       const counts = readings
         .filter((r) => Number(r.source_id) === s.id)
-        .map((r) => ({ atMs: new Date(r.taken_at).getTime(), cylinders: cylindersOnSite(r.kind, r.detail_json ? JSON.parse(r.detail_json) : null, s.cylindersPerBank) }))
+        .map((r) => ({
+          atMs: new Date(r.taken_at).getTime(),
+          cylinders: cylindersOnSite(r.kind, r.detail_json ? JSON.parse(r.detail_json) : null, s.cylindersPerBank),
+        }))
         .filter((c): c is { atMs: number; cylinders: number } => c.cylinders !== null);
       for (const [month, days] of cylinderDaysByMonth(counts, range.fromMs, untilMs)) {
         const r = rowFor(month, s.siteId, s.gasCode, sup.id, siteCurrency.get(s.siteId) ?? sup.currency);
@@ -120,7 +138,13 @@ export async function spendReport(actor: Actor, q: SpendQuery): Promise<SpendRep
   }
   const months: string[] = [];
   for (let d = DateTime.fromMillis(range.fromMs, { zone: 'utc' }); d.toMillis() < range.toMs; d = d.plus({ months: 1 })) months.push(d.toFormat('yyyy-MM'));
-  const list = [...rows.values()].sort((a, b) => a.month.localeCompare(b.month) || a.siteName.localeCompare(b.siteName) || a.gasCode.localeCompare(b.gasCode) || a.supplierName.localeCompare(b.supplierName));
+  const list = [...rows.values()].sort(
+    (a, b) =>
+      a.month.localeCompare(b.month) ||
+      a.siteName.localeCompare(b.siteName) ||
+      a.gasCode.localeCompare(b.gasCode) ||
+      a.supplierName.localeCompare(b.supplierName),
+  );
   return { from: range.from, to: range.to, months, rows: list, currencies: [...new Set(list.map((r) => r.currency))] } satisfies SpendReport;
 }
 
@@ -129,6 +153,19 @@ export async function spendCsv(actor: Actor, q: SpendQuery): Promise<string> {
   const minor = (n: number) => Number((n / 100).toFixed(2));
   return toCsv(
     ['month', 'site', 'gas', 'supplier', 'currency', 'ordered', 'delivered', 'rental', 'cylinder_days', 'ordered_minor', 'delivered_minor', 'rental_minor'],
-    r.rows.map((x) => [x.month, x.siteName, x.gasCode, x.supplierName, x.currency, minor(x.orderedMinor), minor(x.deliveredMinor), minor(x.rentalMinor), x.cylinderDays, x.orderedMinor, x.deliveredMinor, x.rentalMinor]),
+    r.rows.map((x) => [
+      x.month,
+      x.siteName,
+      x.gasCode,
+      x.supplierName,
+      x.currency,
+      minor(x.orderedMinor),
+      minor(x.deliveredMinor),
+      minor(x.rentalMinor),
+      x.cylinderDays,
+      x.orderedMinor,
+      x.deliveredMinor,
+      x.rentalMinor,
+    ]),
   );
 }

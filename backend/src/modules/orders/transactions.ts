@@ -39,9 +39,13 @@ export async function idempotent<T>(m: EntityManager, userId: number, key: strin
     await m.query('INSERT INTO idempotency_key (user_id, idem_key, scope) VALUES (?, ?, ?)', [userId, key, scope]);
   } catch (e) {
     if (!isDuplicateKey(e)) throw e;
-    const rows: { scope: string; response_json: string | null }[] = await m.query('SELECT scope, response_json FROM idempotency_key WHERE user_id = ? AND idem_key = ? LOCK IN SHARE MODE', [userId, key]);
+    const rows: { scope: string; response_json: string | null }[] = await m.query(
+      'SELECT scope, response_json FROM idempotency_key WHERE user_id = ? AND idem_key = ? LOCK IN SHARE MODE',
+      [userId, key],
+    );
     const row = rows[0];
-    if (!row || row.scope !== scope || row.response_json === null) throw conflict('This Idempotency-Key was used for another action: send a new key', 'idempotency_key_reused');
+    if (!row || row.scope !== scope || row.response_json === null)
+      throw conflict('This Idempotency-Key was used for another action: send a new key', 'idempotency_key_reused');
     return JSON.parse(row.response_json) as T;
   }
   const result = await work();

@@ -57,7 +57,8 @@ function toRow(input: SiteInput) {
 export async function createSite(actor: Actor, input: SiteInput) {
   return db().transaction(async (m) => {
     const repo = m.getRepository(Site);
-    if (await repo.findOneBy({ organisationId: actor.user.organisationId, name: input.name })) throw conflict(`A site called "${input.name}" exists already`, 'duplicate');
+    if (await repo.findOneBy({ organisationId: actor.user.organisationId, name: input.name }))
+      throw conflict(`A site called "${input.name}" exists already`, 'duplicate');
     const saved = await repo.save(repo.create({ ...toRow(input), organisationId: actor.user.organisationId }));
     await recordAudit(m, whoOf(actor), { action: 'create', entity: 'site', entityId: String(saved.id), after: presentSite(saved) });
     return presentSite(saved);
@@ -88,7 +89,13 @@ export async function renameOrganisation(actor: Actor, name: string) {
     const repo = m.getRepository(Organisation);
     const before = await repo.findOneByOrFail({ id: actor.user.organisationId });
     await repo.update({ id: before.id }, { name });
-    await recordAudit(m, whoOf(actor), { action: 'update', entity: 'organisation', entityId: String(before.id), before: { name: before.name }, after: { name } });
+    await recordAudit(m, whoOf(actor), {
+      action: 'update',
+      entity: 'organisation',
+      entityId: String(before.id),
+      before: { name: before.name },
+      after: { name },
+    });
     return { id: before.id, name } satisfies OrganisationView;
   });
 }

@@ -1,9 +1,36 @@
 import { In, type EntityManager } from 'typeorm';
 import { DateTime } from 'luxon';
-import type { DeliveryInput, DeliveryView, Department, ForecastBasis, ReadingInput, ReadingKind, ReadingMethod, ReadingPage, ReadingView, ReorderMode, ScenarioInput, ScenarioView, SourceInput, SourceType, SourceView, TherapyDevice, TherapyLineInput, TherapyLineView, WardInput, WardView } from '@common/schemas/supply.schema';
+import type {
+  DeliveryInput,
+  DeliveryView,
+  Department,
+  ForecastBasis,
+  ReadingInput,
+  ReadingKind,
+  ReadingMethod,
+  ReadingPage,
+  ReadingView,
+  ReorderMode,
+  ScenarioInput,
+  ScenarioView,
+  SourceInput,
+  SourceType,
+  SourceView,
+  TherapyDevice,
+  TherapyLineInput,
+  TherapyLineView,
+  WardInput,
+  WardView,
+} from '@common/schemas/supply.schema';
 import { compressedContents } from '@common/gas/contents';
 import { mixtureCautions } from '@common/gas/mixture-cautions';
-import { DEFAULT_TANK_OPERATING_GAUGE_BAR, levelPercentToKg, loxDensityAtTankPressureKgPerL, loxLitresToKg, contentsFromCalibrationTable } from '@common/gas/liquid-oxygen';
+import {
+  DEFAULT_TANK_OPERATING_GAUGE_BAR,
+  levelPercentToKg,
+  loxDensityAtTankPressureKgPerL,
+  loxLitresToKg,
+  contentsFromCalibrationTable,
+} from '@common/gas/liquid-oxygen';
 import { freeGasLitresPerKg, type ReferenceCode } from '@common/gas/reference-conditions';
 import { isLiquefiedGas, type GasCode } from '@common/gas/gases';
 import { InvalidInputError } from '@common/api/errors';
@@ -55,27 +82,70 @@ export function presentSource(s: SupplySource) {
 }
 
 export function presentReading(r: SourceReading, names?: Map<number, string>) {
-  return { id: r.id, takenAt: r.takenAt.toISOString(), kind: r.kind as ReadingKind, value: r.value, detail: r.detailJson ? (JSON.parse(r.detailJson) as ReadingView['detail']) : null, contents: r.contents, method: r.method as ReadingMethod, takenByUserId: r.takenByUserId, takenByName: r.takenByUserId ? (names?.get(r.takenByUserId) ?? null) : null, note: r.note } satisfies ReadingView;
+  return {
+    id: r.id,
+    takenAt: r.takenAt.toISOString(),
+    kind: r.kind as ReadingKind,
+    value: r.value,
+    detail: r.detailJson ? (JSON.parse(r.detailJson) as ReadingView['detail']) : null,
+    contents: r.contents,
+    method: r.method as ReadingMethod,
+    takenByUserId: r.takenByUserId,
+    takenByName: r.takenByUserId ? (names?.get(r.takenByUserId) ?? null) : null,
+    note: r.note,
+  } satisfies ReadingView;
 }
 
 /** Names of the people who took readings (same organisation only), for the readings tables. */
 export async function readerNames(organisationId: number, readings: SourceReading[]): Promise<Map<number, string>> {
   const ids = [...new Set(readings.map((r) => r.takenByUserId).filter((x): x is number => x !== null))];
   if (ids.length === 0) return new Map();
-  const rows: { id: number; name: string }[] = await db().query(`SELECT id, name FROM app_user WHERE organisation_id = ? AND id IN (${ids.map(() => '?').join(',')})`, [organisationId, ...ids]);
+  const rows: { id: number; name: string }[] = await db().query(
+    `SELECT id, name FROM app_user WHERE organisation_id = ? AND id IN (${ids.map(() => '?').join(',')})`,
+    [organisationId, ...ids],
+  );
   return new Map(rows.map((u) => [Number(u.id), u.name]));
 }
 
 export function presentWard(w: Ward) {
-  return { id: w.id, siteId: w.siteId, name: w.name, department: w.department as Department, beds: w.beds, leakagePercent: w.leakagePercent, active: w.active } satisfies WardView;
+  return {
+    id: w.id,
+    siteId: w.siteId,
+    name: w.name,
+    department: w.department as Department,
+    beds: w.beds,
+    leakagePercent: w.leakagePercent,
+    active: w.active,
+  } satisfies WardView;
 }
 
 export function presentScenario(s: Scenario) {
-  return { id: s.id, siteId: s.siteId, name: s.name, multiplier: s.multiplier, extraPatients: s.extraPatients, extraFlowLMin: s.extraFlowLMin, wardId: s.wardId, wardChange: s.wardChange as ScenarioView['wardChange'], fromLocal: s.fromLocal, untilLocal: s.untilLocal, note: s.note } satisfies ScenarioView;
+  return {
+    id: s.id,
+    siteId: s.siteId,
+    name: s.name,
+    multiplier: s.multiplier,
+    extraPatients: s.extraPatients,
+    extraFlowLMin: s.extraFlowLMin,
+    wardId: s.wardId,
+    wardChange: s.wardChange as ScenarioView['wardChange'],
+    fromLocal: s.fromLocal,
+    untilLocal: s.untilLocal,
+    note: s.note,
+  } satisfies ScenarioView;
 }
 
 export function presentTherapy(t: TherapyLineRow) {
-  return { id: t.id, gasCode: t.gasCode, device: t.device as TherapyDevice, patients: t.patients, flowLMin: t.flowLMin, hours: t.hoursJson ? (JSON.parse(t.hoursJson) as number[]) : null, weekdays: t.weekdaysJson ? (JSON.parse(t.weekdaysJson) as number[]) : null, label: t.label } satisfies TherapyLineView;
+  return {
+    id: t.id,
+    gasCode: t.gasCode,
+    device: t.device as TherapyDevice,
+    patients: t.patients,
+    flowLMin: t.flowLMin,
+    hours: t.hoursJson ? (JSON.parse(t.hoursJson) as number[]) : null,
+    weekdays: t.weekdaysJson ? (JSON.parse(t.weekdaysJson) as number[]) : null,
+    label: t.label,
+  } satisfies TherapyLineView;
 }
 
 // ---------- scoped look-ups (404 for anything outside the actor's sites) ----------
@@ -117,11 +187,13 @@ async function checkSourceRefs(m: EntityManager, actor: Actor, siteId: number, i
   if (input.cylinderTypeId) {
     const c = await m.getRepository(CylinderType).findOneBy({ id: input.cylinderTypeId, organisationId: actor.user.organisationId });
     if (!c) throw badRequest('Unknown cylinder type', [{ path: 'cylinderTypeId', message: 'choose a cylinder type of your catalogue' }]);
-    if (c.gasCode !== input.gasCode) throw badRequest('The cylinder type holds another gas', [{ path: 'cylinderTypeId', message: `this type is for ${c.gasCode}` }]);
+    if (c.gasCode !== input.gasCode)
+      throw badRequest('The cylinder type holds another gas', [{ path: 'cylinderTypeId', message: `this type is for ${c.gasCode}` }]);
   }
   if (input.backsUp.length) {
     const n = await m.getRepository(SupplySource).count({ where: { id: In(input.backsUp), siteId } });
-    if (n !== new Set(input.backsUp).size) throw badRequest('A backed-up source is not on this site', [{ path: 'backsUp', message: 'choose sources of the same site' }]);
+    if (n !== new Set(input.backsUp).size)
+      throw badRequest('A backed-up source is not on this site', [{ path: 'backsUp', message: 'choose sources of the same site' }]);
   }
 }
 
@@ -132,7 +204,9 @@ function sourceRow(input: SourceInput) {
 
 export async function listSources(actor: Actor, siteId: number) {
   await getSiteFor(actor, siteId);
-  const rows = await db().getRepository(SupplySource).find({ where: { siteId }, order: { name: 'ASC' } });
+  const rows = await db()
+    .getRepository(SupplySource)
+    .find({ where: { siteId }, order: { name: 'ASC' } });
   return rows.map(presentSource);
 }
 
@@ -140,7 +214,8 @@ export async function createSource(actor: Actor, siteId: number, input: SourceIn
   await getSiteFor(actor, siteId);
   return db().transaction(async (m) => {
     await checkSourceRefs(m, actor, siteId, input);
-    if (await m.getRepository(SupplySource).findOneBy({ siteId, name: input.name })) throw conflict(`A source called "${input.name}" exists on this site`, 'duplicate');
+    if (await m.getRepository(SupplySource).findOneBy({ siteId, name: input.name }))
+      throw conflict(`A source called "${input.name}" exists on this site`, 'duplicate');
     const saved = await m.getRepository(SupplySource).save(m.getRepository(SupplySource).create({ ...sourceRow(input), siteId }));
     await recordAudit(m, whoOf(actor), { action: 'create', entity: 'supply_source', entityId: String(saved.id), after: presentSource(saved) });
     await bumpSiteVersion(m, siteId);
@@ -157,7 +232,13 @@ export async function updateSource(actor: Actor, id: number, input: SourceInput)
     if (clash && clash.id !== id) throw conflict(`A source called "${input.name}" exists on this site`, 'duplicate');
     await m.getRepository(SupplySource).update({ id }, sourceRow(input));
     const after = await m.getRepository(SupplySource).findOneByOrFail({ id });
-    await recordAudit(m, whoOf(actor), { action: 'update', entity: 'supply_source', entityId: String(id), before: presentSource(before), after: presentSource(after) });
+    await recordAudit(m, whoOf(actor), {
+      action: 'update',
+      entity: 'supply_source',
+      entityId: String(id),
+      before: presentSource(before),
+      after: presentSource(after),
+    });
     await bumpSiteVersion(m, before.siteId);
     return presentSource(after);
   });
@@ -168,7 +249,13 @@ export async function setCorrection(actor: Actor, id: number, factor: number, ba
   return db().transaction(async (m) => {
     const before = await sourceFor(actor, id, m);
     await m.getRepository(SupplySource).update({ id }, { modelCorrectionFactor: factor, forecastBasis: basis });
-    await recordAudit(m, whoOf(actor), { action: 'update', entity: 'supply_source', entityId: String(id), before: { modelCorrectionFactor: before.modelCorrectionFactor, forecastBasis: before.forecastBasis }, after: { modelCorrectionFactor: factor, forecastBasis: basis } });
+    await recordAudit(m, whoOf(actor), {
+      action: 'update',
+      entity: 'supply_source',
+      entityId: String(id),
+      before: { modelCorrectionFactor: before.modelCorrectionFactor, forecastBasis: before.forecastBasis },
+      after: { modelCorrectionFactor: factor, forecastBasis: basis },
+    });
     await bumpSiteVersion(m, before.siteId);
     return presentSource(await m.getRepository(SupplySource).findOneByOrFail({ id }));
   });
@@ -185,7 +272,10 @@ export function contentsOfReading(source: SupplySource, site: Site, cyl: Cylinde
     cylinder_store: ['store_count'],
     emergency_reserve: ['store_count', 'bank_gauges'],
   };
-  if (!kindsFor[source.type].includes(r.kind)) throw badRequest(`A ${source.type.replace('_', ' ')} is read as ${kindsFor[source.type].join(' or ')}`, [{ path: 'kind', message: `use ${kindsFor[source.type].join(' or ')}` }]);
+  if (!kindsFor[source.type].includes(r.kind))
+    throw badRequest(`A ${source.type.replace('_', ' ')} is read as ${kindsFor[source.type].join(' or ')}`, [
+      { path: 'kind', message: `use ${kindsFor[source.type].join(' or ')}` },
+    ]);
   try {
     if (source.type === 'bulk_liquid') {
       const cap = source.capacityKg ?? 0;
@@ -193,14 +283,17 @@ export function contentsOfReading(source: SupplySource, site: Site, cyl: Cylinde
       if (r.kind === 'level_percent') kg = levelPercentToKg(cap, r.value);
       else if (r.kind === 'kg') kg = r.value;
       else if (r.kind === 'litres_liquid') {
-        if (source.gasCode !== 'O2') throw badRequest('Litres of liquid are converted for liquid oxygen only: enter kg or % for this tank', [{ path: 'kind', message: 'use kg or %' }]);
+        if (source.gasCode !== 'O2')
+          throw badRequest('Litres of liquid are converted for liquid oxygen only: enter kg or % for this tank', [{ path: 'kind', message: 'use kg or %' }]);
         // at the saturated-liquid density of the tank's working pressure, not the boiling-point density
         kg = loxLitresToKg(r.value, loxDensityAtTankPressureKgPerL(source.operatingPressureBar ?? DEFAULT_TANK_OPERATING_GAUGE_BAR, site.atmosphericBar));
       } else if (r.kind === 'calibration') {
-        if (!source.calibrationJson) throw badRequest('This tank has no calibration table: enter %, kg or litres', [{ path: 'kind', message: 'no calibration table' }]);
+        if (!source.calibrationJson)
+          throw badRequest('This tank has no calibration table: enter %, kg or litres', [{ path: 'kind', message: 'no calibration table' }]);
         kg = contentsFromCalibrationTable(JSON.parse(source.calibrationJson), r.value);
       } else throw new Error('unreachable');
-      if (kg > cap * 1.0001) throw badRequest(`${kg.toFixed(0)} kg is above the tank's capacity of ${cap} kg: check the reading`, [{ path: 'value', message: 'above capacity' }]);
+      if (kg > cap * 1.0001)
+        throw badRequest(`${kg.toFixed(0)} kg is above the tank's capacity of ${cap} kg: check the reading`, [{ path: 'value', message: 'above capacity' }]);
       return kg;
     }
     if (!cyl) throw badRequest('This source has no cylinder type', [{ path: 'kind', message: 'set the cylinder type first' }]);
@@ -212,27 +305,50 @@ export function contentsOfReading(source: SupplySource, site: Site, cyl: Cylinde
       if (r.kind === 'store_count') {
         // while liquid is left the gauge shows the vapour pressure whatever the contents: part-used cylinders are weighed
         if (r.inUseGaugeBar.length > 0) {
-          throw badRequest(`The gauge of ${gas} shows its vapour pressure, not the contents, while any liquid is left: weigh the cylinder: gross − tare, and enter the net weight of each part-used cylinder`, [
-            { path: 'inUseGaugeBar', message: 'weigh the cylinder: gross − tare' },
-          ]);
+          throw badRequest(
+            `The gauge of ${gas} shows its vapour pressure, not the contents, while any liquid is left: weigh the cylinder: gross − tare, and enter the net weight of each part-used cylinder`,
+            [{ path: 'inUseGaugeBar', message: 'weigh the cylinder: gross − tare' }],
+          );
         }
         return (r.full * perFullKg + (r.inUseNetKg ?? []).reduce((sum, kg) => sum + kg, 0)) * lPerKg;
       }
-      throw badRequest('The gauge of a liquefied gas shows vapour pressure, not contents: count full and in-use cylinders instead', [{ path: 'kind', message: 'use a store count' }]);
+      throw badRequest('The gauge of a liquefied gas shows vapour pressure, not contents: count full and in-use cylinders instead', [
+        { path: 'kind', message: 'use a store count' },
+      ]);
     }
-    const perCyl = (gauge: number) => compressedContents({ gas, waterCapacityL: cyl.waterCapacityL, gaugeBar: gauge, temperatureC, atmosphericBar: site.atmosphericBar, reference }).freeGasL;
-    const full = compressedContents({ gas, waterCapacityL: cyl.waterCapacityL, gaugeBar: cyl.fillPressureBar, temperatureC: 15, atmosphericBar: site.atmosphericBar, reference }).freeGasL;
+    const perCyl = (gauge: number) =>
+      compressedContents({ gas, waterCapacityL: cyl.waterCapacityL, gaugeBar: gauge, temperatureC, atmosphericBar: site.atmosphericBar, reference }).freeGasL;
+    const full = compressedContents({
+      gas,
+      waterCapacityL: cyl.waterCapacityL,
+      gaugeBar: cyl.fillPressureBar,
+      temperatureC: 15,
+      atmosphericBar: site.atmosphericBar,
+      reference,
+    }).freeGasL;
     if (r.kind === 'bank_gauges') {
       const n = source.cylindersPerBank ?? 1;
-      for (const [k, g] of [['dutyBar', r.dutyBar], ['standbyBar', r.standbyBar]] as const) {
-        if (g > cyl.fillPressureBar * 1.35) throw badRequest(`${g} bar is far above this cylinder's ${cyl.fillPressureBar} bar fill: check the gauge`, [{ path: k, message: 'above the fill pressure' }]);
+      for (const [k, g] of [
+        ['dutyBar', r.dutyBar],
+        ['standbyBar', r.standbyBar],
+      ] as const) {
+        if (g > cyl.fillPressureBar * 1.35)
+          throw badRequest(`${g} bar is far above this cylinder's ${cyl.fillPressureBar} bar fill: check the gauge`, [
+            { path: k, message: 'above the fill pressure' },
+          ]);
       }
       return n * (perCyl(r.dutyBar) + perCyl(r.standbyBar)) + r.spareFull * full;
     }
     if (r.kind === 'store_count') {
-      if ((r.inUseNetKg ?? []).length > 0) throw badRequest('Net weights are for liquefied gases (CO2, N2O): give a gauge reading for each part-used cylinder', [{ path: 'inUseNetKg', message: 'gauge readings for this gas' }]);
+      if ((r.inUseNetKg ?? []).length > 0)
+        throw badRequest('Net weights are for liquefied gases (CO2, N2O): give a gauge reading for each part-used cylinder', [
+          { path: 'inUseNetKg', message: 'gauge readings for this gas' },
+        ]);
       r.inUseGaugeBar.forEach((g, i) => {
-        if (g > cyl.fillPressureBar * 1.35) throw badRequest(`${g} bar is far above this cylinder's ${cyl.fillPressureBar} bar fill`, [{ path: `inUseGaugeBar.${i}`, message: 'above the fill pressure' }]);
+        if (g > cyl.fillPressureBar * 1.35)
+          throw badRequest(`${g} bar is far above this cylinder's ${cyl.fillPressureBar} bar fill`, [
+            { path: `inUseGaugeBar.${i}`, message: 'above the fill pressure' },
+          ]);
       });
       return r.full * full + r.inUseGaugeBar.reduce((sum, g) => sum + perCyl(g), 0);
     }
@@ -254,7 +370,11 @@ export async function addReading(actor: Actor, sourceId: number, input: ReadingI
     const { kind, takenAt: _t, method, note, ...rest } = input as ReadingInput & Record<string, unknown>;
     const value = 'value' in rest ? (rest.value as number) : null;
     const detail = 'value' in rest ? null : JSON.stringify(rest);
-    const saved = await m.getRepository(SourceReading).save(m.getRepository(SourceReading).create({ sourceId, takenAt, kind, value, detailJson: detail, contents, method, note, takenByUserId: actor.user.id }));
+    const saved = await m
+      .getRepository(SourceReading)
+      .save(
+        m.getRepository(SourceReading).create({ sourceId, takenAt, kind, value, detailJson: detail, contents, method, note, takenByUserId: actor.user.id }),
+      );
     await recordAudit(m, whoOf(actor), { action: 'create', entity: 'source_reading', entityId: saved.id, after: presentReading(saved) });
     await bumpSiteVersion(m, source.siteId);
     // a 50:50 N2O/O2 reading taken in a cold store: the contents assume a mixture that may have separated
@@ -265,7 +385,9 @@ export async function addReading(actor: Actor, sourceId: number, input: ReadingI
 
 export async function listReadings(actor: Actor, sourceId: number, page: number, pageSize: number) {
   await sourceFor(actor, sourceId);
-  const [rows, total] = await db().getRepository(SourceReading).findAndCount({ where: { sourceId }, order: { takenAt: 'DESC', id: 'DESC' }, skip: (page - 1) * pageSize, take: pageSize });
+  const [rows, total] = await db()
+    .getRepository(SourceReading)
+    .findAndCount({ where: { sourceId }, order: { takenAt: 'DESC', id: 'DESC' }, skip: (page - 1) * pageSize, take: pageSize });
   const names = await readerNames(actor.user.organisationId, rows);
   return { items: rows.map((r) => presentReading(r, names)), total, page, pageSize } satisfies ReadingPage;
 }
@@ -274,7 +396,9 @@ export async function listReadings(actor: Actor, sourceId: number, page: number,
 
 export async function listWards(actor: Actor, siteId: number) {
   await getSiteFor(actor, siteId);
-  const wards = await db().getRepository(Ward).find({ where: { siteId }, order: { name: 'ASC' } });
+  const wards = await db()
+    .getRepository(Ward)
+    .find({ where: { siteId }, order: { name: 'ASC' } });
   return (await visibleWards(actor, wards)).map(presentWard);
 }
 
@@ -310,7 +434,16 @@ export async function replaceTherapy(actor: Actor, wardId: number, lines: Therap
     await m.getRepository(TherapyLineRow).delete({ wardId });
     if (lines.length) {
       await m.getRepository(TherapyLineRow).insert(
-        lines.map((l) => ({ wardId, gasCode: l.gasCode, device: l.device, patients: l.patients, flowLMin: l.flowLMin, hoursJson: l.hours?.length ? JSON.stringify([...new Set(l.hours)].sort((a, b) => a - b)) : null, weekdaysJson: l.weekdays?.length ? JSON.stringify([...new Set(l.weekdays)].sort()) : null, label: l.label })),
+        lines.map((l) => ({
+          wardId,
+          gasCode: l.gasCode,
+          device: l.device,
+          patients: l.patients,
+          flowLMin: l.flowLMin,
+          hoursJson: l.hours?.length ? JSON.stringify([...new Set(l.hours)].sort((a, b) => a - b)) : null,
+          weekdaysJson: l.weekdays?.length ? JSON.stringify([...new Set(l.weekdays)].sort()) : null,
+          label: l.label,
+        })),
       );
     }
     const after = (await m.getRepository(TherapyLineRow).find({ where: { wardId }, order: { id: 'ASC' } })).map(presentTherapy);
@@ -327,13 +460,15 @@ export async function replaceFeeds(actor: Actor, wardId: number, feeds: { source
     const sources = ids.length ? await m.getRepository(SupplySource).find({ where: { id: In(ids), siteId: ward.siteId } }) : [];
     feeds.forEach((f, i) => {
       const s = sources.find((x) => x.id === f.sourceId);
-      if (!s) throw badRequest('A feed names a source that is not on this ward\'s site', [{ path: `feeds.${i}.sourceId`, message: 'unknown source' }]);
-      if (s.gasCode !== f.gasCode) throw badRequest(`${s.name} holds ${s.gasCode}, not ${f.gasCode}`, [{ path: `feeds.${i}.gasCode`, message: 'does not match the source' }]);
+      if (!s) throw badRequest("A feed names a source that is not on this ward's site", [{ path: `feeds.${i}.sourceId`, message: 'unknown source' }]);
+      if (s.gasCode !== f.gasCode)
+        throw badRequest(`${s.name} holds ${s.gasCode}, not ${f.gasCode}`, [{ path: `feeds.${i}.gasCode`, message: 'does not match the source' }]);
     });
     const primaries = new Set<string>();
     feeds.forEach((f, i) => {
       if (f.role !== 'primary') return;
-      if (primaries.has(f.gasCode)) throw badRequest(`Only one primary source per gas`, [{ path: `feeds.${i}.role`, message: 'a primary exists for this gas' }]);
+      if (primaries.has(f.gasCode))
+        throw badRequest(`Only one primary source per gas`, [{ path: `feeds.${i}.role`, message: 'a primary exists for this gas' }]);
       primaries.add(f.gasCode);
     });
     const before = await m.getRepository(WardFeed).find({ where: { wardId } });
@@ -350,20 +485,26 @@ export async function replaceFeeds(actor: Actor, wardId: number, feeds: { source
 
 function checkLocal(site: Site, local: string, path: string) {
   const dt = DateTime.fromFormat(local, "yyyy-MM-dd'T'HH:mm", { zone: site.timeZone });
-  if (!dt.isValid || dt.toFormat("yyyy-MM-dd'T'HH:mm") !== local) throw badRequest(`${local} is not a valid local time in ${site.timeZone}`, [{ path, message: 'not a valid local time' }]);
+  if (!dt.isValid || dt.toFormat("yyyy-MM-dd'T'HH:mm") !== local)
+    throw badRequest(`${local} is not a valid local time in ${site.timeZone}`, [{ path, message: 'not a valid local time' }]);
 }
 
 async function checkScenario(m: EntityManager, actor: Actor, siteId: number, input: ScenarioInput) {
   const site = await m.getRepository(Site).findOneByOrFail({ id: siteId });
   checkLocal(site, input.fromLocal, 'fromLocal');
   if (input.untilLocal) checkLocal(site, input.untilLocal, 'untilLocal');
-  if (input.wardId && !(await m.getRepository(Ward).findOneBy({ id: input.wardId, siteId }))) throw badRequest('The ward is not on this site', [{ path: 'wardId', message: 'unknown ward' }]);
+  if (input.wardId && !(await m.getRepository(Ward).findOneBy({ id: input.wardId, siteId })))
+    throw badRequest('The ward is not on this site', [{ path: 'wardId', message: 'unknown ward' }]);
   void actor;
 }
 
 export async function listScenarios(actor: Actor, siteId: number) {
   await getSiteFor(actor, siteId);
-  return (await db().getRepository(Scenario).find({ where: { siteId }, order: { fromLocal: 'ASC' } })).map(presentScenario);
+  return (
+    await db()
+      .getRepository(Scenario)
+      .find({ where: { siteId }, order: { fromLocal: 'ASC' } })
+  ).map(presentScenario);
 }
 
 export async function createScenario(actor: Actor, siteId: number, input: ScenarioInput) {
@@ -386,7 +527,13 @@ export async function updateScenario(actor: Actor, id: number, input: ScenarioIn
     if (clash && clash.id !== id) throw conflict(`A scenario called "${input.name}" exists`, 'duplicate');
     await m.getRepository(Scenario).update({ id }, input);
     const after = await m.getRepository(Scenario).findOneByOrFail({ id });
-    await recordAudit(m, whoOf(actor), { action: 'update', entity: 'scenario', entityId: String(id), before: presentScenario(before), after: presentScenario(after) });
+    await recordAudit(m, whoOf(actor), {
+      action: 'update',
+      entity: 'scenario',
+      entityId: String(id),
+      before: presentScenario(before),
+      after: presentScenario(after),
+    });
     await bumpSiteVersion(m, before.siteId);
     return presentScenario(after);
   });
@@ -405,20 +552,39 @@ export async function deleteScenario(actor: Actor, id: number) {
 // ---------- scheduled deliveries ----------
 
 export function presentDelivery(d: ScheduledDelivery) {
-  return { id: d.id, sourceId: d.sourceId, dueAt: d.dueAt.toISOString(), kg: d.kg, cylinders: d.cylinders, status: d.status, reference: d.reference } satisfies DeliveryView;
+  return {
+    id: d.id,
+    sourceId: d.sourceId,
+    dueAt: d.dueAt.toISOString(),
+    kg: d.kg,
+    cylinders: d.cylinders,
+    status: d.status,
+    reference: d.reference,
+  } satisfies DeliveryView;
 }
 
 export async function listDeliveries(actor: Actor, sourceId: number) {
   await sourceFor(actor, sourceId);
-  return (await db().getRepository(ScheduledDelivery).find({ where: { sourceId }, order: { dueAt: 'DESC' }, take: 100 })).map(presentDelivery);
+  return (
+    await db()
+      .getRepository(ScheduledDelivery)
+      .find({ where: { sourceId }, order: { dueAt: 'DESC' }, take: 100 })
+  ).map(presentDelivery);
 }
 
 export async function scheduleDelivery(actor: Actor, sourceId: number, input: DeliveryInput) {
   return db().transaction(async (m) => {
     const source = await sourceFor(actor, sourceId, m);
     if (source.type === 'bulk_liquid' && input.kg === null) throw badRequest('A delivery to a tank is in kg', [{ path: 'kg', message: 'enter kg' }]);
-    if (source.type !== 'bulk_liquid' && input.cylinders === null) throw badRequest('A delivery of cylinders is counted in cylinders', [{ path: 'cylinders', message: 'enter cylinders' }]);
-    const saved = await m.getRepository(ScheduledDelivery).save(m.getRepository(ScheduledDelivery).create({ sourceId, dueAt: new Date(input.dueAt), kg: input.kg, cylinders: input.cylinders, status: 'scheduled', reference: input.reference }));
+    if (source.type !== 'bulk_liquid' && input.cylinders === null)
+      throw badRequest('A delivery of cylinders is counted in cylinders', [{ path: 'cylinders', message: 'enter cylinders' }]);
+    const saved = await m
+      .getRepository(ScheduledDelivery)
+      .save(
+        m
+          .getRepository(ScheduledDelivery)
+          .create({ sourceId, dueAt: new Date(input.dueAt), kg: input.kg, cylinders: input.cylinders, status: 'scheduled', reference: input.reference }),
+      );
     await recordAudit(m, whoOf(actor), { action: 'create', entity: 'scheduled_delivery', entityId: String(saved.id), after: presentDelivery(saved) });
     await bumpSiteVersion(m, source.siteId);
     return presentDelivery(saved);
@@ -430,7 +596,13 @@ export async function cancelDelivery(actor: Actor, id: number) {
     const { delivery, source } = await deliveryFor(actor, id, m);
     if (delivery.status !== 'scheduled') throw new AppError(409, 'conflict', `This delivery is ${delivery.status} already`);
     await m.getRepository(ScheduledDelivery).update({ id }, { status: 'cancelled' });
-    await recordAudit(m, whoOf(actor), { action: 'update', entity: 'scheduled_delivery', entityId: String(id), before: presentDelivery(delivery), after: { ...presentDelivery(delivery), status: 'cancelled' } });
+    await recordAudit(m, whoOf(actor), {
+      action: 'update',
+      entity: 'scheduled_delivery',
+      entityId: String(id),
+      before: presentDelivery(delivery),
+      after: { ...presentDelivery(delivery), status: 'cancelled' },
+    });
     await bumpSiteVersion(m, source.siteId);
     return { ...presentDelivery(delivery), status: 'cancelled' };
   });
@@ -442,13 +614,22 @@ export async function setDeviceFlows(actor: Actor, flows: { device: string; flow
   return db().transaction(async (m) => {
     const before = await m.getRepository(DeviceFlow).find({ where: { organisationId: actor.user.organisationId } });
     await m.getRepository(DeviceFlow).delete({ organisationId: actor.user.organisationId });
-    if (flows.length) await m.getRepository(DeviceFlow).insert(flows.map((f) => ({ organisationId: actor.user.organisationId, device: f.device, flowLMin: f.flowLMin })));
-    await recordAudit(m, whoOf(actor), { action: 'update', entity: 'device_flows', entityId: String(actor.user.organisationId), before: before.map((f) => ({ device: f.device, flowLMin: f.flowLMin })), after: flows });
+    if (flows.length)
+      await m.getRepository(DeviceFlow).insert(flows.map((f) => ({ organisationId: actor.user.organisationId, device: f.device, flowLMin: f.flowLMin })));
+    await recordAudit(m, whoOf(actor), {
+      action: 'update',
+      entity: 'device_flows',
+      entityId: String(actor.user.organisationId),
+      before: before.map((f) => ({ device: f.device, flowLMin: f.flowLMin })),
+      after: flows,
+    });
     await m.query('UPDATE site SET data_version = data_version + 1 WHERE organisation_id = ?', [actor.user.organisationId]);
     return flows;
   });
 }
 
 export async function getDeviceFlows(actor: Actor) {
-  return db().getRepository(DeviceFlow).find({ where: { organisationId: actor.user.organisationId } });
+  return db()
+    .getRepository(DeviceFlow)
+    .find({ where: { organisationId: actor.user.organisationId } });
 }

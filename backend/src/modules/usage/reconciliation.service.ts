@@ -1,7 +1,20 @@
 import { hasKey, lookup } from '@common/api/lookup';
 import { DateTime } from 'luxon';
 import { In, MoreThanOrEqual } from 'typeorm';
-import { consumptionBetweenReadings, coefficientOfVariation, dailyRates, demandCvFromDays, detectRefills, meterCurve, orderedSeries, refillThreshold, suggestCorrectionFactor, weeklyTotals, type ContentsPoint, type DayRate } from '@common/forecast/reconcile';
+import {
+  consumptionBetweenReadings,
+  coefficientOfVariation,
+  dailyRates,
+  demandCvFromDays,
+  detectRefills,
+  meterCurve,
+  orderedSeries,
+  refillThreshold,
+  suggestCorrectionFactor,
+  weeklyTotals,
+  type ContentsPoint,
+  type DayRate,
+} from '@common/forecast/reconcile';
 import type { DemandLine } from '@common/forecast/demand-lines';
 import { DEVICE_DEFAULTS, type OxygenDevice } from '@common/forecast/demand-model';
 import { nominalContents } from '@common/catalogue/cylinder-type';
@@ -36,12 +49,18 @@ export const RECONCILIATION_CAUTION =
 
 /** A source's contents readings since an instant, thinned to at most MAX_POINTS (the last reading of each time bucket). */
 async function contentsSeries(sourceId: number, since: Date): Promise<ContentsPoint[]> {
-  const [{ n, first, last }] = (await db().query('SELECT COUNT(*) AS n, MIN(taken_at) AS first, MAX(taken_at) AS last FROM source_reading WHERE source_id = ? AND taken_at >= ?', [sourceId, since])) as { n: string; first: Date | null; last: Date | null }[];
+  const [{ n, first, last }] = (await db().query(
+    'SELECT COUNT(*) AS n, MIN(taken_at) AS first, MAX(taken_at) AS last FROM source_reading WHERE source_id = ? AND taken_at >= ?',
+    [sourceId, since],
+  )) as { n: string; first: Date | null; last: Date | null }[];
   const count = Number(n);
   if (count === 0) return [];
   let rows: { t: Date; c: number | string }[];
   if (count <= MAX_POINTS || !first || !last) {
-    rows = await db().query('SELECT taken_at AS t, contents AS c FROM source_reading WHERE source_id = ? AND taken_at >= ? ORDER BY taken_at, id', [sourceId, since]);
+    rows = await db().query('SELECT taken_at AS t, contents AS c FROM source_reading WHERE source_id = ? AND taken_at >= ? ORDER BY taken_at, id', [
+      sourceId,
+      since,
+    ]);
   } else {
     // Signed differences telescope, so keeping the last reading of each bucket keeps the use between them.
     const bucketS = Math.max(60, Math.ceil((new Date(last).getTime() - new Date(first).getTime()) / 1000 / MAX_POINTS));
@@ -76,7 +95,14 @@ function meanPerDay(lines: readonly DemandLine[]): number {
 function fullCylinderL(model: SiteModel, s: SupplySource): number | null {
   const cyl = s.cylinderTypeId ? model.cylinderTypes.get(s.cylinderTypeId) : undefined;
   if (!cyl) return null;
-  return nominalContents({ gas: cyl.gasCode, waterCapacityL: cyl.waterCapacityL, fillPressureBar: cyl.fillPressureBar, maxFillingRatioKgPerL: cyl.maxFillingRatioKgPerL })?.freeGasL ?? null;
+  return (
+    nominalContents({
+      gas: cyl.gasCode,
+      waterCapacityL: cyl.waterCapacityL,
+      fillPressureBar: cyl.fillPressureBar,
+      maxFillingRatioKgPerL: cyl.maxFillingRatioKgPerL,
+    })?.freeGasL ?? null
+  );
 }
 
 /** Measured use of one source from its readings, against the model of the wards it feeds. */
@@ -93,7 +119,9 @@ async function reconcileSource(model: SiteModel, s: SupplySource, since: Date): 
   let spanHours = 0;
   let note: string | null = null;
   if (points.length >= 2) {
-    const found = detectRefills(points, { minRise: refillThreshold({ capacity: s.capacityKg, fullCylinder: s.type === 'bulk_liquid' ? null : fullCylinderL(model, s) }) });
+    const found = detectRefills(points, {
+      minRise: refillThreshold({ capacity: s.capacityKg, fullCylinder: s.type === 'bulk_liquid' ? null : fullCylinderL(model, s) }),
+    });
     const c = consumptionBetweenReadings(points, found);
     spanHours = c.spanHours;
     days = dailyRates(c.curve, zone);
@@ -149,7 +177,11 @@ function reconcileWard(model: SiteModel, w: Ward, data: WardData, fromDate: stri
       const rows = rowsOf(d.device);
       const modelledPatients = rows.reduce((a, t) => a + t.patients, 0);
       if (modelledPatients > 0) {
-        const lines = rows.map((t) => ({ flow_L_min: t.patients * (t.flowLMin ?? flowOf(t.device)), hours: t.hoursJson ? (JSON.parse(t.hoursJson) as number[]) : undefined, weekdays: t.weekdaysJson ? (JSON.parse(t.weekdaysJson) as number[]) : undefined }));
+        const lines = rows.map((t) => ({
+          flow_L_min: t.patients * (t.flowLMin ?? flowOf(t.device)),
+          hours: t.hoursJson ? (JSON.parse(t.hoursJson) as number[]) : undefined,
+          weekdays: t.weekdaysJson ? (JSON.parse(t.weekdaysJson) as number[]) : undefined,
+        }));
         return sum + modelledOnDate(lines, r.date) * (d.patientsNow / modelledPatients) * leak;
       }
       return sum + d.patientsNow * flowOf(d.device) * 1440 * leak;
@@ -165,12 +197,20 @@ function reconcileWard(model: SiteModel, w: Ward, data: WardData, fromDate: stri
   };
   const reportedPerDay = perModelDay(reportedDaily);
   const modelPatients = new Map<string, number>();
-  for (const t of model.therapy) if (t.wardId === w.id && t.gasCode === 'O2' && hasKey(DEVICE_DEFAULTS, t.device)) modelPatients.set(t.device, (modelPatients.get(t.device) ?? 0) + t.patients);
+  for (const t of model.therapy)
+    if (t.wardId === w.id && t.gasCode === 'O2' && hasKey(DEVICE_DEFAULTS, t.device))
+      modelPatients.set(t.device, (modelPatients.get(t.device) ?? 0) + t.patients);
   const devices = Object.keys(DEVICE_DEFAULTS)
     .map((device) => {
       const counts = reports.map((r) => r.devices.find((d) => d.device === device)?.patientsNow ?? 0);
       const peaks = reports.map((r) => r.devices.find((d) => d.device === device)?.patientsShift ?? 0);
-      return { device, label: DEVICE_DEFAULTS[device as OxygenDevice].label, modelPatients: modelPatients.get(device) ?? 0, reportedMeanNow: counts.length ? counts.reduce((a, b) => a + b, 0) / counts.length : null, reportedMaxShift: peaks.length ? Math.max(...peaks) : null };
+      return {
+        device,
+        label: DEVICE_DEFAULTS[device as OxygenDevice].label,
+        modelPatients: modelPatients.get(device) ?? 0,
+        reportedMeanNow: counts.length ? counts.reduce((a, b) => a + b, 0) / counts.length : null,
+        reportedMaxShift: peaks.length ? Math.max(...peaks) : null,
+      };
     })
     .filter((d) => d.modelPatients > 0 || (d.reportedMeanNow ?? 0) > 0);
 
@@ -180,7 +220,13 @@ function reconcileWard(model: SiteModel, w: Ward, data: WardData, fromDate: stri
     for (const c of r.cylinders) {
       const t = model.cylinderTypes.get(c.cylinderTypeId);
       if (!t) continue;
-      const perCyl = nominalContents({ gas: t.gasCode, waterCapacityL: t.waterCapacityL, fillPressureBar: t.fillPressureBar, maxFillingRatioKgPerL: t.maxFillingRatioKgPerL })?.freeGasL ?? 0;
+      const perCyl =
+        nominalContents({
+          gas: t.gasCode,
+          waterCapacityL: t.waterCapacityL,
+          fillPressureBar: t.fillPressureBar,
+          maxFillingRatioKgPerL: t.maxFillingRatioKgPerL,
+        })?.freeGasL ?? 0;
       const acc = cylinderByGas.get(t.gasCode) ?? { cylinders: 0, litres: 0 };
       acc.cylinders += c.used;
       acc.litres += c.used * perCyl;
@@ -192,7 +238,16 @@ function reconcileWard(model: SiteModel, w: Ward, data: WardData, fromDate: stri
       date: r.date,
       amount: r.cylinders.reduce((sum, c) => {
         const t = model.cylinderTypes.get(c.cylinderTypeId);
-        return t && t.gasCode === 'O2' ? sum + c.used * (nominalContents({ gas: t.gasCode, waterCapacityL: t.waterCapacityL, fillPressureBar: t.fillPressureBar, maxFillingRatioKgPerL: t.maxFillingRatioKgPerL })?.freeGasL ?? 0) : sum;
+        return t && t.gasCode === 'O2'
+          ? sum +
+              c.used *
+                (nominalContents({
+                  gas: t.gasCode,
+                  waterCapacityL: t.waterCapacityL,
+                  fillPressureBar: t.fillPressureBar,
+                  maxFillingRatioKgPerL: t.maxFillingRatioKgPerL,
+                })?.freeGasL ?? 0)
+          : sum;
       }, 0),
     })),
   );
@@ -206,7 +261,14 @@ function reconcileWard(model: SiteModel, w: Ward, data: WardData, fromDate: stri
   const historyPerDay = perModelDay(history.map((h) => ({ date: h.usageDate, amount: h.volumeL })));
 
   // The best measurement the ward has: a meter, then historic usage, then the reported patients.
-  const [measured, basis] = meterPerDay !== null ? [meterPerDay, 'flow meter'] : historyPerDay !== null ? [historyPerDay, 'historic usage'] : reportedPerDay !== null ? [reportedPerDay, 'reported patients'] : [null, null];
+  const [measured, basis] =
+    meterPerDay !== null
+      ? [meterPerDay, 'flow meter']
+      : historyPerDay !== null
+        ? [historyPerDay, 'historic usage']
+        : reportedPerDay !== null
+          ? [reportedPerDay, 'reported patients']
+          : [null, null];
   const daily = new Map<string, { date: string; modelledL: number; reportedL: number | null; meterL: number | null; historyL: number | null }>();
   const row = (date: string) => {
     let d = daily.get(date);
@@ -236,7 +298,11 @@ function reconcileWard(model: SiteModel, w: Ward, data: WardData, fromDate: stri
     devices,
     cylinders: [...cylinderByGas.entries()].map(([gasCode, v]) => ({ gasCode, cylinders: v.cylinders, litres: v.litres })),
     cylinderWeekly,
-    weekly: weeklyTotals([...daily.values()].filter((d) => (d.meterL ?? d.historyL ?? d.reportedL) !== null).map((d) => ({ date: d.date, amount: (d.meterL ?? d.historyL ?? d.reportedL)! }))),
+    weekly: weeklyTotals(
+      [...daily.values()]
+        .filter((d) => (d.meterL ?? d.historyL ?? d.reportedL) !== null)
+        .map((d) => ({ date: d.date, amount: (d.meterL ?? d.historyL ?? d.reportedL)! })),
+    ),
     daily: [...daily.values()].sort((a, b) => (a.date < b.date ? -1 : 1)),
     primarySource: primary ? { id: primary.sourceId, name: model.sources.find((s) => s.id === primary.sourceId)?.name ?? '' } : null,
   };
@@ -245,8 +311,16 @@ function reconcileWard(model: SiteModel, w: Ward, data: WardData, fromDate: stri
 async function wardData(siteId: number, wardIds: number[], since: Date, fromDate: string): Promise<WardData> {
   const [reports, meters, history] = await Promise.all([
     siteReportsSince(siteId, fromDate),
-    wardIds.length ? db().getRepository(FlowMeterReading).find({ where: { wardId: In(wardIds), takenAt: MoreThanOrEqual(since) }, order: { takenAt: 'ASC' } }) : Promise.resolve([]),
-    wardIds.length ? db().getRepository(UsageHistory).find({ where: { wardId: In(wardIds), usageDate: MoreThanOrEqual(fromDate) } }) : Promise.resolve([]),
+    wardIds.length
+      ? db()
+          .getRepository(FlowMeterReading)
+          .find({ where: { wardId: In(wardIds), takenAt: MoreThanOrEqual(since) }, order: { takenAt: 'ASC' } })
+      : Promise.resolve([]),
+    wardIds.length
+      ? db()
+          .getRepository(UsageHistory)
+          .find({ where: { wardId: In(wardIds), usageDate: MoreThanOrEqual(fromDate) } })
+      : Promise.resolve([]),
   ]);
   return { reports, meters, history };
 }
@@ -264,7 +338,12 @@ export async function siteReconciliation(actor: Actor, siteId: number, days: num
   const sources = [];
   for (const s of model.sources.filter((x) => x.type !== 'emergency_reserve')) sources.push(await reconcileSource(model, s, since));
   const wards = model.wards.filter((w) => w.active);
-  const data = await wardData(siteId, wards.map((w) => w.id), since, fromDate);
+  const data = await wardData(
+    siteId,
+    wards.map((w) => w.id),
+    since,
+    fromDate,
+  );
   return {
     site: { id: model.site.id, name: model.site.name, timeZone: zone, referenceCode: model.site.referenceCode },
     from: since.toISOString(),
@@ -294,8 +373,25 @@ export async function sourceReconciliation(actor: Actor, sourceId: number, days:
     .getRepository(AuditLog)
     .find({ where: { organisationId: actor.user.organisationId, entity: 'supply_source', entityId: String(sourceId) }, order: { id: 'DESC' }, take: 50 });
   const corrections = audit
-    .map((a) => ({ at: a.at.toISOString(), by: a.userEmail, before: a.beforeJson ? JSON.parse(a.beforeJson) : null, after: a.afterJson ? JSON.parse(a.afterJson) : null }))
+    .map((a) => ({
+      at: a.at.toISOString(),
+      by: a.userEmail,
+      before: a.beforeJson ? JSON.parse(a.beforeJson) : null,
+      after: a.afterJson ? JSON.parse(a.afterJson) : null,
+    }))
     .filter((a) => a.after && 'modelCorrectionFactor' in a.after && Object.keys(a.after).length <= 2)
-    .map((a) => ({ at: a.at, by: a.by, factor: a.after.modelCorrectionFactor as number, basis: a.after.forecastBasis as string, previousFactor: (a.before?.modelCorrectionFactor as number | undefined) ?? null }));
-  return { site: { id: model.site.id, name: model.site.name, timeZone: model.site.timeZone }, days, caution: RECONCILIATION_CAUTION, source: result, corrections };
+    .map((a) => ({
+      at: a.at,
+      by: a.by,
+      factor: a.after.modelCorrectionFactor as number,
+      basis: a.after.forecastBasis as string,
+      previousFactor: (a.before?.modelCorrectionFactor as number | undefined) ?? null,
+    }));
+  return {
+    site: { id: model.site.id, name: model.site.name, timeZone: model.site.timeZone },
+    days,
+    caution: RECONCILIATION_CAUTION,
+    source: result,
+    corrections,
+  };
 }

@@ -25,7 +25,9 @@ interface MissingWard {
 export async function sendDueReminders(now: Date = new Date(), opts: { siteIds?: number[] } = {}): Promise<{ to: string; wards: string[] }[]> {
   const e = env();
   const [hh, mm] = e.REPORT_REMINDER_LOCAL_TIME.split(':').map(Number);
-  const sites = await db().getRepository(Site).find(opts.siteIds ? { where: { id: In(opts.siteIds) } } : {});
+  const sites = await db()
+    .getRepository(Site)
+    .find(opts.siteIds ? { where: { id: In(opts.siteIds) } } : {});
   const missing: MissingWard[] = [];
   for (const site of sites) {
     const local = DateTime.fromJSDate(now, { zone: site.timeZone });
@@ -72,7 +74,18 @@ export async function sendDueReminders(now: Date = new Date(), opts: { siteIds?:
       : leads;
     if (!to.length) continue;
     // Claim before sending: the unique key (ward, date) makes a second sender skip it.
-    const claim: { affectedRows?: number } = await db().query('INSERT IGNORE INTO usage_reminder (site_id, ward_id, local_date, recipients) VALUES (?, ?, ?, ?)', [w.siteId, w.wardId, w.date, to.map((l) => l.email).join(', ').slice(0, 2000)]);
+    const claim: { affectedRows?: number } = await db().query(
+      'INSERT IGNORE INTO usage_reminder (site_id, ward_id, local_date, recipients) VALUES (?, ?, ?, ?)',
+      [
+        w.siteId,
+        w.wardId,
+        w.date,
+        to
+          .map((l) => l.email)
+          .join(', ')
+          .slice(0, 2000),
+      ],
+    );
     if (!claim.affectedRows) continue;
     for (const l of to) {
       const acc = byEmail.get(l.email) ?? { name: l.name, wards: [], ungranted: new Set<number>() };
@@ -84,7 +97,12 @@ export async function sendDueReminders(now: Date = new Date(), opts: { siteIds?:
 
   const sent: { to: string; wards: string[] }[] = [];
   for (const [email, { name, wards, ungranted }] of byEmail) {
-    const list = wards.map((w) => `  • ${w.wardName} (${w.siteName}), ${w.date}${ungranted.has(w.wardId) ? ' — no ward lead is granted this ward: ask an administrator to grant it' : ''}`).join('\n');
+    const list = wards
+      .map(
+        (w) =>
+          `  • ${w.wardName} (${w.siteName}), ${w.date}${ungranted.has(w.wardId) ? ' — no ward lead is granted this ward: ask an administrator to grant it' : ''}`,
+      )
+      .join('\n');
     const subject = wards.length === 1 ? `Usage report missing: ${wards[0].wardName}, ${wards[0].date}` : `Usage reports missing for ${wards.length} wards`;
     const text = `Hello ${name},\n\nNo usage report has been filed yet today for:\n${list}\n\nIt takes under a minute: open Plenum and choose Report. The report is prefilled from the last one; check the patients on each device and the cylinders used and returned.\n\nThis reminder goes out at ${e.REPORT_REMINDER_LOCAL_TIME} site time to the ward leads granted the ward (to the site's facilities managers when no ward lead is granted it).\n\nPlenum`;
     try {
@@ -92,7 +110,10 @@ export async function sendDueReminders(now: Date = new Date(), opts: { siteIds?:
       sent.push({ to: email, wards: wards.map((w) => w.wardName) });
     } catch (err) {
       // Release the claims so the next run tries again.
-      for (const w of wards) await db().query('DELETE FROM usage_reminder WHERE ward_id = ? AND local_date = ?', [w.wardId, w.date]).catch(() => undefined);
+      for (const w of wards)
+        await db()
+          .query('DELETE FROM usage_reminder WHERE ward_id = ? AND local_date = ?', [w.wardId, w.date])
+          .catch(() => undefined);
       logger.error(`usage reminder to ${email} not sent: ${(err as Error).message}`);
     }
   }

@@ -36,7 +36,9 @@ export function presentReport(r: UsageReport, lines: UsageReportLine[], names: M
       .filter((l) => l.lineKind === 'device')
       .sort((a, b) => OXYGEN_DEVICES.indexOf(a.device as OxygenDevice) - OXYGEN_DEVICES.indexOf(b.device as OxygenDevice))
       .map((l) => ({ device: l.device as OxygenDevice, patientsNow: l.patientsNow ?? 0, patientsShift: l.patientsShift ?? 0 })),
-    cylinders: own.filter((l) => l.lineKind === 'cylinder').map((l) => ({ cylinderTypeId: l.cylinderTypeId!, used: l.cylindersUsed ?? 0, returned: l.cylindersReturned ?? 0 })),
+    cylinders: own
+      .filter((l) => l.lineKind === 'cylinder')
+      .map((l) => ({ cylinderTypeId: l.cylinderTypeId!, used: l.cylindersUsed ?? 0, returned: l.cylindersReturned ?? 0 })),
     note: r.note,
     submittedAt: r.submittedAt.toISOString(),
     submittedBy: r.submittedByUserId ? (names.get(r.submittedByUserId) ?? null) : null,
@@ -77,20 +79,41 @@ function isManager(actor: Actor): boolean {
 export function editRule(actor: Actor, r: UsageReport, now: Date = new Date()): UsageEditRule {
   const until = new Date(r.submittedAt.getTime() + env().REPORT_EDIT_WINDOW_HOURS * 3_600_000);
   if (isManager(actor)) return { canEdit: true, editableUntil: until.toISOString(), reason: null };
-  if (!actor.user.roles.includes('ward_lead')) return { canEdit: false, editableUntil: until.toISOString(), reason: 'Only ward leads and facilities managers file reports.' };
+  if (!actor.user.roles.includes('ward_lead'))
+    return { canEdit: false, editableUntil: until.toISOString(), reason: 'Only ward leads and facilities managers file reports.' };
   if (now.getTime() <= until.getTime()) return { canEdit: true, editableUntil: until.toISOString(), reason: null };
-  return { canEdit: false, editableUntil: until.toISOString(), reason: `Reports can be changed for ${env().REPORT_EDIT_WINDOW_HOURS} h after filing; ask a facilities manager to correct this one.` };
+  return {
+    canEdit: false,
+    editableUntil: until.toISOString(),
+    reason: `Reports can be changed for ${env().REPORT_EDIT_WINDOW_HOURS} h after filing; ask a facilities manager to correct this one.`,
+  };
 }
 
 // ---------- the ward's report screen ----------
 
 async function cylinderTypesFor(m: EntityManager, actor: Actor, ward: Ward) {
-  const [lines, feeds] = await Promise.all([m.getRepository(TherapyLineRow).find({ where: { wardId: ward.id } }), m.getRepository(WardFeed).find({ where: { wardId: ward.id } })]);
+  const [lines, feeds] = await Promise.all([
+    m.getRepository(TherapyLineRow).find({ where: { wardId: ward.id } }),
+    m.getRepository(WardFeed).find({ where: { wardId: ward.id } }),
+  ]);
   const gases = new Set([...lines.map((l) => l.gasCode), ...feeds.map((f) => f.gasCode), 'O2']);
-  const types = await m.getRepository(CylinderType).find({ where: { organisationId: actor.user.organisationId, active: true }, order: { gasCode: 'ASC', waterCapacityL: 'ASC' } });
+  const types = await m
+    .getRepository(CylinderType)
+    .find({ where: { organisationId: actor.user.organisationId, active: true }, order: { gasCode: 'ASC', waterCapacityL: 'ASC' } });
   return types
     .filter((t) => gases.has(t.gasCode))
-    .map((t) => ({ id: t.id, gasCode: t.gasCode, name: `${t.gasCode.replace(/_/g, ' ')} ${cylinderTypeName(t.waterCapacityL, t.fillPressureBar)}`, freeGasL: nominalContents({ gas: t.gasCode, waterCapacityL: t.waterCapacityL, fillPressureBar: t.fillPressureBar, maxFillingRatioKgPerL: t.maxFillingRatioKgPerL })?.freeGasL ?? null }));
+    .map((t) => ({
+      id: t.id,
+      gasCode: t.gasCode,
+      name: `${t.gasCode.replace(/_/g, ' ')} ${cylinderTypeName(t.waterCapacityL, t.fillPressureBar)}`,
+      freeGasL:
+        nominalContents({
+          gas: t.gasCode,
+          waterCapacityL: t.waterCapacityL,
+          fillPressureBar: t.fillPressureBar,
+          maxFillingRatioKgPerL: t.maxFillingRatioKgPerL,
+        })?.freeGasL ?? null,
+    }));
 }
 
 /**
@@ -106,9 +129,16 @@ export async function openReport(actor: Actor, wardId: number, q: { date?: strin
   const date = q.date ?? today;
   const [report, previous] = await Promise.all([
     m.getRepository(UsageReport).findOneBy({ wardId, reportDate: date }),
-    m.getRepository(UsageReport).createQueryBuilder('r').where('r.ward_id = :wardId AND r.report_date < :date', { wardId, date }).orderBy('r.report_date', 'DESC').getOne(),
+    m
+      .getRepository(UsageReport)
+      .createQueryBuilder('r')
+      .where('r.ward_id = :wardId AND r.report_date < :date', { wardId, date })
+      .orderBy('r.report_date', 'DESC')
+      .getOne(),
   ]);
-  const from = DateTime.fromISO(date).minus({ days: q.days - 1 }).toISODate()!;
+  const from = DateTime.fromISO(date)
+    .minus({ days: q.days - 1 })
+    .toISODate()!;
   const recent = await m
     .getRepository(UsageReport)
     .createQueryBuilder('r')
@@ -117,7 +147,10 @@ export async function openReport(actor: Actor, wardId: number, q: { date?: strin
     .getMany();
   const ids = [...new Set([report?.id, previous?.id, ...recent.map((r) => r.id)].filter((x): x is number => !!x))];
   const lines = ids.length ? await m.getRepository(UsageReportLine).find({ where: { reportId: In(ids) } }) : [];
-  const names = await userNames(m, [...recent, report, previous].flatMap((r) => (r ? [r.submittedByUserId, r.updatedByUserId] : [])));
+  const names = await userNames(
+    m,
+    [...recent, report, previous].flatMap((r) => (r ? [r.submittedByUserId, r.updatedByUserId] : [])),
+  );
   const therapy = await m.getRepository(TherapyLineRow).find({ where: { wardId, gasCode: 'O2' } });
   const flows = await m.getRepository(DeviceFlow).find({ where: { organisationId: actor.user.organisationId } });
   const modelPatients: Record<string, number> = {};
@@ -126,7 +159,9 @@ export async function openReport(actor: Actor, wardId: number, q: { date?: strin
   const prev = previous ? presentReport(previous, lines, names) : null;
   const draft = {
     date,
-    devices: prev ? prev.devices : Object.entries(modelPatients).map(([device, n]) => ({ device: device as OxygenDevice, patientsNow: Math.round(n), patientsShift: Math.round(n) })),
+    devices: prev
+      ? prev.devices
+      : Object.entries(modelPatients).map(([device, n]) => ({ device: device as OxygenDevice, patientsNow: Math.round(n), patientsShift: Math.round(n) })),
     // Cylinder counts are the day's flow, not a state: offer yesterday's types at zero, with yesterday's numbers as hints.
     cylinders: prev ? prev.cylinders.map((c) => ({ cylinderTypeId: c.cylinderTypeId, used: 0, returned: 0 })) : [],
     note: '',
@@ -143,12 +178,29 @@ export async function openReport(actor: Actor, wardId: number, q: { date?: strin
     draft: report ? null : draft,
     previous: prev,
     canCreate,
-    createRule: date > today ? 'A report cannot be filed for a future day.' : !canCreate && !report && !isManager(actor) ? `Ward leads can file reports for today and the ${env().REPORT_BACKFILL_DAYS} days before; ask a facilities manager for older days.` : null,
-    devices: OXYGEN_DEVICES.map((d) => ({ device: d, label: DEVICE_DEFAULTS[d].label, flowLMin: flows.find((f) => f.device === d)?.flowLMin ?? DEVICE_DEFAULTS[d].flowLMin, modelPatients: modelPatients[d] ?? 0 })),
+    createRule:
+      date > today
+        ? 'A report cannot be filed for a future day.'
+        : !canCreate && !report && !isManager(actor)
+          ? `Ward leads can file reports for today and the ${env().REPORT_BACKFILL_DAYS} days before; ask a facilities manager for older days.`
+          : null,
+    devices: OXYGEN_DEVICES.map((d) => ({
+      device: d,
+      label: DEVICE_DEFAULTS[d].label,
+      flowLMin: flows.find((f) => f.device === d)?.flowLMin ?? DEVICE_DEFAULTS[d].flowLMin,
+      modelPatients: modelPatients[d] ?? 0,
+    })),
     cylinderTypes: await cylinderTypesFor(m, actor, ward),
     recent: recent.map((r) => {
       const p = presentReport(r, lines, names);
-      return { id: r.id, date: r.reportDate, patientsNow: p.devices.reduce((s, d) => s + d.patientsNow, 0), cylindersUsed: p.cylinders.reduce((s, c) => s + c.used, 0), submittedBy: p.submittedBy, submittedAt: p.submittedAt };
+      return {
+        id: r.id,
+        date: r.reportDate,
+        patientsNow: p.devices.reduce((s, d) => s + d.patientsNow, 0),
+        cylindersUsed: p.cylinders.reduce((s, c) => s + c.used, 0),
+        submittedBy: p.submittedBy,
+        submittedAt: p.submittedAt,
+      };
     }),
     editWindowHours: env().REPORT_EDIT_WINDOW_HOURS,
   } satisfies ReportScreenData;
@@ -159,15 +211,36 @@ async function checkCylinderTypes(m: EntityManager, actor: Actor, cylinders: Usa
   const ids = [...new Set(cylinders.map((c) => c.cylinderTypeId))];
   const found = await m.getRepository(CylinderType).find({ where: { id: In(ids), organisationId: actor.user.organisationId } });
   cylinders.forEach((c, i) => {
-    if (!found.some((t) => t.id === c.cylinderTypeId)) throw badRequest('A cylinder type is not in your catalogue', [{ path: `cylinders.${i}.cylinderTypeId`, message: 'choose a cylinder type of your catalogue' }]);
+    if (!found.some((t) => t.id === c.cylinderTypeId))
+      throw badRequest('A cylinder type is not in your catalogue', [
+        { path: `cylinders.${i}.cylinderTypeId`, message: 'choose a cylinder type of your catalogue' },
+      ]);
   });
 }
 
 async function writeLines(m: EntityManager, reportId: number, input: UsageReportUpdate) {
   await m.getRepository(UsageReportLine).delete({ reportId });
   const rows: Partial<UsageReportLine>[] = [
-    ...input.devices.map((d) => ({ reportId, lineKind: 'device', device: d.device, patientsNow: d.patientsNow, patientsShift: d.patientsShift, cylinderTypeId: null, cylindersUsed: null, cylindersReturned: null })),
-    ...input.cylinders.map((c) => ({ reportId, lineKind: 'cylinder', device: null, patientsNow: null, patientsShift: null, cylinderTypeId: c.cylinderTypeId, cylindersUsed: c.used, cylindersReturned: c.returned })),
+    ...input.devices.map((d) => ({
+      reportId,
+      lineKind: 'device',
+      device: d.device,
+      patientsNow: d.patientsNow,
+      patientsShift: d.patientsShift,
+      cylinderTypeId: null,
+      cylindersUsed: null,
+      cylindersReturned: null,
+    })),
+    ...input.cylinders.map((c) => ({
+      reportId,
+      lineKind: 'cylinder',
+      device: null,
+      patientsNow: null,
+      patientsShift: null,
+      cylinderTypeId: c.cylinderTypeId,
+      cylindersUsed: c.used,
+      cylindersReturned: c.returned,
+    })),
   ];
   if (rows.length) await m.getRepository(UsageReportLine).insert(rows);
 }
@@ -187,15 +260,32 @@ export async function createReport(actor: Actor, wardId: number, input: UsageRep
   if (input.date > today) throw badRequest('A report cannot be filed for a future day', [{ path: 'date', message: `today at the site is ${today}` }]);
   const backfillFrom = DateTime.fromISO(today).minus({ days: env().REPORT_BACKFILL_DAYS }).toISODate()!;
   if (!isManager(actor) && input.date < backfillFrom) {
-    throw new AppError(403, 'forbidden', `Ward leads can file reports for today and the ${env().REPORT_BACKFILL_DAYS} days before; ask a facilities manager for older days.`);
+    throw new AppError(
+      403,
+      'forbidden',
+      `Ward leads can file reports for today and the ${env().REPORT_BACKFILL_DAYS} days before; ask a facilities manager for older days.`,
+    );
   }
   return db().transaction(async (m) => {
     await checkCylinderTypes(m, actor, input.cylinders);
     const existing = await m.getRepository(UsageReport).findOneBy({ wardId, reportDate: input.date });
-    if (existing) throw new AppError(409, 'report_exists', `${ward.name} has a report for ${input.date} already: open it to change it`, [{ path: 'id', message: String(existing.id) }]);
+    if (existing)
+      throw new AppError(409, 'report_exists', `${ward.name} has a report for ${input.date} already: open it to change it`, [
+        { path: 'id', message: String(existing.id) },
+      ]);
     let saved: UsageReport;
     try {
-      saved = await m.getRepository(UsageReport).save(m.getRepository(UsageReport).create({ siteId: ward.siteId, wardId, reportDate: input.date, note: input.note, submittedByUserId: actor.user.id, submittedAt: new Date(), updatedByUserId: actor.user.id }));
+      saved = await m.getRepository(UsageReport).save(
+        m.getRepository(UsageReport).create({
+          siteId: ward.siteId,
+          wardId,
+          reportDate: input.date,
+          note: input.note,
+          submittedByUserId: actor.user.id,
+          submittedAt: new Date(),
+          updatedByUserId: actor.user.id,
+        }),
+      );
     } catch (e) {
       if (isDuplicateKey(e)) throw conflict(`${ward.name} has a report for ${input.date} already`, 'report_exists');
       throw e;
@@ -229,7 +319,9 @@ export async function getReport(actor: Actor, id: number) {
   const m = db().manager;
   const r = await reportFor(actor, id, m);
   const ward = await m.getRepository(Ward).findOneByOrFail({ id: r.wardId });
-  const history = await m.getRepository(AuditLog).find({ where: { organisationId: actor.user.organisationId, entity: 'usage_report', entityId: String(id) }, order: { id: 'ASC' } });
+  const history = await m
+    .getRepository(AuditLog)
+    .find({ where: { organisationId: actor.user.organisationId, entity: 'usage_report', entityId: String(id) }, order: { id: 'ASC' } });
   return {
     ...(await loadPresented(m, id)),
     ...editRule(actor, r),
@@ -242,23 +334,48 @@ export async function getReport(actor: Actor, id: number) {
 export async function usageStatus(actor: Actor, siteId: number, date?: string) {
   const site = await getSiteFor(actor, siteId);
   const day = date ?? localToday(site.timeZone);
-  const wards = await visibleWards(actor, await db().getRepository(Ward).find({ where: { siteId, active: true }, order: { name: 'ASC' } }));
-  const reports = wards.length ? await db().getRepository(UsageReport).find({ where: { siteId, reportDate: day } }) : [];
-  const names = await userNames(db().manager, reports.map((r) => r.submittedByUserId));
+  const wards = await visibleWards(
+    actor,
+    await db()
+      .getRepository(Ward)
+      .find({ where: { siteId, active: true }, order: { name: 'ASC' } }),
+  );
+  const reports = wards.length
+    ? await db()
+        .getRepository(UsageReport)
+        .find({ where: { siteId, reportDate: day } })
+    : [];
+  const names = await userNames(
+    db().manager,
+    reports.map((r) => r.submittedByUserId),
+  );
   return {
     site: { id: site.id, name: site.name, timeZone: site.timeZone },
     date: day,
     reminderLocalTime: env().REPORT_REMINDER_LOCAL_TIME,
     wards: wards.map((w) => {
       const r = reports.find((x) => x.wardId === w.id);
-      return { wardId: w.id, name: w.name, department: w.department, reportId: r?.id ?? null, submittedAt: r?.submittedAt.toISOString() ?? null, submittedBy: r?.submittedByUserId ? (names.get(r.submittedByUserId) ?? null) : null };
+      return {
+        wardId: w.id,
+        name: w.name,
+        department: w.department,
+        reportId: r?.id ?? null,
+        submittedAt: r?.submittedAt.toISOString() ?? null,
+        submittedBy: r?.submittedByUserId ? (names.get(r.submittedByUserId) ?? null) : null,
+      };
     }),
   } satisfies UsageStatus;
 }
 
 /** Reports of a site since a local date, with their lines (reconciliation and export). */
 export async function siteReportsSince(siteId: number, fromDate: string) {
-  const reports = await db().getRepository(UsageReport).find({ where: { siteId, reportDate: MoreThanOrEqual(fromDate) }, order: { reportDate: 'ASC' } });
-  const lines = reports.length ? await db().getRepository(UsageReportLine).find({ where: { reportId: In(reports.map((r) => r.id)) } }) : [];
+  const reports = await db()
+    .getRepository(UsageReport)
+    .find({ where: { siteId, reportDate: MoreThanOrEqual(fromDate) }, order: { reportDate: 'ASC' } });
+  const lines = reports.length
+    ? await db()
+        .getRepository(UsageReportLine)
+        .find({ where: { reportId: In(reports.map((r) => r.id)) } })
+    : [];
   return reports.map((r) => presentReport(r, lines));
 }

@@ -8,7 +8,12 @@ import { keepSessionSignedIn } from '../auth/passport';
 
 export function userRoutes(): RouteDef[] {
   return [
-    { method: 'get', path: '/api/users', access: ['administrator'], handler: (req) => listUsers(actorOf(req), validate(userListQuerySchema, req.query, 'query')) },
+    {
+      method: 'get',
+      path: '/api/users',
+      access: ['administrator'],
+      handler: (req) => listUsers(actorOf(req), validate(userListQuerySchema, req.query, 'query')),
+    },
     { method: 'post', path: '/api/users', access: ['administrator'], handler: (req) => createUser(actorOf(req), validate(userCreateSchema, req.body, 'user')) },
     {
       method: 'patch',
@@ -31,7 +36,12 @@ export function userRoutes(): RouteDef[] {
       handler: (req) => unlockUser(actorOf(req), validate(idParamSchema, req.params, 'address').id),
     },
     // Ward grants: the wards a ward lead sees and reports for (the whole set on PUT: grants and revokes).
-    { method: 'get', path: '/api/users/:id/wards', access: ['administrator'], handler: (req) => getUserWards(actorOf(req), validate(idParamSchema, req.params, 'address').id) },
+    {
+      method: 'get',
+      path: '/api/users/:id/wards',
+      access: ['administrator'],
+      handler: (req) => getUserWards(actorOf(req), validate(idParamSchema, req.params, 'address').id),
+    },
     {
       method: 'put',
       path: '/api/users/:id/wards',

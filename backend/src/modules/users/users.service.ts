@@ -27,14 +27,24 @@ async function present(m: EntityManager, users: User[]): Promise<UserRow[]> {
     email: u.email,
     name: u.name,
     active: u.active,
-    roles: roles.filter((r) => r.userId === u.id).map((r) => r.role as Role).sort(),
-    siteIds: sites.filter((s) => s.userId === u.id).map((s) => s.siteId).sort((a, b) => a - b),
+    roles: roles
+      .filter((r) => r.userId === u.id)
+      .map((r) => r.role as Role)
+      .sort(),
+    siteIds: sites
+      .filter((s) => s.userId === u.id)
+      .map((s) => s.siteId)
+      .sort((a, b) => a - b),
     locked: !!u.lockedUntil && u.lockedUntil > now,
     createdAt: u.createdAt.toISOString(),
   }));
 }
 
-const SORTABLE = new Map<UserListQuery['sort'], string>([['email', 'u.email'], ['name', 'u.name'], ['createdAt', 'u.created_at']]);
+const SORTABLE = new Map<UserListQuery['sort'], string>([
+  ['email', 'u.email'],
+  ['name', 'u.name'],
+  ['createdAt', 'u.created_at'],
+]);
 
 export async function listUsers(actor: Actor, q: UserListQuery): Promise<Page<UserRow>> {
   const qb = db().getRepository(User).createQueryBuilder('u').where('u.organisation_id = :org', { org: actor.user.organisationId });
@@ -62,8 +72,20 @@ export async function createUser(actor: Actor, input: UserCreateInput): Promise<
   const hash = await hashPassword(input.password);
   return db().transaction(async (m) => {
     await checkSites(m, actor, input.siteIds);
-    if (await m.getRepository(User).findOneBy({ email: input.email })) throw new AppError(409, 'duplicate', 'A user with this e-mail exists already', [{ path: 'email', message: 'already in use' }]);
-    const saved = await m.getRepository(User).save(m.getRepository(User).create({ organisationId: actor.user.organisationId, email: input.email, name: input.name, passwordHash: hash, active: true, failedLogins: 0, lockedUntil: null, passwordChangedAt: new Date() }));
+    if (await m.getRepository(User).findOneBy({ email: input.email }))
+      throw new AppError(409, 'duplicate', 'A user with this e-mail exists already', [{ path: 'email', message: 'already in use' }]);
+    const saved = await m.getRepository(User).save(
+      m.getRepository(User).create({
+        organisationId: actor.user.organisationId,
+        email: input.email,
+        name: input.name,
+        passwordHash: hash,
+        active: true,
+        failedLogins: 0,
+        lockedUntil: null,
+        passwordChangedAt: new Date(),
+      }),
+    );
     await m.getRepository(UserRole).insert([...new Set(input.roles)].map((role) => ({ userId: saved.id, role })));
     if (input.siteIds.length) await m.getRepository(UserSite).insert([...new Set(input.siteIds)].map((siteId) => ({ userId: saved.id, siteId })));
     const [row] = await present(m, [saved]);
@@ -80,7 +102,8 @@ export async function updateUser(actor: Actor, id: number, input: UserUpdateInpu
     if (id === actor.user.id && input.roles && !input.roles.includes('administrator')) {
       throw badRequest('You cannot remove your own administrator role', [{ path: 'roles', message: 'keep administrator on your own account' }]);
     }
-    if (id === actor.user.id && input.active === false) throw badRequest('You cannot deactivate your own account', [{ path: 'active', message: 'not on your own account' }]);
+    if (id === actor.user.id && input.active === false)
+      throw badRequest('You cannot deactivate your own account', [{ path: 'active', message: 'not on your own account' }]);
     const patch: Partial<User> = {};
     if (input.name !== undefined) patch.name = input.name;
     if (input.active !== undefined) patch.active = input.active;
@@ -104,7 +127,13 @@ export async function updateUser(actor: Actor, id: number, input: UserUpdateInpu
       if (input.siteIds.length) await m.getRepository(UserSite).insert([...new Set(input.siteIds)].map((siteId) => ({ userId: id, siteId })));
     }
     const [after] = await present(m, [await getInOrg(m, actor, id)]);
-    await recordAudit(m, whoOf(actor), { action: 'update', entity: 'user', entityId: String(id), before, after: { ...after, ...(hash ? { passwordReset: true } : {}) } });
+    await recordAudit(m, whoOf(actor), {
+      action: 'update',
+      entity: 'user',
+      entityId: String(id),
+      before,
+      after: { ...after, ...(hash ? { passwordReset: true } : {}) },
+    });
     return after;
   });
 }
@@ -133,11 +162,19 @@ async function wardsView(m: EntityManager, actor: Actor, user: User): Promise<Us
   const wards = sites.length ? await m.getRepository(Ward).find({ where: { siteId: In(sites.map((s) => s.id)) }, order: { name: 'ASC' } }) : [];
   const held = new Set((await m.getRepository(UserSite).find({ where: { userId: user.id } })).map((s) => s.siteId));
   const inOrg = new Set(wards.map((w) => w.id));
-  const wardIds = (await m.getRepository(UserWard).find({ where: { userId: user.id } })).map((g) => g.wardId).filter((id) => inOrg.has(id)).sort((a, b) => a - b);
+  const wardIds = (await m.getRepository(UserWard).find({ where: { userId: user.id } }))
+    .map((g) => g.wardId)
+    .filter((id) => inOrg.has(id))
+    .sort((a, b) => a - b);
   return {
     userId: user.id,
     wardIds,
-    sites: sites.map((s) => ({ id: s.id, name: s.name, granted: held.has(s.id), wards: wards.filter((w) => w.siteId === s.id).map((w) => ({ id: w.id, name: w.name, department: w.department, active: w.active })) })),
+    sites: sites.map((s) => ({
+      id: s.id,
+      name: s.name,
+      granted: held.has(s.id),
+      wards: wards.filter((w) => w.siteId === s.id).map((w) => ({ id: w.id, name: w.name, department: w.department, active: w.active })),
+    })),
   };
 }
 
@@ -157,7 +194,8 @@ export async function setUserWards(actor: Actor, id: number, input: UserWardsInp
     const wanted = [...new Set(input.wardIds)];
     if (wanted.length) {
       const roles = await m.getRepository(UserRole).find({ where: { userId: id } });
-      if (!roles.some((r) => r.role === 'ward_lead')) throw badRequest('Wards are granted to ward leads: give this user the ward-lead role first', [{ path: 'wardIds', message: 'not a ward lead' }]);
+      if (!roles.some((r) => r.role === 'ward_lead'))
+        throw badRequest('Wards are granted to ward leads: give this user the ward-lead role first', [{ path: 'wardIds', message: 'not a ward lead' }]);
       const found = await m
         .getRepository(Ward)
         .createQueryBuilder('w')
@@ -173,7 +211,13 @@ export async function setUserWards(actor: Actor, id: number, input: UserWardsInp
     if (revoke.length) await m.getRepository(UserWard).delete({ userId: id, wardId: In(revoke) });
     if (grant.length) await m.getRepository(UserWard).insert(grant.map((wardId) => ({ userId: id, wardId })));
     const after = await wardsView(m, actor, user);
-    await recordAudit(m, whoOf(actor), { action: 'update', entity: 'user_wards', entityId: String(id), before: { wardIds: before.wardIds }, after: { wardIds: after.wardIds, granted: grant, revoked: revoke } });
+    await recordAudit(m, whoOf(actor), {
+      action: 'update',
+      entity: 'user_wards',
+      entityId: String(id),
+      before: { wardIds: before.wardIds },
+      after: { wardIds: after.wardIds, granted: grant, revoked: revoke },
+    });
     return after;
   });
 }

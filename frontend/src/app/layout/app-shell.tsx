@@ -67,17 +67,17 @@ export function AppShell() {
 
       {/* wide screens: side navigation */}
       <div className="hidden bg-ink-900 lg:block">
-      <aside className="sticky top-0 flex h-dvh flex-col overflow-y-auto text-primary-fg">
-        <div className="px-5 pt-5 pb-3">
-          <NavLink to="/" className="rounded-lg" aria-label="Plenum, Today">
-            <PlenumWordmark inverted />
-          </NavLink>
-          <p className="mt-2 truncate text-xs text-ink-200" title={me.organisation.name}>
-            {me.organisation.name}
-          </p>
-        </div>
-        <NavContent />
-      </aside>
+        <aside className="sticky top-0 flex h-dvh flex-col overflow-y-auto text-primary-fg">
+          <div className="px-5 pt-5 pb-3">
+            <NavLink to="/" className="rounded-lg" aria-label="Plenum, Today">
+              <PlenumWordmark inverted />
+            </NavLink>
+            <p className="mt-2 truncate text-xs text-ink-200" title={me.organisation.name}>
+              {me.organisation.name}
+            </p>
+          </div>
+          <NavContent />
+        </aside>
       </div>
 
       <main id="main" className="min-w-0 px-4 py-5 sm:px-6 lg:px-10 lg:py-8">
@@ -139,10 +139,7 @@ function NavContent({ onNavigate }: { onNavigate?: () => void }) {
 }
 
 function navLinkClass({ isActive }: { isActive: boolean }) {
-  return cn(
-    'flex min-h-12 items-center gap-3 rounded-lg px-3 font-bold text-ink-50 hover:bg-ink-700',
-    isActive && 'bg-ink-50 text-ink-900 hover:bg-ink-100',
-  );
+  return cn('flex min-h-12 items-center gap-3 rounded-lg px-3 font-bold text-ink-50 hover:bg-ink-700', isActive && 'bg-ink-50 text-ink-900 hover:bg-ink-100');
 }
 
 function SitePicker() {

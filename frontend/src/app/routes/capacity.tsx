@@ -28,7 +28,16 @@ export function Component() {
       </>
     );
   }
-  return <CapacityScreen key={site.id} siteId={site.id} siteName={site.name} timeZone={site.timeZone} canEdit={me.user.roles.includes('biomedical_engineer')} engineerName={me.user.name} />;
+  return (
+    <CapacityScreen
+      key={site.id}
+      siteId={site.id}
+      siteName={site.name}
+      timeZone={site.timeZone}
+      canEdit={me.user.roles.includes('biomedical_engineer')}
+      engineerName={me.user.name}
+    />
+  );
 }
 
 export { ScreenErrorBoundary as ErrorBoundary } from './route-error';

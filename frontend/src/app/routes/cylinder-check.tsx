@@ -13,7 +13,9 @@ import { requireScreen } from '../route-guards';
 
 export async function loader({ request }: LoaderFunctionArgs) {
   await requireScreen(request, '/cylinder-check');
-  await Promise.all([queryClient.ensureQueryData(catalogueQueries.cylinderTypes()), queryClient.ensureQueryData(catalogueQueries.gases())]).catch(() => undefined);
+  await Promise.all([queryClient.ensureQueryData(catalogueQueries.cylinderTypes()), queryClient.ensureQueryData(catalogueQueries.gases())]).catch(
+    () => undefined,
+  );
   return null;
 }
 
@@ -23,7 +25,12 @@ export function Component() {
   const gases = useQuery(catalogueQueries.gases());
   return (
     <div>
-      <PageHeader title="Cylinder check" description={site ? `How long a cylinder lasts, and what it holds. ${site.name}: ${site.unitSystem === 'us' ? 'psi and °F' : 'bar and °C'}.` : undefined} />
+      <PageHeader
+        title="Cylinder check"
+        description={
+          site ? `How long a cylinder lasts, and what it holds. ${site.name}: ${site.unitSystem === 'us' ? 'psi and °F' : 'bar and °C'}.` : undefined
+        }
+      />
       {!site ? (
         <Card>
           <EmptyState title="No site granted yet">An administrator grants you a site; its store temperature and units set up the check.</EmptyState>
@@ -38,18 +45,18 @@ export function Component() {
         </Card>
       ) : (
         <>
-        {types.isError && (
-          <Alert tone="warn" className="mb-4" title="The cylinder types could not be loaded">
-            Enter the water capacity by hand; the check works without the catalogue.
-          </Alert>
-        )}
-        <CylinderCheck
-          // a new site means new units and a new store temperature: start afresh
-          key={site.id}
-          site={site}
-          gases={gases.data.filter((g) => isGasCode(g.code))}
-          cylinderTypes={types.data ?? []}
-        />
+          {types.isError && (
+            <Alert tone="warn" className="mb-4" title="The cylinder types could not be loaded">
+              Enter the water capacity by hand; the check works without the catalogue.
+            </Alert>
+          )}
+          <CylinderCheck
+            // a new site means new units and a new store temperature: start afresh
+            key={site.id}
+            site={site}
+            gases={gases.data.filter((g) => isGasCode(g.code))}
+            cylinderTypes={types.data ?? []}
+          />
         </>
       )}
     </div>

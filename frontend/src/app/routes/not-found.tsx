@@ -9,7 +9,8 @@ export function Component() {
       <Icon name="info" className="size-10 text-info" />
       <h1 className="text-2xl">Page not found</h1>
       <p className="text-fg-muted">
-        There is no screen at <code className="rounded bg-surface-sunken px-1 font-mono text-sm">{pathname}</code>. The link may be old, or the screen not built yet.
+        There is no screen at <code className="rounded bg-surface-sunken px-1 font-mono text-sm">{pathname}</code>. The link may be old, or the screen not built
+        yet.
       </p>
       <ButtonLink to="/" className="mt-2">
         Go to Today

@@ -17,7 +17,10 @@ export function Component() {
   const { site } = useCurrentSite();
   return (
     <div className="flex flex-col gap-4">
-      <PageHeader title="Measured use" description={site ? `What ${site.name} really uses, from tank readings, store counts, meters and ward reports, against the demand model.` : undefined} />
+      <PageHeader
+        title="Measured use"
+        description={site ? `What ${site.name} really uses, from tank readings, store counts, meters and ward reports, against the demand model.` : undefined}
+      />
       {site ? (
         <ReconciliationPanel key={site.id} siteId={site.id} roles={me.user.roles} />
       ) : (

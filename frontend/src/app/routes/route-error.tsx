@@ -7,7 +7,8 @@ import { PlenumWordmark } from '@/components/ui/logo';
 function describe(error: unknown): { title: string; text: string; status?: number } {
   if (isRouteErrorResponse(error)) {
     const msg = (error.data as { message?: string } | undefined)?.message;
-    if (error.status === 403) return { status: 403, title: 'Not available for your role', text: msg ?? 'Your roles do not include this screen. Ask an administrator if you need it.' };
+    if (error.status === 403)
+      return { status: 403, title: 'Not available for your role', text: msg ?? 'Your roles do not include this screen. Ask an administrator if you need it.' };
     if (error.status === 404) return { status: 404, title: 'Not found', text: msg ?? 'There is nothing at this address.' };
     return { status: error.status, title: 'Something went wrong', text: msg ?? error.statusText };
   }

@@ -45,7 +45,17 @@ export function Component() {
       ),
     [setSearch],
   );
-  return <SourceDetailScreen key={id} id={id} scenarioId={scenarioOf(search)} onScenarioChange={onScenarioChange} roles={me.user.roles} meId={me.user.id} onSupplyChanged={refresh} />;
+  return (
+    <SourceDetailScreen
+      key={id}
+      id={id}
+      scenarioId={scenarioOf(search)}
+      onScenarioChange={onScenarioChange}
+      roles={me.user.roles}
+      meId={me.user.id}
+      onSupplyChanged={refresh}
+    />
+  );
 }
 
 export { ScreenErrorBoundary as ErrorBoundary } from './route-error';

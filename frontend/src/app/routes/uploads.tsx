@@ -19,7 +19,12 @@ export function Component() {
   const { site } = useCurrentSite();
   return (
     <div className="flex flex-col gap-4">
-      <PageHeader title="Uploads" description={site ? `Tank telemetry, flow meters, store counts and historic usage for ${site.name}: checked row by row before anything is stored.` : undefined} />
+      <PageHeader
+        title="Uploads"
+        description={
+          site ? `Tank telemetry, flow meters, store counts and historic usage for ${site.name}: checked row by row before anything is stored.` : undefined
+        }
+      />
       {site ? (
         <UploadsScreen key={site.id} siteId={site.id} />
       ) : (

@@ -12,7 +12,11 @@ export async function loader({ request, params }: LoaderFunctionArgs) {
   const me = await requireScreen(request, '/wards');
   const siteId = Number(params.siteId);
   if (!me.sites.some((s) => s.id === siteId)) throw data({ message: 'This site is not one of yours, or does not exist.' }, { status: 404 });
-  await Promise.all([queryClient.ensureQueryData(wardsQueries.site(siteId)), queryClient.ensureQueryData(wardsQueries.scenarios(siteId)), queryClient.ensureQueryData(wardsQueries.deviceFlows())]).catch(() => undefined);
+  await Promise.all([
+    queryClient.ensureQueryData(wardsQueries.site(siteId)),
+    queryClient.ensureQueryData(wardsQueries.scenarios(siteId)),
+    queryClient.ensureQueryData(wardsQueries.deviceFlows()),
+  ]).catch(() => undefined);
   return null;
 }
 
@@ -23,7 +27,10 @@ export function Component() {
   const refresh = useRefreshSupply();
   return (
     <div className="flex flex-col gap-5">
-      <PageHeader title="Wards" description={site ? `The wards of ${site.name}: their demand, the scenarios of the forecasts, and the device flows.` : undefined} />
+      <PageHeader
+        title="Wards"
+        description={site ? `The wards of ${site.name}: their demand, the scenarios of the forecasts, and the device flows.` : undefined}
+      />
       <WardsScreen siteId={siteId} timeZone={site?.timeZone ?? 'UTC'} roles={me.user.roles} onSupplyChanged={refresh} />
     </div>
   );

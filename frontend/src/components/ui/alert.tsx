@@ -16,7 +16,14 @@ const ICON: Record<keyof (typeof alertConfig)['tone'], IconName> = { info: 'info
 export const alertClasses = variants('flex gap-3 rounded-lg border px-4 py-3 text-sm', alertConfig, { tone: 'info' });
 
 /** A message in the flow of the page: cautions, form-level errors, notes. */
-export function Alert({ tone = 'info', title, children, className, role, action }: VariantProps<typeof alertConfig> & { title?: ReactNode; children?: ReactNode; className?: string; role?: 'alert' | 'status'; action?: ReactNode }) {
+export function Alert({
+  tone = 'info',
+  title,
+  children,
+  className,
+  role,
+  action,
+}: VariantProps<typeof alertConfig> & { title?: ReactNode; children?: ReactNode; className?: string; role?: 'alert' | 'status'; action?: ReactNode }) {
   return (
     <div className={alertClasses({ tone, className })} role={role}>
       <span data-icon className="mt-0.5">

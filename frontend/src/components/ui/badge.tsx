@@ -14,7 +14,9 @@ const badgeConfig = {
   },
 };
 
-export const badgeClasses = variants('inline-flex items-center gap-1 rounded-full border px-2.5 py-0.5 text-sm font-bold whitespace-nowrap', badgeConfig, { tone: 'neutral' });
+export const badgeClasses = variants('inline-flex items-center gap-1 rounded-full border px-2.5 py-0.5 text-sm font-bold whitespace-nowrap', badgeConfig, {
+  tone: 'neutral',
+});
 export type Tone = keyof (typeof badgeConfig)['tone'];
 
 export function Badge({ tone, className, icon, children }: VariantProps<typeof badgeConfig> & { className?: string; icon?: IconName; children: ReactNode }) {

@@ -5,7 +5,23 @@ import { cn } from '@/lib/cn';
  * A figure around a chart: a caption people read, a fixed height the chart fills, and a text
  * alternative (the key numbers) for those who do not see the chart.
  */
-export function ChartFrame({ title, caption, summary, height = 260, className, children, legend }: { title: ReactNode; caption?: ReactNode; summary: string; height?: number; className?: string; children: ReactNode; legend?: ReactNode }) {
+export function ChartFrame({
+  title,
+  caption,
+  summary,
+  height = 260,
+  className,
+  children,
+  legend,
+}: {
+  title: ReactNode;
+  caption?: ReactNode;
+  summary: string;
+  height?: number;
+  className?: string;
+  children: ReactNode;
+  legend?: ReactNode;
+}) {
   return (
     <figure className={cn('flex flex-col gap-2', className)}>
       <figcaption>

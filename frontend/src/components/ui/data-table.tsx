@@ -81,7 +81,10 @@ export function DataTable<T>({ caption, columns, data, getRowId, sorting, onSort
                       <button
                         type="button"
                         onClick={header.column.getToggleSortingHandler()}
-                        className={cn('-mx-2 inline-flex min-h-11 items-center gap-1 rounded px-2 hover:bg-primary-soft hover:text-fg', meta?.numeric && 'flex-row-reverse')}
+                        className={cn(
+                          '-mx-2 inline-flex min-h-11 items-center gap-1 rounded px-2 hover:bg-primary-soft hover:text-fg',
+                          meta?.numeric && 'flex-row-reverse',
+                        )}
                       >
                         {label}
                         <Icon name={sorted === 'asc' ? 'sortAsc' : sorted === 'desc' ? 'sortDesc' : 'sort'} className={cn('size-4', !sorted && 'opacity-40')} />

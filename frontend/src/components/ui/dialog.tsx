@@ -7,7 +7,23 @@ import { buttonClasses } from './button';
  * A modal on the native <dialog> (focus stays inside, Escape closes). Full screen on phones, a centred
  * panel on wider screens.
  */
-export function Dialog({ open, onClose, title, description, children, footer, wide = false }: { open: boolean; onClose: () => void; title: ReactNode; description?: ReactNode; children: ReactNode; footer?: ReactNode; wide?: boolean }) {
+export function Dialog({
+  open,
+  onClose,
+  title,
+  description,
+  children,
+  footer,
+  wide = false,
+}: {
+  open: boolean;
+  onClose: () => void;
+  title: ReactNode;
+  description?: ReactNode;
+  children: ReactNode;
+  footer?: ReactNode;
+  wide?: boolean;
+}) {
   const ref = useRef<HTMLDialogElement>(null);
   const titleId = useId();
   useEffect(() => {
@@ -38,7 +54,12 @@ export function Dialog({ open, onClose, title, description, children, footer, wi
               </h2>
               {description && <p className="text-sm text-fg-muted">{description}</p>}
             </div>
-            <button type="button" onClick={onClose} aria-label="Close" className="-mr-2 inline-flex size-11 items-center justify-center rounded-lg text-fg-muted hover:bg-primary-soft hover:text-fg">
+            <button
+              type="button"
+              onClick={onClose}
+              aria-label="Close"
+              className="-mr-2 inline-flex size-11 items-center justify-center rounded-lg text-fg-muted hover:bg-primary-soft hover:text-fg"
+            >
               <Icon name="close" />
             </button>
           </div>

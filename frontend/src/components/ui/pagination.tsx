@@ -3,7 +3,19 @@ import { Button } from './button';
 import { Icon } from './icons';
 
 /** Previous/next for a list the server pages, with where we are in words. */
-export function Pagination({ page, pageSize, total, onPage, busy }: { page: number; pageSize: number; total: number; onPage: (page: number) => void; busy?: boolean }) {
+export function Pagination({
+  page,
+  pageSize,
+  total,
+  onPage,
+  busy,
+}: {
+  page: number;
+  pageSize: number;
+  total: number;
+  onPage: (page: number) => void;
+  busy?: boolean;
+}) {
   const pages = Math.max(1, Math.ceil(total / pageSize));
   const from = total === 0 ? 0 : (page - 1) * pageSize + 1;
   const to = Math.min(total, page * pageSize);

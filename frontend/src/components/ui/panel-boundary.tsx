@@ -42,7 +42,19 @@ export function PanelBoundary({ children, title, loadingLabel, bare = false }: {
             return bare ? body : <Card>{body}</Card>;
           }}
         >
-          <Suspense fallback={bare ? <LoadingState label={loadingLabel} /> : <Card><LoadingState label={loadingLabel} /></Card>}>{children}</Suspense>
+          <Suspense
+            fallback={
+              bare ? (
+                <LoadingState label={loadingLabel} />
+              ) : (
+                <Card>
+                  <LoadingState label={loadingLabel} />
+                </Card>
+              )
+            }
+          >
+            {children}
+          </Suspense>
         </Boundary>
       )}
     </QueryErrorResetBoundary>

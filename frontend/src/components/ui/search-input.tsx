@@ -3,7 +3,19 @@ import { Icon } from './icons';
 import { Input } from './field';
 
 /** A filter box that reports its value after the person stops typing. */
-export function SearchInput({ value, onChange, label, placeholder, delayMs = 300 }: { value: string; onChange: (v: string) => void; label: string; placeholder?: string; delayMs?: number }) {
+export function SearchInput({
+  value,
+  onChange,
+  label,
+  placeholder,
+  delayMs = 300,
+}: {
+  value: string;
+  onChange: (v: string) => void;
+  label: string;
+  placeholder?: string;
+  delayMs?: number;
+}) {
   const [draft, setDraft] = useState(value);
   useEffect(() => setDraft(value), [value]);
   useEffect(() => {

@@ -16,7 +16,19 @@ export function LoadingState({ label = 'Loading…', className }: { label?: stri
   );
 }
 
-export function EmptyState({ title, children, icon = 'info', action, className }: { title: ReactNode; children?: ReactNode; icon?: IconName; action?: ReactNode; className?: string }) {
+export function EmptyState({
+  title,
+  children,
+  icon = 'info',
+  action,
+  className,
+}: {
+  title: ReactNode;
+  children?: ReactNode;
+  icon?: IconName;
+  action?: ReactNode;
+  className?: string;
+}) {
   return (
     <div className={cn('flex flex-col items-center gap-2 px-4 py-10 text-center', className)}>
       <Icon name={icon} className="size-8 text-sand-500" />

@@ -18,9 +18,17 @@ export function Toaster() {
             t.tone === 'info' && 'border-info/40 bg-info-soft',
           )}
         >
-          <Icon name={t.tone === 'critical' ? 'alert' : t.tone === 'ok' ? 'check' : 'info'} className={cn('mt-0.5', t.tone === 'critical' ? 'text-critical' : t.tone === 'ok' ? 'text-ok' : 'text-info')} />
+          <Icon
+            name={t.tone === 'critical' ? 'alert' : t.tone === 'ok' ? 'check' : 'info'}
+            className={cn('mt-0.5', t.tone === 'critical' ? 'text-critical' : t.tone === 'ok' ? 'text-ok' : 'text-info')}
+          />
           <p className="flex-1 text-sm font-bold text-fg">{t.message}</p>
-          <button type="button" onClick={() => dismissToast(t.id)} className="-m-2 inline-flex size-11 items-center justify-center rounded text-fg-muted hover:text-fg" aria-label="Dismiss">
+          <button
+            type="button"
+            onClick={() => dismissToast(t.id)}
+            className="-m-2 inline-flex size-11 items-center justify-center rounded text-fg-muted hover:text-fg"
+            aria-label="Dismiss"
+          >
             <Icon name="close" className="size-4" />
           </button>
         </div>

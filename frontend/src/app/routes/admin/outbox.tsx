@@ -15,7 +15,10 @@ export async function loader({ request }: LoaderFunctionArgs) {
 export function Component() {
   return (
     <div className="flex flex-col gap-5">
-      <PageHeader title="Outbox" description="Mail waiting to go, sent and failed: purchase orders, rejection notices and alerts. A failed message can be sent again." />
+      <PageHeader
+        title="Outbox"
+        description="Mail waiting to go, sent and failed: purchase orders, rejection notices and alerts. A failed message can be sent again."
+      />
       <PanelBoundary title="Outbox">
         <OutboxList />
       </PanelBoundary>

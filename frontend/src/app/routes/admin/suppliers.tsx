@@ -9,7 +9,11 @@ import { requireScreen } from '../../route-guards';
 
 export async function loader({ request }: LoaderFunctionArgs) {
   await requireScreen(request, '/admin/suppliers');
-  await Promise.all([queryClient.ensureQueryData(catalogueQueries.suppliers()), queryClient.ensureQueryData(catalogueQueries.cylinderTypes()), queryClient.ensureQueryData(catalogueQueries.gases())]);
+  await Promise.all([
+    queryClient.ensureQueryData(catalogueQueries.suppliers()),
+    queryClient.ensureQueryData(catalogueQueries.cylinderTypes()),
+    queryClient.ensureQueryData(catalogueQueries.gases()),
+  ]);
   return null;
 }
 
@@ -19,7 +23,14 @@ export function Component() {
   const canEdit = me.user.roles.includes('administrator');
   return (
     <div className="flex flex-col gap-5">
-      <PageHeader title="Suppliers" description={canEdit ? 'Who delivers, how fast, and at what price. Purchase orders go to the order e-mail.' : 'Who delivers, how fast, and at what price. An administrator keeps this list.'} />
+      <PageHeader
+        title="Suppliers"
+        description={
+          canEdit
+            ? 'Who delivers, how fast, and at what price. Purchase orders go to the order e-mail.'
+            : 'Who delivers, how fast, and at what price. An administrator keeps this list.'
+        }
+      />
       <PanelBoundary title="Suppliers">
         <SuppliersAdmin canEdit={canEdit} defaultCurrency={site?.currency ?? 'GBP'} />
       </PanelBoundary>

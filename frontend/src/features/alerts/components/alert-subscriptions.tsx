@@ -72,7 +72,12 @@ export function AlertSubscriptions({ sites }: { sites: { id: number; name: strin
                 )}
                 {sub ? (
                   <>
-                    <Button variant="ghost" size="sm" onClick={() => setEditing({ siteId: site.id, siteName: site.name, current: sub })} aria-label={`Change alerts for ${site.name}`}>
+                    <Button
+                      variant="ghost"
+                      size="sm"
+                      onClick={() => setEditing({ siteId: site.id, siteName: site.name, current: sub })}
+                      aria-label={`Change alerts for ${site.name}`}
+                    >
                       <Icon name="pencil" className="size-4" />
                       Change
                     </Button>
@@ -81,13 +86,20 @@ export function AlertSubscriptions({ sites }: { sites: { id: number; name: strin
                       size="sm"
                       busy={remove.isPending && remove.variables === site.id}
                       aria-label={`Unsubscribe from ${site.name}`}
-                      onClick={() => remove.mutate(site.id, { onSuccess: () => toast.ok(`No more alerts for ${site.name}.`), onError: (e) => toast.error(errorMessage(e)) })}
+                      onClick={() =>
+                        remove.mutate(site.id, { onSuccess: () => toast.ok(`No more alerts for ${site.name}.`), onError: (e) => toast.error(errorMessage(e)) })
+                      }
                     >
                       Unsubscribe
                     </Button>
                   </>
                 ) : (
-                  <Button variant="secondary" size="sm" onClick={() => setEditing({ siteId: site.id, siteName: site.name, current: null })} aria-label={`Subscribe to alerts for ${site.name}`}>
+                  <Button
+                    variant="secondary"
+                    size="sm"
+                    onClick={() => setEditing({ siteId: site.id, siteName: site.name, current: null })}
+                    aria-label={`Subscribe to alerts for ${site.name}`}
+                  >
                     <Icon name="mail" className="size-4" />
                     Subscribe
                   </Button>
@@ -97,7 +109,11 @@ export function AlertSubscriptions({ sites }: { sites: { id: number; name: strin
           );
         })}
       </ul>
-      <Dialog open={editing !== null} onClose={() => setEditing(null)} title={editing?.current ? `Alerts for ${editing.siteName}` : `Subscribe to ${editing?.siteName ?? ''}`}>
+      <Dialog
+        open={editing !== null}
+        onClose={() => setEditing(null)}
+        title={editing?.current ? `Alerts for ${editing.siteName}` : `Subscribe to ${editing?.siteName ?? ''}`}
+      >
         {editing && <SubscriptionForm siteId={editing.siteId} siteName={editing.siteName} current={editing.current} onDone={() => setEditing(null)} />}
       </Dialog>
     </>
@@ -132,7 +148,11 @@ function SubscriptionForm({ siteId, siteName, current, onDone }: { siteId: numbe
           {banner}
         </Alert>
       )}
-      <Field label="Alert below" hint="An e-mail when a source’s forecast days of stock fall below this, or its first forecast risk changes." error={e.policyDays?.message}>
+      <Field
+        label="Alert below"
+        hint="An e-mail when a source’s forecast days of stock fall below this, or its first forecast risk changes."
+        error={e.policyDays?.message}
+      >
         {(c) => <UnitInput {...c} {...register('policyDays', { valueAsNumber: true })} unit="days" inputMode="decimal" className="max-w-48" />}
       </Field>
       <fieldset className="flex flex-col gap-1" aria-describedby={e.mode ? 'sub-mode-error' : undefined}>
@@ -147,7 +167,9 @@ function SubscriptionForm({ siteId, siteName, current, onDone }: { siteId: numbe
         ))}
         {e.mode?.message && <FieldError id="sub-mode-error">{humaniseMessage(e.mode.message)}</FieldError>}
       </fieldset>
-      <p className="text-xs text-fg-muted">Alerts are planning estimates from the forecast: they do not replace the site’s own checks, local codes or the authorised person’s judgement.</p>
+      <p className="text-xs text-fg-muted">
+        Alerts are planning estimates from the forecast: they do not replace the site’s own checks, local codes or the authorised person’s judgement.
+      </p>
       <FormActions onCancel={onDone} busy={save.isPending} submitLabel={current ? 'Save' : 'Subscribe'} />
     </form>
   );

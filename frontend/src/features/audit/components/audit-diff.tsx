@@ -19,7 +19,13 @@ export function AuditDiff({ before, after }: { before: unknown; after: unknown }
   if (rows.length === 0) return <p className="text-fg-muted">This entry records an event without a before or after state.</p>;
   return (
     <div className="flex flex-col gap-3">
-      {sameCount > 0 && <Checkbox label={`Show ${sameCount} unchanged ${sameCount === 1 ? 'field' : 'fields'}`} checked={showSame} onChange={(e) => setShowSame(e.target.checked)} />}
+      {sameCount > 0 && (
+        <Checkbox
+          label={`Show ${sameCount} unchanged ${sameCount === 1 ? 'field' : 'fields'}`}
+          checked={showSame}
+          onChange={(e) => setShowSame(e.target.checked)}
+        />
+      )}
       <div className="overflow-x-auto">
         <table className="w-full border-collapse text-left text-sm">
           <caption className="sr-only">Changes</caption>
@@ -48,8 +54,17 @@ export function AuditDiff({ before, after }: { before: unknown; after: unknown }
                 <td className="py-2 pr-3">
                   <Badge tone={KIND_LABEL[r.kind].tone}>{KIND_LABEL[r.kind].label}</Badge>
                 </td>
-                <td className={cn('py-2 pr-3 font-mono text-xs break-all whitespace-pre-wrap', r.kind !== 'same' && r.kind !== 'added' && 'text-critical line-through decoration-1')}>{showValue(r.before)}</td>
-                <td className={cn('py-2 font-mono text-xs break-all whitespace-pre-wrap', r.kind !== 'same' && r.kind !== 'removed' && 'font-bold text-ok')}>{showValue(r.after)}</td>
+                <td
+                  className={cn(
+                    'py-2 pr-3 font-mono text-xs break-all whitespace-pre-wrap',
+                    r.kind !== 'same' && r.kind !== 'added' && 'text-critical line-through decoration-1',
+                  )}
+                >
+                  {showValue(r.before)}
+                </td>
+                <td className={cn('py-2 font-mono text-xs break-all whitespace-pre-wrap', r.kind !== 'same' && r.kind !== 'removed' && 'font-bold text-ok')}>
+                  {showValue(r.after)}
+                </td>
               </tr>
             ))}
           </tbody>

@@ -19,7 +19,23 @@ const col = createColumnHelper<AuditRow>();
 export const AUDIT_LIST_DEFAULTS = { pageSize: 50, sort: 'at', dir: 'desc' as const, sortKeys: AUDIT_SORT_KEYS };
 export const AUDIT_EXTRAS = ['entity'] as const;
 
-const ENTITIES = ['session', 'user', 'password', 'organisation', 'site', 'cylinder_type', 'supplier', 'supply_source', 'source_reading', 'ward', 'therapy_lines', 'ward_feeds', 'scenario', 'scheduled_delivery', 'device_flows'];
+const ENTITIES = [
+  'session',
+  'user',
+  'password',
+  'organisation',
+  'site',
+  'cylinder_type',
+  'supplier',
+  'supply_source',
+  'source_reading',
+  'ward',
+  'therapy_lines',
+  'ward_feeds',
+  'scenario',
+  'scheduled_delivery',
+  'device_flows',
+];
 const words = (s: string) => s.replace(/_/g, ' ');
 
 export function AuditLog() {
@@ -72,11 +88,25 @@ export function AuditLog() {
         <ErrorState error={audit.error} onRetry={() => audit.refetch()} />
       ) : (
         <>
-          <DataTable caption="Audit log" columns={columns} data={audit.data.items} getRowId={(r) => r.id} sorting={sorting} onSortingChange={setSorting} empty={<EmptyState title="No entries match" icon="audit" />} />
+          <DataTable
+            caption="Audit log"
+            columns={columns}
+            data={audit.data.items}
+            getRowId={(r) => r.id}
+            sorting={sorting}
+            onSortingChange={setSorting}
+            empty={<EmptyState title="No entries match" icon="audit" />}
+          />
           <Pagination page={audit.data.page} pageSize={audit.data.pageSize} total={audit.data.total} onPage={setPage} busy={audit.isPlaceholderData} />
         </>
       )}
-      <Dialog open={open !== null} onClose={() => setOpen(null)} title={open ? `${words(open.action)} · ${words(open.entity)}${open.entityId ? ` #${open.entityId}` : ''}` : ''} description={open ? `${formatDateTime(open.at)} by ${open.userEmail ?? 'system'}` : undefined} wide>
+      <Dialog
+        open={open !== null}
+        onClose={() => setOpen(null)}
+        title={open ? `${words(open.action)} · ${words(open.entity)}${open.entityId ? ` #${open.entityId}` : ''}` : ''}
+        description={open ? `${formatDateTime(open.at)} by ${open.userEmail ?? 'system'}` : undefined}
+        wide
+      >
         {open && <AuditDiff before={open.before} after={open.after} />}
       </Dialog>
     </Card>

@@ -47,7 +47,11 @@ export function ChangePasswordForm() {
       <Field label="Current password" error={formState.errors.currentPassword?.message}>
         {(c) => <Input {...c} {...register('currentPassword')} type="password" autoComplete="current-password" />}
       </Field>
-      <Field label="New password" hint="At least 10 characters. A few unrelated words make a long password that is easy to remember." error={formState.errors.newPassword?.message}>
+      <Field
+        label="New password"
+        hint="At least 10 characters. A few unrelated words make a long password that is easy to remember."
+        error={formState.errors.newPassword?.message}
+      >
         {(c) => <Input {...c} {...register('newPassword')} type="password" autoComplete="new-password" />}
       </Field>
       <Field label="New password again" error={formState.errors.confirmPassword?.message}>

@@ -13,7 +13,8 @@ const FIELDS = ['email', 'password'] as const;
 
 function bannerFor(error: unknown, fallback: string | null): { title: string; text: string | null } | null {
   if (error instanceof ApiError) {
-    if (error.code === 'invalid_credentials') return { title: 'E-mail or password is not right', text: 'Check both and try again. After several failed tries the account is locked for a while.' };
+    if (error.code === 'invalid_credentials')
+      return { title: 'E-mail or password is not right', text: 'Check both and try again. After several failed tries the account is locked for a while.' };
     if (error.status === 423) return { title: 'This account is locked for now', text: error.message };
     if (error.status === 429) return { title: 'Too many tries', text: error.message };
   }

@@ -34,9 +34,17 @@ export const capacityQueries = {
       placeholderData: keepPreviousData,
     }),
   zones: (siteId: number) =>
-    queryOptions({ queryKey: [...capacityQueries.site(siteId), 'zones'] as const, queryFn: ({ signal }) => api.get<ZoneRow[]>(`/sites/${siteId}/zones`, { signal }), staleTime: 30_000 }),
+    queryOptions({
+      queryKey: [...capacityQueries.site(siteId), 'zones'] as const,
+      queryFn: ({ signal }) => api.get<ZoneRow[]>(`/sites/${siteId}/zones`, { signal }),
+      staleTime: 30_000,
+    }),
   signoffs: (siteId: number) =>
-    queryOptions({ queryKey: [...capacityQueries.site(siteId), 'signoffs'] as const, queryFn: ({ signal }) => api.get<SignoffRow[]>(`/sites/${siteId}/capacity/signoffs`, { signal }), staleTime: 60_000 }),
+    queryOptions({
+      queryKey: [...capacityQueries.site(siteId), 'signoffs'] as const,
+      queryFn: ({ signal }) => api.get<SignoffRow[]>(`/sites/${siteId}/capacity/signoffs`, { signal }),
+      staleTime: 60_000,
+    }),
   /** A sign-off never changes once recorded. */
   signoff: (id: number) =>
     queryOptions({
@@ -45,7 +53,12 @@ export const capacityQueries = {
       staleTime: Infinity,
     }),
   /** Rule sets change only when an engineer edits one: fresh for 5 minutes. */
-  ruleSets: () => queryOptions({ queryKey: [...capacityQueries.all(), 'rule-sets'] as const, queryFn: ({ signal }) => api.get<RuleSetRow[]>('/rule-sets', { signal }), staleTime: 5 * 60_000 }),
+  ruleSets: () =>
+    queryOptions({
+      queryKey: [...capacityQueries.all(), 'rule-sets'] as const,
+      queryFn: ({ signal }) => api.get<RuleSetRow[]>('/rule-sets', { signal }),
+      staleTime: 5 * 60_000,
+    }),
 };
 
 /** Any change to a site's inputs moves its check: refresh everything of that site. */
@@ -57,7 +70,8 @@ function useInvalidateSite() {
 export function useSaveZone(siteId: number) {
   const invalidate = useInvalidateSite();
   return useMutation({
-    mutationFn: ({ id, body }: { id?: number; body: ZoneInput }) => (id ? api.put<ZoneRow>(`/zones/${id}`, body) : api.post<ZoneRow>(`/sites/${siteId}/zones`, body)),
+    mutationFn: ({ id, body }: { id?: number; body: ZoneInput }) =>
+      id ? api.put<ZoneRow>(`/zones/${id}`, body) : api.post<ZoneRow>(`/sites/${siteId}/zones`, body),
     meta: { formHandlesErrors: true },
     onSuccess: () => invalidate(siteId),
   });
@@ -86,7 +100,8 @@ export function useDeletePipeRun(siteId: number) {
 export function useSignOff(siteId: number) {
   const invalidate = useInvalidateSite();
   return useMutation({
-    mutationFn: (body: { engineerName: string; note: string; inputsHash: string } & CapacityWhatIf) => api.post<SignoffRow>(`/sites/${siteId}/capacity/signoffs`, body),
+    mutationFn: (body: { engineerName: string; note: string; inputsHash: string } & CapacityWhatIf) =>
+      api.post<SignoffRow>(`/sites/${siteId}/capacity/signoffs`, body),
     meta: { formHandlesErrors: true },
     onSuccess: () => invalidate(siteId),
   });
@@ -113,5 +128,8 @@ export function useUpdateRuleSet() {
 
 export function useDeleteRuleSet() {
   const qc = useQueryClient();
-  return useMutation({ mutationFn: (id: number) => api.delete<{ deleted: true }>(`/rule-sets/${id}`), onSuccess: () => qc.invalidateQueries({ queryKey: capacityQueries.all() }) });
+  return useMutation({
+    mutationFn: (id: number) => api.delete<{ deleted: true }>(`/rule-sets/${id}`),
+    onSuccess: () => qc.invalidateQueries({ queryKey: capacityQueries.all() }),
+  });
 }

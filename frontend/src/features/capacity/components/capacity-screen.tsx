@@ -37,7 +37,19 @@ export function whatIfFromSearch(search: URLSearchParams): CapacityWhatIf {
   return out;
 }
 
-export function CapacityScreen({ siteId, siteName, timeZone, canEdit, engineerName }: { siteId: number; siteName: string; timeZone: string; canEdit: boolean; engineerName: string }) {
+export function CapacityScreen({
+  siteId,
+  siteName,
+  timeZone,
+  canEdit,
+  engineerName,
+}: {
+  siteId: number;
+  siteName: string;
+  timeZone: string;
+  canEdit: boolean;
+  engineerName: string;
+}) {
   const [search, setSearch] = useSearchParams();
   const whatIf = useMemo(() => whatIfFromSearch(search), [search]);
   const report = useQuery(capacityQueries.report(siteId, whatIf));
@@ -120,7 +132,9 @@ export function CapacityScreen({ siteId, siteName, timeZone, canEdit, engineerNa
                     ) : undefined
                   }
                 >
-                  {canEdit ? 'Add a zone per gas and department: terminal units, the source that feeds it, and its pipe runs.' : 'The biomedical engineer enters the zones of this site.'}
+                  {canEdit
+                    ? 'Add a zone per gas and department: terminal units, the source that feeds it, and its pipe runs.'
+                    : 'The biomedical engineer enters the zones of this site.'}
                 </EmptyState>
               </Card>
             ) : (
@@ -128,7 +142,14 @@ export function CapacityScreen({ siteId, siteName, timeZone, canEdit, engineerNa
                 <SummaryTiles gases={report.data.gases} flowPerPatientLMin={report.data.options.flowPerPatientLMin} />
                 <div className={cn('flex flex-col gap-5', report.isFetching && 'opacity-70 transition-opacity')} aria-busy={report.isFetching}>
                   {report.data.gases.map((g) => (
-                    <GasSection key={g.gasCode} gas={g} flowPerPatientLMin={report.data.options.flowPerPatientLMin} canEdit={canEdit} onEditZone={setZoneDialog} onPipeRuns={setPipeDialog} />
+                    <GasSection
+                      key={g.gasCode}
+                      gas={g}
+                      flowPerPatientLMin={report.data.options.flowPerPatientLMin}
+                      canEdit={canEdit}
+                      onEditZone={setZoneDialog}
+                      onPipeRuns={setPipeDialog}
+                    />
                   ))}
                 </div>
                 <Card>
@@ -154,17 +175,34 @@ export function CapacityScreen({ siteId, siteName, timeZone, canEdit, engineerNa
 
       {report.data && <PrintableReport report={report.data} signoff={report.data.latestSignoff} timeZone={timeZone} />}
 
-      <Dialog open={zoneDialog !== null} onClose={() => setZoneDialog(null)} title={zoneDialog === 'new' ? 'New pipeline zone' : `Edit ${editingZone?.name ?? 'zone'}`} wide>
+      <Dialog
+        open={zoneDialog !== null}
+        onClose={() => setZoneDialog(null)}
+        title={zoneDialog === 'new' ? 'New pipeline zone' : `Edit ${editingZone?.name ?? 'zone'}`}
+        wide
+      >
         {zoneDialog !== null &&
           (zones.isPending || ruleSets.isPending ? (
             <LoadingState />
           ) : zones.isError || ruleSets.isError ? (
             <ErrorState error={zones.error ?? ruleSets.error} />
           ) : (
-            <ZoneForm siteId={siteId} initial={editingZone ?? null} sources={report.data?.sources ?? []} ruleSets={ruleSets.data} onDone={() => setZoneDialog(null)} />
+            <ZoneForm
+              siteId={siteId}
+              initial={editingZone ?? null}
+              sources={report.data?.sources ?? []}
+              ruleSets={ruleSets.data}
+              onDone={() => setZoneDialog(null)}
+            />
           ))}
       </Dialog>
-      <Dialog open={pipeDialog !== null} onClose={() => setPipeDialog(null)} title={`Pipe runs: ${pipeZone?.name ?? ''}`} description="Each run is checked for pressure drop at the zone's design flow." wide>
+      <Dialog
+        open={pipeDialog !== null}
+        onClose={() => setPipeDialog(null)}
+        title={`Pipe runs: ${pipeZone?.name ?? ''}`}
+        description="Each run is checked for pressure drop at the zone's design flow."
+        wide
+      >
         {pipeDialog !== null && (pipeZone ? <PipeRunsEditor siteId={siteId} zone={pipeZone} onDone={() => setPipeDialog(null)} /> : <LoadingState />)}
       </Dialog>
     </div>
@@ -176,10 +214,20 @@ function SummaryTiles({ gases, flowPerPatientLMin }: { gases: GasOut[]; flowPerP
     <ul className="grid gap-3 sm:grid-cols-2 xl:grid-cols-4" aria-label="Summary per gas">
       {gases.map((g) => {
         const tone = utilisationTone(g.limiting?.utilisation ?? null);
-        const border = { ok: 'border-l-ok', watch: 'border-l-watch', warn: 'border-l-warn', critical: 'border-l-critical', neutral: 'border-l-line-strong', info: 'border-l-info' }[tone];
+        const border = {
+          ok: 'border-l-ok',
+          watch: 'border-l-watch',
+          warn: 'border-l-warn',
+          critical: 'border-l-critical',
+          neutral: 'border-l-line-strong',
+          info: 'border-l-info',
+        }[tone];
         return (
           <li key={g.gasCode}>
-            <a href={`#gas-${g.gasCode}`} className={cn('block h-full rounded-card border border-l-8 border-line bg-surface px-4 py-3 shadow-card hover:bg-primary-soft', border)}>
+            <a
+              href={`#gas-${g.gasCode}`}
+              className={cn('block h-full rounded-card border border-l-8 border-line bg-surface px-4 py-3 shadow-card hover:bg-primary-soft', border)}
+            >
               <p className="font-bold">{gasLabel(g.gasCode)}</p>
               <p className="text-2xl font-bold tabular">{formatFlow(g.designFlowLMin)}</p>
               <p className="text-sm text-fg-muted">
@@ -187,7 +235,9 @@ function SummaryTiles({ gases, flowPerPatientLMin }: { gases: GasOut[]; flowPerP
                   <>
                     {formatPercent(g.limiting.utilisation)} of {g.limiting.name}
                     <br />
-                    {g.headroom.extraPatients === null ? 'headroom not known' : `${formatNumber(g.headroom.extraPatients)} more at ${formatNumber(flowPerPatientLMin)} L/min`}
+                    {g.headroom.extraPatients === null
+                      ? 'headroom not known'
+                      : `${formatNumber(g.headroom.extraPatients)} more at ${formatNumber(flowPerPatientLMin)} L/min`}
                   </>
                 ) : (
                   'no limit to check against'

@@ -75,7 +75,14 @@ function LimitingCallout({ gas, flowPerPatientLMin }: { gas: GasOut; flowPerPati
     );
   }
   const tone = utilisationTone(l.utilisation);
-  const box = { ok: 'border-ok/40 bg-ok-soft', watch: 'border-watch/40 bg-watch-soft', warn: 'border-warn/50 bg-warn-soft', critical: 'border-critical/60 bg-critical-soft', neutral: 'border-line bg-surface-sunken', info: 'border-info/40 bg-info-soft' }[tone];
+  const box = {
+    ok: 'border-ok/40 bg-ok-soft',
+    watch: 'border-watch/40 bg-watch-soft',
+    warn: 'border-warn/50 bg-warn-soft',
+    critical: 'border-critical/60 bg-critical-soft',
+    neutral: 'border-line bg-surface-sunken',
+    info: 'border-info/40 bg-info-soft',
+  }[tone];
   return (
     <div className={cn('grid gap-3 rounded-lg border-2 px-4 py-3 sm:grid-cols-[1fr_auto] sm:items-center', box)} data-testid={`limiting-${gas.gasCode}`}>
       <div>
@@ -102,7 +109,9 @@ function LimitingCallout({ gas, flowPerPatientLMin }: { gas: GasOut; flowPerPati
       <div className="sm:text-right">
         <p className="text-xs font-bold tracking-wider text-fg-muted uppercase">Surge headroom, site</p>
         <p className="text-2xl font-bold tabular">{gas.headroom.extraPatients === null ? '–' : formatNumber(gas.headroom.extraPatients)}</p>
-        <p className="text-sm text-fg-muted">{gas.headroom.extraPatients === null ? 'no source limit known' : `more patients at ${formatNumber(flowPerPatientLMin)} L/min`}</p>
+        <p className="text-sm text-fg-muted">
+          {gas.headroom.extraPatients === null ? 'no source limit known' : `more patients at ${formatNumber(flowPerPatientLMin)} L/min`}
+        </p>
       </div>
       {gas.headroom.note && <p className="text-sm text-fg-muted sm:col-span-2">{gas.headroom.note}</p>}
     </div>
@@ -193,15 +202,25 @@ function ManifoldFacts({ source: s }: { source: SourceOut }) {
     <div>
       <h4 className="mb-1 font-bold">Manifold</h4>
       <dl>
-        <Fact label="Bank" value={`${m.cylindersPerBank} × ${m.cylinder}`} hint={`${formatLitres(m.bankFreeGasL)} free gas (${formatLitres(m.cylinderFreeGasL)} each, real gas)`} />
+        <Fact
+          label="Bank"
+          value={`${m.cylindersPerBank} × ${m.cylinder}`}
+          hint={`${formatLitres(m.bankFreeGasL)} free gas (${formatLitres(m.cylinderFreeGasL)} each, real gas)`}
+        />
         <Fact label="Bank lasts at design flow" value={formatHours(m.bankDurationAtDesignH)} />
         <Fact label="Bank lasts at forecast flow" value={formatHours(m.bankDurationAtForecastH)} />
         <Fact label="Changeover interval" value={formatDays(m.changeoverIntervalDays)} hint="at forecast use" />
-        <Fact label="Cylinders per week" value={formatNumber(m.cylindersPerWeekAtForecast, 1)} hint={`forecast; ${formatNumber(m.cylindersPerWeekAtDesign, 0)} at design flow all week`} />
+        <Fact
+          label="Cylinders per week"
+          value={formatNumber(m.cylindersPerWeekAtForecast, 1)}
+          hint={`forecast; ${formatNumber(m.cylindersPerWeekAtDesign, 0)} at design flow all week`}
+        />
         <Fact
           label="Manifold for the peak"
           value={m.recommended ? m.recommended.label : '–'}
-          hint={m.recommended ? `${formatLitres(m.recommended.dailyDemandL)}/day at design flow × ${m.recommended.hoursPerDay} h` : (m.recommendedNote ?? undefined)}
+          hint={
+            m.recommended ? `${formatLitres(m.recommended.dailyDemandL)}/day at design flow × ${m.recommended.hoursPerDay} h` : (m.recommendedNote ?? undefined)
+          }
         />
       </dl>
     </div>
@@ -218,13 +237,26 @@ function ReserveFacts({ source: s }: { source: SourceOut }) {
           <li key={rule.rule}>
             <div className="flex flex-wrap items-center gap-2">
               <span className="font-bold">{rule.rule === 'four_hour_secondary' ? '4-hour rule' : 'Average-day rule'}</span>
-              {rule.meets === true && <Badge tone="ok" icon="check">Met</Badge>}
-              {rule.meets === false && <Badge tone="critical" icon="alert">Short</Badge>}
+              {rule.meets === true && (
+                <Badge tone="ok" icon="check">
+                  Met
+                </Badge>
+              )}
+              {rule.meets === false && (
+                <Badge tone="critical" icon="alert">
+                  Short
+                </Badge>
+              )}
               {rule.meets === null && <Badge>Not checked</Badge>}
             </div>
             <p>
               Needs {formatLitres(rule.requiredFreeGasL)} ({formatFlow(rule.basisFlowLMin)} × {rule.rule === 'four_hour_secondary' ? '4 h' : '24 h'})
-              {rule.cylindersRequired !== null && rule.cylinderName && <> = {rule.cylindersRequired} × {rule.cylinderName}</>}
+              {rule.cylindersRequired !== null && rule.cylinderName && (
+                <>
+                  {' '}
+                  = {rule.cylindersRequired} × {rule.cylinderName}
+                </>
+              )}
               {rule.heldFreeGasL !== null && (
                 <>
                   ; holds {formatLitres(rule.heldFreeGasL)}, {rule.coversUnit === 'h' ? formatHours(rule.covers) : formatDays(rule.covers)}
@@ -250,11 +282,21 @@ function ZonesTable({ gas, flowPerPatientLMin, canEdit, onEditZone, onPipeRuns }
           <caption className="sr-only">{gasLabel(gas.gasCode)} zones: design flow, pipework and surge headroom</caption>
           <thead>
             <tr className="border-b border-line text-left text-xs tracking-wide text-fg-muted uppercase">
-              <th scope="col" className="py-2 pr-3">Zone</th>
-              <th scope="col" className="py-2 pr-3">Rule</th>
-              <th scope="col" className="py-2 pr-3 text-right">Design flow</th>
-              <th scope="col" className="py-2 pr-3">Pipe runs at design flow</th>
-              <th scope="col" className="py-2 pr-3 text-right">Surge headroom</th>
+              <th scope="col" className="py-2 pr-3">
+                Zone
+              </th>
+              <th scope="col" className="py-2 pr-3">
+                Rule
+              </th>
+              <th scope="col" className="py-2 pr-3 text-right">
+                Design flow
+              </th>
+              <th scope="col" className="py-2 pr-3">
+                Pipe runs at design flow
+              </th>
+              <th scope="col" className="py-2 pr-3 text-right">
+                Surge headroom
+              </th>
               {canEdit && (
                 <th scope="col" className="py-2">
                   <span className="sr-only">Actions</span>
@@ -264,7 +306,16 @@ function ZonesTable({ gas, flowPerPatientLMin, canEdit, onEditZone, onPipeRuns }
           </thead>
           <tbody>
             {gas.zones.map((z) => (
-              <ZoneRowView key={z.id} zone={z} sourceName={z.sourceId ? (sourceName.get(z.sourceId) ?? null) : null} flowPerPatientLMin={flowPerPatientLMin} canEdit={canEdit} onEditZone={onEditZone} onPipeRuns={onPipeRuns} isVacuum={gas.gasCode === 'VAC'} />
+              <ZoneRowView
+                key={z.id}
+                zone={z}
+                sourceName={z.sourceId ? (sourceName.get(z.sourceId) ?? null) : null}
+                flowPerPatientLMin={flowPerPatientLMin}
+                canEdit={canEdit}
+                onEditZone={onEditZone}
+                onPipeRuns={onPipeRuns}
+                isVacuum={gas.gasCode === 'VAC'}
+              />
             ))}
           </tbody>
         </table>
@@ -329,13 +380,17 @@ function ZoneRowView({
           <ul className="flex flex-col gap-2">
             {z.pipeRuns.map((p) => (
               <li key={p.id} className={cn('rounded-md px-2 py-1', p.limiting && 'ring-2 ring-warn')}>
-                <span className="font-bold">{p.name}</span> <span className="text-fg-muted">{p.tube} mm · {formatNumber(p.lengthM, 1)} m</span>
+                <span className="font-bold">{p.name}</span>{' '}
+                <span className="text-fg-muted">
+                  {p.tube} mm · {formatNumber(p.lengthM, 1)} m
+                </span>
                 {p.error ? (
                   <span className="block text-warn">{p.error}</span>
                 ) : (
                   <>
                     <span className="block">
-                      Drop {formatNumber(p.pressureDropKPa, 2)} of {formatNumber(p.allowedDropKPa, 1)} kPa · carries {formatFlow(p.capacityLMin)} at the allowed drop
+                      Drop {formatNumber(p.pressureDropKPa, 2)} of {formatNumber(p.allowedDropKPa, 1)} kPa · carries {formatFlow(p.capacityLMin)} at the allowed
+                      drop
                       {p.limiting && (
                         <Badge tone="warn" className="ml-2">
                           Limiting
@@ -355,7 +410,11 @@ function ZoneRowView({
         {z.headroom ? (
           <>
             <strong className="tabular text-base">{z.headroom.extraPatientsWithSource ?? z.headroom.extraPatients ?? '–'}</strong>
-            <span className="block text-xs text-fg-muted">{z.headroom.extraPatientsWithSource !== null || z.headroom.extraPatients !== null ? `at ${formatNumber(flowPerPatientLMin)} L/min` : patientsPhrase(null, flowPerPatientLMin)}</span>
+            <span className="block text-xs text-fg-muted">
+              {z.headroom.extraPatientsWithSource !== null || z.headroom.extraPatients !== null
+                ? `at ${formatNumber(flowPerPatientLMin)} L/min`
+                : patientsPhrase(null, flowPerPatientLMin)}
+            </span>
             {z.headroom.limitedBy && <span className="block text-xs text-fg-muted">limit: {z.headroom.limitedBy.name}</span>}
           </>
         ) : (

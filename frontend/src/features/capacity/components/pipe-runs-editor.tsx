@@ -23,12 +23,22 @@ export function PipeRunsEditor({ siteId, zone, onDone }: { siteId: number; zone:
   const [editing, setEditing] = useState<PipeRunRow | 'new' | null>(zone.pipeRuns.length === 0 ? 'new' : null);
   const remove = useDeletePipeRun(siteId);
   if (editing !== null) {
-    return <PipeRunForm siteId={siteId} zoneId={zone.id} initial={editing === 'new' ? null : editing} nextOrder={zone.pipeRuns.length} onDone={() => (zone.pipeRuns.length === 0 ? onDone() : setEditing(null))} />;
+    return (
+      <PipeRunForm
+        siteId={siteId}
+        zoneId={zone.id}
+        initial={editing === 'new' ? null : editing}
+        nextOrder={zone.pipeRuns.length}
+        onDone={() => (zone.pipeRuns.length === 0 ? onDone() : setEditing(null))}
+      />
+    );
   }
   return (
     <div className="flex flex-col gap-3">
       {zone.pipeRuns.length === 0 ? (
-        <EmptyState title="No pipe runs yet">Add the runs from the source to this zone's valve: each is checked for pressure drop at the zone's design flow.</EmptyState>
+        <EmptyState title="No pipe runs yet">
+          Add the runs from the source to this zone's valve: each is checked for pressure drop at the zone's design flow.
+        </EmptyState>
       ) : (
         <ul className="divide-y divide-line rounded-lg border border-line">
           {zone.pipeRuns.map((r) => (
@@ -36,7 +46,8 @@ export function PipeRunsEditor({ siteId, zone, onDone }: { siteId: number; zone:
               <div>
                 <p className="font-bold">{r.name}</p>
                 <p className="text-sm text-fg-muted">
-                  {r.tube} mm · {formatNumber(r.lengthM, 1)} m + {formatNumber(r.fittingsAllowancePercent)} % fittings · {formatNumber(r.linePressureKPa)} kPa · allowed drop {r.allowedDropKPa === null ? `${DEFAULT_ALLOWED_DROP_FRACTION * 100} % (default)` : `${formatNumber(r.allowedDropKPa, 1)} kPa`}
+                  {r.tube} mm · {formatNumber(r.lengthM, 1)} m + {formatNumber(r.fittingsAllowancePercent)} % fittings · {formatNumber(r.linePressureKPa)} kPa ·
+                  allowed drop {r.allowedDropKPa === null ? `${DEFAULT_ALLOWED_DROP_FRACTION * 100} % (default)` : `${formatNumber(r.allowedDropKPa, 1)} kPa`}
                 </p>
               </div>
               <div className="flex gap-1">
@@ -44,7 +55,13 @@ export function PipeRunsEditor({ siteId, zone, onDone }: { siteId: number; zone:
                   <Icon name="pencil" className="size-4" />
                   Edit
                 </Button>
-                <Button variant="ghost" size="sm" busy={remove.isPending && remove.variables === r.id} onClick={() => remove.mutate(r.id, { onSuccess: () => toast.ok(`Removed ${r.name}.`) })} aria-label={`Remove ${r.name}`}>
+                <Button
+                  variant="ghost"
+                  size="sm"
+                  busy={remove.isPending && remove.variables === r.id}
+                  onClick={() => remove.mutate(r.id, { onSuccess: () => toast.ok(`Removed ${r.name}.`) })}
+                  aria-label={`Remove ${r.name}`}
+                >
                   Remove
                 </Button>
               </div>
@@ -63,12 +80,33 @@ export function PipeRunsEditor({ siteId, zone, onDone }: { siteId: number; zone:
   );
 }
 
-function PipeRunForm({ siteId, zoneId, initial, nextOrder, onDone }: { siteId: number; zoneId: number; initial: PipeRunRow | null; nextOrder: number; onDone: () => void }) {
+function PipeRunForm({
+  siteId,
+  zoneId,
+  initial,
+  nextOrder,
+  onDone,
+}: {
+  siteId: number;
+  zoneId: number;
+  initial: PipeRunRow | null;
+  nextOrder: number;
+  onDone: () => void;
+}) {
   const save = useSavePipeRun(siteId);
   const [banner, setBanner] = useState<string | null>(null);
   const defaults: PipeRunFormValues = initial
     ? { ...initial }
-    : { name: '', lengthM: undefined as unknown as number, tube: '22x0.9', fittingsAllowancePercent: DEFAULT_FITTINGS_ALLOWANCE_PERCENT, linePressureKPa: NOMINAL_DISTRIBUTION_PRESSURE_KPA, allowedDropKPa: null, gasTemperatureC: null, sortOrder: nextOrder };
+    : {
+        name: '',
+        lengthM: undefined as unknown as number,
+        tube: '22x0.9',
+        fittingsAllowancePercent: DEFAULT_FITTINGS_ALLOWANCE_PERCENT,
+        linePressureKPa: NOMINAL_DISTRIBUTION_PRESSURE_KPA,
+        allowedDropKPa: null,
+        gasTemperatureC: null,
+        sortOrder: nextOrder,
+      };
   const { register, handleSubmit, setError, formState } = useForm({ resolver: zodResolver(pipeRunSchema), defaultValues: defaults });
   const onSubmit = handleSubmit((body) => {
     setBanner(null);
@@ -108,13 +146,25 @@ function PipeRunForm({ siteId, zoneId, initial, nextOrder, onDone }: { siteId: n
             </Select>
           )}
         </Field>
-        <Field label="Fittings allowance" error={formState.errors.fittingsAllowancePercent?.message} hint={`Added to the length; default ${DEFAULT_FITTINGS_ALLOWANCE_PERCENT} % (common practice, from memory).`}>
+        <Field
+          label="Fittings allowance"
+          error={formState.errors.fittingsAllowancePercent?.message}
+          hint={`Added to the length; default ${DEFAULT_FITTINGS_ALLOWANCE_PERCENT} % (common practice, from memory).`}
+        >
           {(c) => <UnitInput {...c} {...register('fittingsAllowancePercent', { valueAsNumber: true })} unit="%" inputMode="decimal" />}
         </Field>
-        <Field label="Line pressure at the start" error={formState.errors.linePressureKPa?.message} hint={`Gauge; ${NOMINAL_DISTRIBUTION_PRESSURE_KPA} kPa nominal (HTM 02-01).`}>
+        <Field
+          label="Line pressure at the start"
+          error={formState.errors.linePressureKPa?.message}
+          hint={`Gauge; ${NOMINAL_DISTRIBUTION_PRESSURE_KPA} kPa nominal (HTM 02-01).`}
+        >
           {(c) => <UnitInput {...c} {...register('linePressureKPa', { valueAsNumber: true })} unit="kPa" inputMode="decimal" />}
         </Field>
-        <Field label="Allowed pressure drop" error={formState.errors.allowedDropKPa?.message} hint={`Empty: ${DEFAULT_ALLOWED_DROP_FRACTION * 100} % of the line pressure (common practice, from memory). Use your design standard's figure.`}>
+        <Field
+          label="Allowed pressure drop"
+          error={formState.errors.allowedDropKPa?.message}
+          hint={`Empty: ${DEFAULT_ALLOWED_DROP_FRACTION * 100} % of the line pressure (common practice, from memory). Use your design standard's figure.`}
+        >
           {(c) => <UnitInput {...c} {...register('allowedDropKPa', { setValueAs: optionalNumber })} unit="kPa" inputMode="decimal" />}
         </Field>
         <Field label="Gas temperature in the pipe" error={formState.errors.gasTemperatureC?.message} hint="Empty: 20 °C.">

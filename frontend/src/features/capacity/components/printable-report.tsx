@@ -7,16 +7,34 @@ import { COUNT_LABELS, LIMIT_KIND_LABELS, SOURCE_TYPE_LABELS, departmentLabel, f
  * On screen it is hidden unless `onScreen`; when printing, only this element is shown (print
  * stylesheet below), so the navigation and buttons stay off the paper.
  */
-export function PrintableReport({ report, signoff, timeZone, onScreen = false }: { report: CapacityReport; signoff: (SignoffRow & { current?: boolean }) | null; timeZone: string; onScreen?: boolean }) {
+export function PrintableReport({
+  report,
+  signoff,
+  timeZone,
+  onScreen = false,
+}: {
+  report: CapacityReport;
+  signoff: (SignoffRow & { current?: boolean }) | null;
+  timeZone: string;
+  onScreen?: boolean;
+}) {
   const signed = signoff && signoff.current !== false ? signoff : null;
   return (
-    <article id="capacity-report" className={onScreen ? 'capacity-report mx-auto max-w-5xl rounded-card border border-line bg-surface p-8 text-sm shadow-card' : 'capacity-report hidden text-sm print:block'}>
+    <article
+      id="capacity-report"
+      className={
+        onScreen
+          ? 'capacity-report mx-auto max-w-5xl rounded-card border border-line bg-surface p-8 text-sm shadow-card'
+          : 'capacity-report hidden text-sm print:block'
+      }
+    >
       <style>{PRINT_CSS}</style>
       <header className="mb-4 border-b-2 border-fg pb-3">
         <p className="text-xs tracking-wider uppercase">Plenum · capacity check</p>
         <h1 className="text-2xl">{report.site.name}</h1>
         <p>
-          Computed {formatDateTime(report.generatedAt, timeZone)} · free gas at {report.reference.label} · atmospheric pressure {formatNumber(report.reference.atmosphericBar, 4)} bar · inputs {report.inputsHash.slice(0, 12)}
+          Computed {formatDateTime(report.generatedAt, timeZone)} · free gas at {report.reference.label} · atmospheric pressure{' '}
+          {formatNumber(report.reference.atmosphericBar, 4)} bar · inputs {report.inputsHash.slice(0, 12)}
         </p>
       </header>
 
@@ -35,7 +53,11 @@ export function PrintableReport({ report, signoff, timeZone, onScreen = false }:
           </tr>
           <tr>
             <th scope="row">Vaporiser derating</th>
-            <td>{report.options.vaporiserDerating !== undefined ? `${report.options.vaporiserDerating} for every vaporiser (what-if)` : `each source's own, else ${report.options.vaporiserDeratingDefault} (continuous duty, alternating pair)`}</td>
+            <td>
+              {report.options.vaporiserDerating !== undefined
+                ? `${report.options.vaporiserDerating} for every vaporiser (what-if)`
+                : `each source's own, else ${report.options.vaporiserDeratingDefault} (continuous duty, alternating pair)`}
+            </td>
           </tr>
           <tr>
             <th scope="row">Peak hours per day (manifold sizing)</th>
@@ -73,7 +95,8 @@ export function PrintableReport({ report, signoff, timeZone, onScreen = false }:
         </div>
         {signed?.note && <p className="col-span-2">Note: {signed.note}</p>}
         <p className="col-span-2 text-xs">
-          {signed ? 'Recorded in Plenum with the report as signed.' : 'Not yet signed off in Plenum for these inputs.'} The sign-off supports, and does not replace, the site's Authorised Person and the local codes.
+          {signed ? 'Recorded in Plenum with the report as signed.' : 'Not yet signed off in Plenum for these inputs.'} The sign-off supports, and does not
+          replace, the site's Authorised Person and the local codes.
         </p>
       </section>
     </article>
@@ -152,8 +175,14 @@ function InputsOfGas({ gas }: { gas: GasOut }) {
               <tr key={s.id}>
                 <td>{s.name}</td>
                 <td>{SOURCE_TYPE_LABELS[s.type] ?? s.type}</td>
-                <td>{s.limits.length ? s.limits.map((l) => `${LIMIT_KIND_LABELS[l.kind]} ${formatFlow(l.capacityLMin)}${l.detail ? ` (${l.detail})` : ''}`).join('; ') : (s.missingLimit ?? '–')}</td>
-                <td>{s.manifold ? `2 banks × ${s.manifold.cylindersPerBank} × ${s.manifold.cylinder} (${formatLitres(s.manifold.cylinderFreeGasL)} each)` : '–'}</td>
+                <td>
+                  {s.limits.length
+                    ? s.limits.map((l) => `${LIMIT_KIND_LABELS[l.kind]} ${formatFlow(l.capacityLMin)}${l.detail ? ` (${l.detail})` : ''}`).join('; ')
+                    : (s.missingLimit ?? '–')}
+                </td>
+                <td>
+                  {s.manifold ? `2 banks × ${s.manifold.cylindersPerBank} × ${s.manifold.cylinder} (${formatLitres(s.manifold.cylinderFreeGasL)} each)` : '–'}
+                </td>
               </tr>
             ))}
           </tbody>
@@ -173,7 +202,8 @@ function ResultsOfGas({ gas, flowPerPatientLMin }: { gas: GasOut; flowPerPatient
       <p>{gas.totalNote}</p>
       {gas.limiting ? (
         <p className="report-limiting my-1 border-l-4 border-fg pl-2">
-          <strong>Limiting element: {gas.limiting.name}</strong> — {formatFlow(gas.limiting.flowLMin)} of {formatFlow(gas.limiting.capacityLMin)} ({formatPercent(gas.limiting.utilisation)}){gas.limiting.ok ? '' : ': EXCEEDED'}. Surge headroom:{' '}
+          <strong>Limiting element: {gas.limiting.name}</strong> — {formatFlow(gas.limiting.flowLMin)} of {formatFlow(gas.limiting.capacityLMin)} (
+          {formatPercent(gas.limiting.utilisation)}){gas.limiting.ok ? '' : ': EXCEEDED'}. Surge headroom:{' '}
           {gas.headroom.extraPatients === null ? 'not known' : `${gas.headroom.extraPatients} more patients at ${formatNumber(flowPerPatientLMin)} L/min`}.
         </p>
       ) : (
@@ -202,7 +232,13 @@ function ResultsOfGas({ gas, flowPerPatientLMin }: { gas: GasOut; flowPerPatient
               <td>
                 {z.pipeRuns.length === 0
                   ? '–'
-                  : z.pipeRuns.map((p) => (p.error ? `${p.name}: ${p.error}` : `${p.name}: ${formatNumber(p.pressureDropKPa, 2)} / ${formatNumber(p.allowedDropKPa, 1)} kPa (${formatFlow(p.capacityLMin)})`)).join('; ')}
+                  : z.pipeRuns
+                      .map((p) =>
+                        p.error
+                          ? `${p.name}: ${p.error}`
+                          : `${p.name}: ${formatNumber(p.pressureDropKPa, 2)} / ${formatNumber(p.allowedDropKPa, 1)} kPa (${formatFlow(p.capacityLMin)})`,
+                      )
+                      .join('; ')}
               </td>
               <td className="num">{z.headroom?.extraPatientsWithSource ?? z.headroom?.extraPatients ?? '–'}</td>
               <td>{z.headroom?.limitedBy?.name ?? '–'}</td>
@@ -218,15 +254,18 @@ function ResultsOfGas({ gas, flowPerPatientLMin }: { gas: GasOut; flowPerPatient
           </p>
           {s.manifold && (
             <p>
-              Bank {formatLitres(s.manifold.bankFreeGasL)}: lasts {formatHours(s.manifold.bankDurationAtDesignH)} at design flow, {formatHours(s.manifold.bankDurationAtForecastH)} at forecast flow; changeover every{' '}
-              {formatDays(s.manifold.changeoverIntervalDays)}; {formatNumber(s.manifold.cylindersPerWeekAtForecast, 1)} cylinders a week. Manifold for the peak: {s.manifold.recommended?.label ?? s.manifold.recommendedNote ?? '–'}.
+              Bank {formatLitres(s.manifold.bankFreeGasL)}: lasts {formatHours(s.manifold.bankDurationAtDesignH)} at design flow,{' '}
+              {formatHours(s.manifold.bankDurationAtForecastH)} at forecast flow; changeover every {formatDays(s.manifold.changeoverIntervalDays)};{' '}
+              {formatNumber(s.manifold.cylindersPerWeekAtForecast, 1)} cylinders a week. Manifold for the peak:{' '}
+              {s.manifold.recommended?.label ?? s.manifold.recommendedNote ?? '–'}.
             </p>
           )}
           {s.reserves.rules.map((r) => (
             <p key={r.rule}>
               {r.rule === 'four_hour_secondary' ? '4-hour rule' : 'Average-day rule'}: needs {formatLitres(r.requiredFreeGasL)}
               {r.cylindersRequired !== null && r.cylinderName ? ` (${r.cylindersRequired} × ${r.cylinderName})` : ''}
-              {r.heldFreeGasL !== null ? `; holds ${formatLitres(r.heldFreeGasL)}` : ''} — {r.meets === null ? 'not checked' : r.meets ? 'met' : 'SHORT'}. <em>{r.source}</em>
+              {r.heldFreeGasL !== null ? `; holds ${formatLitres(r.heldFreeGasL)}` : ''} — {r.meets === null ? 'not checked' : r.meets ? 'met' : 'SHORT'}.{' '}
+              <em>{r.source}</em>
             </p>
           ))}
           {s.reserves.note && <p>{s.reserves.note}</p>}

@@ -1,6 +1,15 @@
 import { useMemo, useState, type FormEvent } from 'react';
 import { useQuery } from '@tanstack/react-query';
-import { CAPACITY_GAS_CODES, COUNT_BASES, DEPARTMENTS, UNVERIFIED_WARNING, departmentRuleSchema, ruleSourceSchema, type DepartmentRule, type DiversityRuleSet } from '@common/capacity/diversity-rules';
+import {
+  CAPACITY_GAS_CODES,
+  COUNT_BASES,
+  DEPARTMENTS,
+  UNVERIFIED_WARNING,
+  departmentRuleSchema,
+  ruleSourceSchema,
+  type DepartmentRule,
+  type DiversityRuleSet,
+} from '@common/capacity/diversity-rules';
 import { ApiError, errorMessage } from '@/lib/api-client';
 import { formatNumber } from '@/lib/format';
 import { toast } from '@/lib/toast';
@@ -60,7 +69,9 @@ export function RuleSetsScreen({ canEdit }: { canEdit: boolean }) {
         }
       />
       <Alert tone="watch" title="Oxygen rules of the shipped HTM 02-01 set are from memory">
-        The vacuum (Table 21) and 50:50 N2O/O2 (§§4.31–4.32) rules were seen in the published text. The oxygen table is recalled, not verified: every oxygen figure computed with it says “{UNVERIFIED_WARNING}”. Check it against your copy of the standard before relying on it. The GB 50751-2012 set is quoted from a supplier page and is not verified against the standard either.
+        The vacuum (Table 21) and 50:50 N2O/O2 (§§4.31–4.32) rules were seen in the published text. The oxygen table is recalled, not verified: every oxygen
+        figure computed with it says “{UNVERIFIED_WARNING}”. Check it against your copy of the standard before relying on it. The GB 50751-2012 set is quoted
+        from a supplier page and is not verified against the standard either.
       </Alert>
       {sets.isPending ? (
         <Card>
@@ -84,7 +95,9 @@ export function RuleSetsScreen({ canEdit }: { canEdit: boolean }) {
                     className="flex w-full flex-col items-start rounded-lg px-3 py-2 text-left hover:bg-primary-soft aria-[current=true]:bg-primary-soft aria-[current=true]:font-bold"
                   >
                     <span>{s.name}</span>
-                    <span className="text-xs text-fg-muted">{s.builtin ? 'Shipped, read-only' : `Own · used by ${s.usedByZones ?? 0} zone${s.usedByZones === 1 ? '' : 's'}`}</span>
+                    <span className="text-xs text-fg-muted">
+                      {s.builtin ? 'Shipped, read-only' : `Own · used by ${s.usedByZones ?? 0} zone${s.usedByZones === 1 ? '' : 's'}`}
+                    </span>
                   </button>
                 </li>
               ))}
@@ -145,7 +158,19 @@ interface RuleRef {
   department: string;
 }
 
-function RuleSetView({ set, basedOnName, canEdit, onCopy, onDeleted }: { set: RuleSetRow; basedOnName: string | null; canEdit: boolean; onCopy: () => void; onDeleted: () => void }) {
+function RuleSetView({
+  set,
+  basedOnName,
+  canEdit,
+  onCopy,
+  onDeleted,
+}: {
+  set: RuleSetRow;
+  basedOnName: string | null;
+  canEdit: boolean;
+  onCopy: () => void;
+  onDeleted: () => void;
+}) {
   const editable = canEdit && !set.builtin;
   const [draft, setDraft] = useState<DiversityRuleSet>(() => structuredClone(set.rules));
   const [name, setName] = useState(set.name);
@@ -164,7 +189,8 @@ function RuleSetView({ set, basedOnName, canEdit, onCopy, onDeleted }: { set: Ru
       { id: set.id, body: { name, rules: draft } },
       {
         onSuccess: () => toast.ok(`Saved ${name}.`),
-        onError: (err) => setBanner(err instanceof ApiError && err.details?.length ? err.details.map((d) => `${d.path}: ${d.message}`).join('; ') : errorMessage(err)),
+        onError: (err) =>
+          setBanner(err instanceof ApiError && err.details?.length ? err.details.map((d) => `${d.path}: ${d.message}`).join('; ') : errorMessage(err)),
       },
     );
   };
@@ -180,7 +206,11 @@ function RuleSetView({ set, basedOnName, canEdit, onCopy, onDeleted }: { set: Ru
     <Card className="min-w-0">
       <CardHeader
         title={set.name}
-        description={set.builtin ? 'Shipped with Plenum. Copy it to change a rule.' : `${basedOnName ? `Copy of ${basedOnName}.` : 'Written by your organisation.'} Changes apply to every zone that uses this set.`}
+        description={
+          set.builtin
+            ? 'Shipped with Plenum. Copy it to change a rule.'
+            : `${basedOnName ? `Copy of ${basedOnName}.` : 'Written by your organisation.'} Changes apply to every zone that uses this set.`
+        }
         actions={
           <>
             {canEdit && (
@@ -243,7 +273,11 @@ function RuleSetView({ set, basedOnName, canEdit, onCopy, onDeleted }: { set: Ru
                     <th className="py-1 pr-3">Rule</th>
                     <th className="py-1 pr-3">Counts</th>
                     <th className="py-1 pr-3">Source</th>
-                    {editable && <th className="py-1"><span className="sr-only">Actions</span></th>}
+                    {editable && (
+                      <th className="py-1">
+                        <span className="sr-only">Actions</span>
+                      </th>
+                    )}
                   </tr>
                 </thead>
                 <tbody>
@@ -258,16 +292,30 @@ function RuleSetView({ set, basedOnName, canEdit, onCopy, onDeleted }: { set: Ru
                         </td>
                         <td className="py-2 pr-3">{COUNT_LABELS[rule!.counts] ?? rule!.counts}</td>
                         <td className="py-2 pr-3">
-                          {rule!.verified ? <Badge tone="ok">Checked against the standard’s table</Badge> : <Badge tone="watch">{source?.unverified_warning ?? UNVERIFIED_WARNING}</Badge>}
+                          {rule!.verified ? (
+                            <Badge tone="ok">Checked against the standard’s table</Badge>
+                          ) : (
+                            <Badge tone="watch">{source?.unverified_warning ?? UNVERIFIED_WARNING}</Badge>
+                          )}
                           <span className="block text-xs text-fg-muted">{source?.citation ?? rule!.source}</span>
                         </td>
                         {editable && (
                           <td className="py-2">
                             <div className="flex gap-1">
-                              <Button variant="ghost" size="sm" onClick={() => setRuleDialog({ gas, department: dept })} aria-label={`Edit ${gasLabel(gas)} ${departmentLabel(dept)} rule`}>
+                              <Button
+                                variant="ghost"
+                                size="sm"
+                                onClick={() => setRuleDialog({ gas, department: dept })}
+                                aria-label={`Edit ${gasLabel(gas)} ${departmentLabel(dept)} rule`}
+                              >
                                 Edit
                               </Button>
-                              <Button variant="ghost" size="sm" onClick={() => removeRule({ gas, department: dept })} aria-label={`Remove ${gasLabel(gas)} ${departmentLabel(dept)} rule`}>
+                              <Button
+                                variant="ghost"
+                                size="sm"
+                                onClick={() => removeRule({ gas, department: dept })}
+                                aria-label={`Remove ${gasLabel(gas)} ${departmentLabel(dept)} rule`}
+                              >
                                 Remove
                               </Button>
                             </div>
@@ -304,7 +352,8 @@ function RuleSetView({ set, basedOnName, canEdit, onCopy, onDeleted }: { set: Ru
           <ul className="flex flex-col gap-1 text-sm">
             {draft.sources.map((s) => (
               <li key={s.id}>
-                {s.verified ? <Badge tone="ok">Seen</Badge> : <Badge tone="watch">From memory</Badge>} {s.citation} <span className="text-xs text-fg-muted">({s.id})</span>
+                {s.verified ? <Badge tone="ok">Seen</Badge> : <Badge tone="watch">From memory</Badge>} {s.citation}{' '}
+                <span className="text-xs text-fg-muted">({s.id})</span>
               </li>
             ))}
           </ul>
@@ -346,7 +395,22 @@ function RuleSetView({ set, basedOnName, canEdit, onCopy, onDeleted }: { set: Ru
   );
 }
 
-type RuleDraft = { gas: string; department: string; method: Method; first: string; further: string; diversity: string; unit: string; factor: string; p: string; confidence: string; counts: string; source: string; verified: boolean; note: string };
+type RuleDraft = {
+  gas: string;
+  department: string;
+  method: Method;
+  first: string;
+  further: string;
+  diversity: string;
+  unit: string;
+  factor: string;
+  p: string;
+  confidence: string;
+  counts: string;
+  source: string;
+  verified: boolean;
+  note: string;
+};
 
 function toRuleDraft(draft: DiversityRuleSet, at: RuleRef | null): RuleDraft {
   const rule = at ? (draft.gases[at.gas as keyof typeof draft.gases]?.departments as Record<string, DepartmentRule> | undefined)?.[at.department] : undefined;
@@ -495,10 +559,12 @@ function RuleForm({ draft, at, onDone }: { draft: DiversityRuleSet; at: RuleRef 
           )}
         </Field>
       </div>
-      <Checkbox label="I have seen this figure in the cited source (verified)" checked={v.verified} onChange={(e) => setV((d) => ({ ...d, verified: e.target.checked }))} />
-      <Field label="Note">
-        {(c) => <Input {...c} value={v.note} onChange={set('note')} />}
-      </Field>
+      <Checkbox
+        label="I have seen this figure in the cited source (verified)"
+        checked={v.verified}
+        onChange={(e) => setV((d) => ({ ...d, verified: e.target.checked }))}
+      />
+      <Field label="Note">{(c) => <Input {...c} value={v.note} onChange={set('note')} />}</Field>
       <p className="text-xs text-fg-muted">The rule changes the draft; save the rule set to apply it.</p>
       <FormActions onCancel={() => onDone(null, null)} submitLabel="Use this rule" />
     </form>

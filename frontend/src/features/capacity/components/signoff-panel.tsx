@@ -25,7 +25,19 @@ const formSchema = z.object({
  * Who signed the check off and whether it still matches the inputs; the engineer signs from here. The
  * server recomputes the check and refuses the sign-off if the inputs changed since this page loaded.
  */
-export function SignoffPanel({ report, whatIf, canSign, engineerName, timeZone }: { report: CapacityResponse; whatIf: CapacityWhatIf; canSign: boolean; engineerName: string; timeZone: string }) {
+export function SignoffPanel({
+  report,
+  whatIf,
+  canSign,
+  engineerName,
+  timeZone,
+}: {
+  report: CapacityResponse;
+  whatIf: CapacityWhatIf;
+  canSign: boolean;
+  engineerName: string;
+  timeZone: string;
+}) {
   const [open, setOpen] = useState(false);
   const [showHistory, setShowHistory] = useState(false);
   const latest = report.latestSignoff;
@@ -123,7 +135,8 @@ function SignoffForm({ report, whatIf, engineerName, onDone }: { report: Capacit
         </Alert>
       )}
       <Alert tone="warn" title="What you sign">
-        {report.caution} You sign the figures on this screen, computed from the inputs shown in the report; the name, the date and the report are recorded. A later change to the zones, pipe runs, sources or rules marks the sign-off as out of date; the daily demand forecast does not.
+        {report.caution} You sign the figures on this screen, computed from the inputs shown in the report; the name, the date and the report are recorded. A
+        later change to the zones, pipe runs, sources or rules marks the sign-off as out of date; the daily demand forecast does not.
       </Alert>
       <Field label="Engineer's name" error={formState.errors.engineerName?.message}>
         {(c) => <Input {...c} {...register('engineerName')} autoComplete="name" />}

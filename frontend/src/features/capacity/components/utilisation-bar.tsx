@@ -26,7 +26,9 @@ export function UtilisationBar({ fraction, className, label }: { fraction: numbe
       >
         <div className={cn('h-full rounded-full', FILL[tone])} style={{ width: `${width}%` }} />
       </div>
-      <span className={cn('tabular w-14 text-right text-sm font-bold', tone === 'critical' ? 'text-critical' : tone === 'warn' ? 'text-warn' : 'text-fg')}>{formatPercent(fraction)}</span>
+      <span className={cn('tabular w-14 text-right text-sm font-bold', tone === 'critical' ? 'text-critical' : tone === 'warn' ? 'text-warn' : 'text-fg')}>
+        {formatPercent(fraction)}
+      </span>
     </div>
   );
 }

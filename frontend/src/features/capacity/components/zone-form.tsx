@@ -14,7 +14,20 @@ import { Field, Input, Select, Textarea, UnitInput } from '@/components/ui/field
 import { useDeleteZone, useSaveZone, type CapacityResponse, type RuleSetRow, type ZoneRow } from '../api/capacity-api';
 import { departmentLabel, gasLabel, SOURCE_TYPE_LABELS } from '../lib/capacity-format';
 
-const FIELDS = ['name', 'gasCode', 'department', 'terminalUnits', 'sourceId', 'ruleSetId', 'builtinRuleSet', 'diversityMethod', 'unitFlowLMin', 'useProbability', 'confidence', 'notes'] as const;
+const FIELDS = [
+  'name',
+  'gasCode',
+  'department',
+  'terminalUnits',
+  'sourceId',
+  'ruleSetId',
+  'builtinRuleSet',
+  'diversityMethod',
+  'unitFlowLMin',
+  'useProbability',
+  'confidence',
+  'notes',
+] as const;
 const optionalNumber = (v: unknown) => (v === '' || v === null || v === undefined ? null : Number(v));
 
 /** Creates or edits a pipeline zone: gas, department, terminal units, source and how its flow is diversified. */
@@ -50,7 +63,20 @@ export function ZoneForm({
         confidence: initial.confidence,
         notes: initial.notes,
       }
-    : { name: '', gasCode: 'O2', department: 'ward', terminalUnits: undefined as unknown as number, sourceId: null, ruleSetId: null, builtinRuleSet: 'default', diversityMethod: 'rule_set', unitFlowLMin: null, useProbability: null, confidence: 0.99, notes: '' };
+    : {
+        name: '',
+        gasCode: 'O2',
+        department: 'ward',
+        terminalUnits: undefined as unknown as number,
+        sourceId: null,
+        ruleSetId: null,
+        builtinRuleSet: 'default',
+        diversityMethod: 'rule_set',
+        unitFlowLMin: null,
+        useProbability: null,
+        confidence: 0.99,
+        notes: '',
+      };
   const { register, handleSubmit, setError, setValue, control, formState } = useForm({ resolver: zodResolver(zoneSchema), defaultValues: defaults });
   const [gasCode, method, ruleSetId, builtin, units, unitFlow, p, conf] = useWatch({
     control,
@@ -123,10 +149,18 @@ export function ZoneForm({
             </Select>
           )}
         </Field>
-        <Field label="Terminal units" error={formState.errors.terminalUnits?.message} hint="Or beds, rooms, trolley spaces: whatever the rule counts (shown on the check).">
+        <Field
+          label="Terminal units"
+          error={formState.errors.terminalUnits?.message}
+          hint="Or beds, rooms, trolley spaces: whatever the rule counts (shown on the check)."
+        >
           {(c) => <Input {...c} {...register('terminalUnits', { valueAsNumber: true })} inputMode="numeric" className="tabular" />}
         </Field>
-        <Field label="Supply source" error={formState.errors.sourceId?.message} hint={gasCode === 'VAC' ? 'Vacuum zones are served by the vacuum plant.' : 'The primary source of this gas; its reserve is found from it.'}>
+        <Field
+          label="Supply source"
+          error={formState.errors.sourceId?.message}
+          hint={gasCode === 'VAC' ? 'Vacuum zones are served by the vacuum plant.' : 'The primary source of this gas; its reserve is found from it.'}
+        >
           {(c) => (
             <Select {...c} {...register('sourceId', { setValueAs: optionalNumber })} disabled={gasCode === 'VAC'}>
               <option value="">None linked</option>
@@ -198,7 +232,19 @@ export function ZoneForm({
           {confirmDelete ? (
             <>
               <span className="text-sm">Delete this zone and its pipe runs?</span>
-              <Button variant="danger" size="sm" busy={remove.isPending} onClick={() => remove.mutate(initial.id, { onSuccess: () => { toast.ok(`Deleted zone ${initial.name}.`); onDone(); } })}>
+              <Button
+                variant="danger"
+                size="sm"
+                busy={remove.isPending}
+                onClick={() =>
+                  remove.mutate(initial.id, {
+                    onSuccess: () => {
+                      toast.ok(`Deleted zone ${initial.name}.`);
+                      onDone();
+                    },
+                  })
+                }
+              >
                 Delete
               </Button>
               <Button variant="secondary" size="sm" onClick={() => setConfirmDelete(false)}>

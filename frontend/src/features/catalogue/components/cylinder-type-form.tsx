@@ -11,7 +11,17 @@ import { FormActions } from '@/components/ui/dialog';
 import { Checkbox, Field, Input, Select, UnitInput } from '@/components/ui/field';
 import { useSaveCylinderType, type CylinderType, type Gas } from '../api/catalogue-api';
 
-const FIELDS = ['gasCode', 'waterCapacityL', 'fillPressureBar', 'tareKg', 'maxFillingRatioKgPerL', 'residualGaugeBar', 'material', 'valveNotes', 'active'] as const;
+const FIELDS = [
+  'gasCode',
+  'waterCapacityL',
+  'fillPressureBar',
+  'tareKg',
+  'maxFillingRatioKgPerL',
+  'residualGaugeBar',
+  'material',
+  'valveNotes',
+  'active',
+] as const;
 const LIQUEFIED = new Set(['N2O', 'CO2']);
 const optionalNumber = (v: unknown) => (v === '' || v === null || v === undefined ? null : Number(v));
 
@@ -32,13 +42,29 @@ export function CylinderTypeForm({ initial, gases, onDone }: { initial: Cylinder
           valveNotes: initial.valveNotes,
           active: initial.active,
         }
-      : { gasCode: 'O2' as const, waterCapacityL: '', fillPressureBar: '', tareKg: null, maxFillingRatioKgPerL: null, residualGaugeBar: null, material: '', valveNotes: '', active: true },
+      : {
+          gasCode: 'O2' as const,
+          waterCapacityL: '',
+          fillPressureBar: '',
+          tareKg: null,
+          maxFillingRatioKgPerL: null,
+          residualGaugeBar: null,
+          material: '',
+          valveNotes: '',
+          active: true,
+        },
   });
   const [gasCode, water, fill, ratio] = useWatch({ control, name: ['gasCode', 'waterCapacityL', 'fillPressureBar', 'maxFillingRatioKgPerL'] });
   const liquefied = LIQUEFIED.has(String(gasCode));
   const w = Number(water);
   const f = Number(fill);
-  const preview = w > 0 && f > 0 ? { name: cylinderTypeName(w, f), nominal: nominalContents({ gas: String(gasCode), waterCapacityL: w, fillPressureBar: f, maxFillingRatioKgPerL: ratio ? Number(ratio) : null }) } : null;
+  const preview =
+    w > 0 && f > 0
+      ? {
+          name: cylinderTypeName(w, f),
+          nominal: nominalContents({ gas: String(gasCode), waterCapacityL: w, fillPressureBar: f, maxFillingRatioKgPerL: ratio ? Number(ratio) : null }),
+        }
+      : null;
 
   const onSubmit = handleSubmit((body) => {
     setBanner(null);
@@ -79,11 +105,19 @@ export function CylinderTypeForm({ initial, gases, onDone }: { initial: Cylinder
         <Field label={liquefied ? 'Test/service pressure' : 'Fill pressure (gauge)'} error={formState.errors.fillPressureBar?.message}>
           {(c) => <UnitInput {...c} {...register('fillPressureBar')} unit="bar" inputMode="decimal" />}
         </Field>
-        <Field label="Tare weight" hint={liquefied ? 'Stamped on the cylinder: needed to weigh the contents.' : 'Optional for compressed gases.'} error={formState.errors.tareKg?.message}>
+        <Field
+          label="Tare weight"
+          hint={liquefied ? 'Stamped on the cylinder: needed to weigh the contents.' : 'Optional for compressed gases.'}
+          error={formState.errors.tareKg?.message}
+        >
           {(c) => <UnitInput {...c} {...register('tareKg', { setValueAs: optionalNumber })} unit="kg" inputMode="decimal" />}
         </Field>
         {!liquefied && (
-          <Field label="Changed at (residual)" hint="Gauge pressure at which a cylinder is changed; the gas left is not counted as stock. Empty: 10 % of the fill pressure (common practice; US EMS guidance keeps about 200 psi)." error={formState.errors.residualGaugeBar?.message}>
+          <Field
+            label="Changed at (residual)"
+            hint="Gauge pressure at which a cylinder is changed; the gas left is not counted as stock. Empty: 10 % of the fill pressure (common practice; US EMS guidance keeps about 200 psi)."
+            error={formState.errors.residualGaugeBar?.message}
+          >
             {(c) => <UnitInput {...c} {...register('residualGaugeBar', { setValueAs: optionalNumber })} unit="bar" inputMode="decimal" />}
           </Field>
         )}
@@ -108,10 +142,13 @@ export function CylinderTypeForm({ initial, gases, onDone }: { initial: Cylinder
           {preview.nominal ? (
             <p className="text-fg-muted">
               Full: {formatLitres(preview.nominal.freeGasL)} free gas (real gas)
-              {preview.nominal.idealFreeGasL !== null && <> · {formatLitres(preview.nominal.idealFreeGasL)} by pV = nRT</>} · {formatKg(preview.nominal.massKg)} · {preview.nominal.basis}
+              {preview.nominal.idealFreeGasL !== null && <> · {formatLitres(preview.nominal.idealFreeGasL)} by pV = nRT</>} · {formatKg(preview.nominal.massKg)}{' '}
+              · {preview.nominal.basis}
             </p>
           ) : (
-            <p className="text-fg-muted">{liquefied ? 'Give the filling ratio to see the nominal contents.' : 'The engine cannot compute these contents: check the figures.'}</p>
+            <p className="text-fg-muted">
+              {liquefied ? 'Give the filling ratio to see the nominal contents.' : 'The engine cannot compute these contents: check the figures.'}
+            </p>
           )}
         </div>
       )}

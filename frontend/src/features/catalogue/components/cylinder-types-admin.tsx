@@ -49,17 +49,31 @@ export function CylinderTypesAdmin({ canEdit, colourConvention }: { canEdit: boo
           );
         },
       }),
-      col.accessor((t) => t.nominal?.massKg ?? null, { id: 'mass', header: 'Gas mass', meta: { numeric: true, className: 'hidden sm:table-cell' }, cell: (info) => formatKg(info.getValue()) }),
+      col.accessor((t) => t.nominal?.massKg ?? null, {
+        id: 'mass',
+        header: 'Gas mass',
+        meta: { numeric: true, className: 'hidden sm:table-cell' },
+        cell: (info) => formatKg(info.getValue()),
+      }),
       col.accessor('tareKg', { header: 'Tare', meta: { numeric: true, className: 'hidden md:table-cell' }, cell: (info) => formatKg(info.getValue()) }),
       col.accessor('material', { header: 'Material', meta: { className: 'hidden lg:table-cell' }, cell: (info) => info.getValue() || '–' }),
-      col.accessor('active', { header: 'Status', meta: { className: 'hidden sm:table-cell' }, cell: (info) => (info.getValue() ? <Badge tone="ok">Active</Badge> : <Badge>Retired</Badge>) }),
+      col.accessor('active', {
+        header: 'Status',
+        meta: { className: 'hidden sm:table-cell' },
+        cell: (info) => (info.getValue() ? <Badge tone="ok">Active</Badge> : <Badge>Retired</Badge>),
+      }),
       ...(canEdit
         ? [
             col.display({
               id: 'edit',
               header: () => <span className="sr-only">Edit</span>,
               cell: (info) => (
-                <Button variant="ghost" size="sm" onClick={() => setEditing(info.row.original)} aria-label={`Edit ${info.row.original.name} ${gasByCode.get(info.row.original.gasCode)?.name ?? ''}`}>
+                <Button
+                  variant="ghost"
+                  size="sm"
+                  onClick={() => setEditing(info.row.original)}
+                  aria-label={`Edit ${info.row.original.name} ${gasByCode.get(info.row.original.gasCode)?.name ?? ''}`}
+                >
                   <Icon name="pencil" className="size-4" />
                   Edit
                 </Button>
@@ -88,7 +102,9 @@ export function CylinderTypesAdmin({ canEdit, colourConvention }: { canEdit: boo
         <ErrorState error={types.error} onRetry={() => types.refetch()} />
       ) : types.data.length === 0 ? (
         <EmptyState title="No cylinder types yet" icon="cylinder">
-          {canEdit ? 'Add the cylinders your supplier delivers: water capacity and fill pressure.' : 'An administrator adds the cylinders your supplier delivers.'}
+          {canEdit
+            ? 'Add the cylinders your supplier delivers: water capacity and fill pressure.'
+            : 'An administrator adds the cylinders your supplier delivers.'}
         </EmptyState>
       ) : (
         <DataTable
@@ -100,12 +116,10 @@ export function CylinderTypesAdmin({ canEdit, colourConvention }: { canEdit: boo
           empty={<EmptyState title="No cylinder type matches the filter" />}
         />
       )}
-      <Dialog
-        open={editing !== null}
-        onClose={() => setEditing(null)}
-        title={editing === 'new' ? 'New cylinder type' : `Edit ${editing?.name ?? ''}`}
-      >
-        {editing !== null && <CylinderTypeForm initial={editing === 'new' ? null : editing} gases={gases.data ?? ([] as Gas[])} onDone={() => setEditing(null)} />}
+      <Dialog open={editing !== null} onClose={() => setEditing(null)} title={editing === 'new' ? 'New cylinder type' : `Edit ${editing?.name ?? ''}`}>
+        {editing !== null && (
+          <CylinderTypeForm initial={editing === 'new' ? null : editing} gases={gases.data ?? ([] as Gas[])} onDone={() => setEditing(null)} />
+        )}
       </Dialog>
     </Card>
   );

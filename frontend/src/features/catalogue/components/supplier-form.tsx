@@ -16,7 +16,19 @@ const FIELDS = ['name', 'orderEmail', 'phone', 'leadTimeHours', 'rentalMinorPerC
 const optionalId = (v: unknown) => (v === '' || v === null || v === undefined ? null : Number(v));
 const optionalCode = (v: unknown) => (v === '' || v === null || v === undefined ? null : String(v));
 
-export function SupplierForm({ initial, gases, cylinderTypes, defaultCurrency, onDone }: { initial: Supplier | null; gases: Gas[]; cylinderTypes: CylinderType[]; defaultCurrency: string; onDone: () => void }) {
+export function SupplierForm({
+  initial,
+  gases,
+  cylinderTypes,
+  defaultCurrency,
+  onDone,
+}: {
+  initial: Supplier | null;
+  gases: Gas[];
+  cylinderTypes: CylinderType[];
+  defaultCurrency: string;
+  onDone: () => void;
+}) {
   const save = useSaveSupplier();
   const [banner, setBanner] = useState<string | null>(null);
   const { register, handleSubmit, setError, control, formState } = useForm({
@@ -31,9 +43,24 @@ export function SupplierForm({ initial, gases, cylinderTypes, defaultCurrency, o
           minBulkDropKg: String(initial.minBulkDropKg),
           currency: initial.currency,
           active: initial.active,
-          prices: initial.prices.map((p) => ({ cylinderTypeId: p.cylinderTypeId, gasCode: p.gasCode as (typeof GAS_CODES_CATALOGUE)[number] | null, unit: p.unit, priceMinor: p.priceMinor })),
+          prices: initial.prices.map((p) => ({
+            cylinderTypeId: p.cylinderTypeId,
+            gasCode: p.gasCode as (typeof GAS_CODES_CATALOGUE)[number] | null,
+            unit: p.unit,
+            priceMinor: p.priceMinor,
+          })),
         }
-      : { name: '', orderEmail: '', phone: '', leadTimeHours: '24', rentalMinorPerCylinderDay: 0, minBulkDropKg: '0', currency: defaultCurrency, active: true, prices: [] },
+      : {
+          name: '',
+          orderEmail: '',
+          phone: '',
+          leadTimeHours: '24',
+          rentalMinorPerCylinderDay: 0,
+          minBulkDropKg: '0',
+          currency: defaultCurrency,
+          active: true,
+          prices: [],
+        },
   });
   const prices = useFieldArray({ control, name: 'prices' });
   const currency = String(useWatch({ control, name: 'currency' }) || defaultCurrency);
@@ -80,7 +107,11 @@ export function SupplierForm({ initial, gases, cylinderTypes, defaultCurrency, o
         </Field>
         <Field label="Cylinder rental per cylinder and day" error={e.rentalMinorPerCylinderDay?.message}>
           {(c) => (
-            <Controller control={control} name="rentalMinorPerCylinderDay" render={({ field }) => <MoneyInput {...c} currency={currency} value={field.value as number} onChange={field.onChange} onBlur={field.onBlur} />} />
+            <Controller
+              control={control}
+              name="rentalMinorPerCylinderDay"
+              render={({ field }) => <MoneyInput {...c} currency={currency} value={field.value as number} onChange={field.onChange} onBlur={field.onBlur} />}
+            />
           )}
         </Field>
         <Field label="Smallest bulk delivery" error={e.minBulkDropKg?.message}>
@@ -134,7 +165,13 @@ export function SupplierForm({ initial, gases, cylinderTypes, defaultCurrency, o
                 </Field>
               )}
               <Field label="Price" error={pe?.priceMinor?.message}>
-                {(c) => <Controller control={control} name={`prices.${i}.priceMinor`} render={({ field }) => <MoneyInput {...c} currency={currency} value={field.value} onChange={field.onChange} onBlur={field.onBlur} />} />}
+                {(c) => (
+                  <Controller
+                    control={control}
+                    name={`prices.${i}.priceMinor`}
+                    render={({ field }) => <MoneyInput {...c} currency={currency} value={field.value} onChange={field.onChange} onBlur={field.onBlur} />}
+                  />
+                )}
               </Field>
               <Button variant="ghost" onClick={() => prices.remove(i)} className="sm:mt-6" aria-label={`Remove price ${i + 1}`}>
                 <Icon name="close" />

@@ -41,10 +41,22 @@ export function SuppliersAdmin({ canEdit, defaultCurrency }: { canEdit: boolean;
         ),
       }),
       col.accessor('leadTimeHours', { header: 'Lead time', meta: { numeric: true }, cell: (info) => formatLeadTime(info.getValue()) }),
-      col.accessor('rentalMinorPerCylinderDay', { header: 'Rental / cylinder-day', meta: { numeric: true, className: 'hidden sm:table-cell' }, cell: (info) => formatMoney(info.getValue(), info.row.original.currency) }),
-      col.accessor('minBulkDropKg', { header: 'Min. bulk drop', meta: { numeric: true, className: 'hidden md:table-cell' }, cell: (info) => (info.getValue() ? formatKg(info.getValue()) : '–') }),
+      col.accessor('rentalMinorPerCylinderDay', {
+        header: 'Rental / cylinder-day',
+        meta: { numeric: true, className: 'hidden sm:table-cell' },
+        cell: (info) => formatMoney(info.getValue(), info.row.original.currency),
+      }),
+      col.accessor('minBulkDropKg', {
+        header: 'Min. bulk drop',
+        meta: { numeric: true, className: 'hidden md:table-cell' },
+        cell: (info) => (info.getValue() ? formatKg(info.getValue()) : '–'),
+      }),
       col.accessor((s) => s.prices.length, { id: 'prices', header: 'Prices', meta: { numeric: true, className: 'hidden sm:table-cell' } }),
-      col.accessor('active', { header: 'Status', meta: { className: 'hidden sm:table-cell' }, cell: (info) => (info.getValue() ? <Badge tone="ok">Active</Badge> : <Badge>Inactive</Badge>) }),
+      col.accessor('active', {
+        header: 'Status',
+        meta: { className: 'hidden sm:table-cell' },
+        cell: (info) => (info.getValue() ? <Badge tone="ok">Active</Badge> : <Badge>Inactive</Badge>),
+      }),
       col.display({
         id: 'open',
         header: () => <span className="sr-only">Open</span>,
@@ -80,17 +92,36 @@ export function SuppliersAdmin({ canEdit, defaultCurrency }: { canEdit: boolean;
           {canEdit ? 'Add the companies that deliver your gases, with their lead times and prices.' : 'An administrator adds the suppliers.'}
         </EmptyState>
       ) : (
-        <DataTable caption="Suppliers" columns={columns} data={suppliers.data} getRowId={(s) => String(s.id)} globalFilter={filter} empty={<EmptyState title="No supplier matches the filter" />} />
+        <DataTable
+          caption="Suppliers"
+          columns={columns}
+          data={suppliers.data}
+          getRowId={(s) => String(s.id)}
+          globalFilter={filter}
+          empty={<EmptyState title="No supplier matches the filter" />}
+        />
       )}
       <Dialog open={open !== null} onClose={() => setOpen(null)} title={open === 'new' ? 'New supplier' : (current?.name ?? '')} wide>
         {open !== null &&
           (canEdit ? (
-            <SupplierForm initial={current} gases={gases.data ?? []} cylinderTypes={types.data ?? []} defaultCurrency={defaultCurrency} onDone={() => setOpen(null)} />
+            <SupplierForm
+              initial={current}
+              gases={gases.data ?? []}
+              cylinderTypes={types.data ?? []}
+              defaultCurrency={defaultCurrency}
+              onDone={() => setOpen(null)}
+            />
           ) : (
-            current && <SupplierPrices supplier={current} typeName={(id) => {
-              const t = types.data?.find((x) => x.id === id);
-              return t ? `${gases.data?.find((g) => g.code === t.gasCode)?.name ?? t.gasCode} · ${t.name}` : `#${id}`;
-            }} gasName={(code) => gases.data?.find((g) => g.code === code)?.name ?? code} />
+            current && (
+              <SupplierPrices
+                supplier={current}
+                typeName={(id) => {
+                  const t = types.data?.find((x) => x.id === id);
+                  return t ? `${gases.data?.find((g) => g.code === t.gasCode)?.name ?? t.gasCode} · ${t.name}` : `#${id}`;
+                }}
+                gasName={(code) => gases.data?.find((g) => g.code === code)?.name ?? code}
+              />
+            )
           ))}
       </Dialog>
     </Card>

@@ -7,7 +7,19 @@ const REAL = 'var(--color-series-real)';
 const IDEAL = 'var(--color-series-ideal)';
 
 /** Free gas against gauge pressure at the cylinder's temperature: real gas and pV = nRT, with the reading marked. */
-export function ContentsChart({ points, reading, realNow, pressureUnit, temperatureLabel }: { points: ChartPoint[]; reading: number; realNow: number; pressureUnit: string; temperatureLabel: string }) {
+export function ContentsChart({
+  points,
+  reading,
+  realNow,
+  pressureUnit,
+  temperatureLabel,
+}: {
+  points: ChartPoint[];
+  reading: number;
+  realNow: number;
+  pressureUnit: string;
+  temperatureLabel: string;
+}) {
   if (points.length < 2) return null;
   const last = points[points.length - 1];
   const diff = last.idealL > 0 ? ((last.realL - last.idealL) / last.idealL) * 100 : 0;
@@ -36,12 +48,22 @@ export function ContentsChart({ points, reading, realNow, pressureUnit, temperat
             tick={{ fontSize: 12, fill: 'var(--color-fg-muted)' }}
             label={{ value: `gauge, ${pressureUnit}`, position: 'insideBottom', offset: -10, fontSize: 12, fill: 'var(--color-fg-muted)' }}
           />
-          <YAxis tickFormatter={(v: number) => formatNumber(v)} tick={{ fontSize: 12, fill: 'var(--color-fg-muted)' }} width={52} label={{ value: 'L', position: 'insideTopLeft', offset: 0, fontSize: 12, fill: 'var(--color-fg-muted)' }} />
+          <YAxis
+            tickFormatter={(v: number) => formatNumber(v)}
+            tick={{ fontSize: 12, fill: 'var(--color-fg-muted)' }}
+            width={52}
+            label={{ value: 'L', position: 'insideTopLeft', offset: 0, fontSize: 12, fill: 'var(--color-fg-muted)' }}
+          />
           <Tooltip
             formatter={(value, name) => [`${formatNumber(Number(value))} L`, name === 'realL' ? 'Real gas' : 'Ideal gas']}
             labelFormatter={(label) => `${formatNumber(Number(label))} ${pressureUnit}`}
           />
-          <ReferenceLine x={reading} stroke="var(--color-fg)" strokeDasharray="2 3" label={{ value: 'reading', position: 'top', fontSize: 12, fill: 'var(--color-fg)' }} />
+          <ReferenceLine
+            x={reading}
+            stroke="var(--color-fg)"
+            strokeDasharray="2 3"
+            label={{ value: 'reading', position: 'top', fontSize: 12, fill: 'var(--color-fg)' }}
+          />
           <Line type="monotone" dataKey="idealL" stroke={IDEAL} strokeWidth={2} strokeDasharray="6 4" dot={false} isAnimationActive={false} />
           <Line type="monotone" dataKey="realL" stroke={REAL} strokeWidth={3} dot={false} isAnimationActive={false} />
           <ReferenceDot x={reading} y={realNow} r={6} fill={REAL} stroke="white" strokeWidth={2} />

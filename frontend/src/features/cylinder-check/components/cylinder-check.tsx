@@ -50,7 +50,8 @@ export interface CheckSiteInfo extends CheckSite {
   cylinderColours: string;
 }
 
-export const PLANNING_AID = 'Planning aid only: it supports and does not replace local practice, the supplier’s instructions and your site’s authorised person.';
+export const PLANNING_AID =
+  'Planning aid only: it supports and does not replace local practice, the supplier’s instructions and your site’s authorised person.';
 
 type FormValues = CheckValues & { cylinderTypeId: string };
 const FLOW_PRESETS = [1, 2, 4, 6, 10, 15];
@@ -64,7 +65,17 @@ export function CylinderCheck({ site, cylinderTypes, gases }: { site: CheckSiteI
   const gasName = (code: string) => gases.find((g) => g.code === code)?.name ?? code;
 
   const { register, setValue, control } = useForm<FormValues>({
-    defaultValues: { cylinderTypeId: '', gasCode: 'O2', waterCapacityL: '', gauge: '', temperature: defaultTemperature(site), flowLMin: '', reserve: '', gross: '', tare: '' },
+    defaultValues: {
+      cylinderTypeId: '',
+      gasCode: 'O2',
+      waterCapacityL: '',
+      gauge: '',
+      temperature: defaultTemperature(site),
+      flowLMin: '',
+      reserve: '',
+      gross: '',
+      tare: '',
+    },
   });
   const values = useWatch({ control }) as FormValues;
   const deferred = useDeferredValue(values);
@@ -134,8 +145,21 @@ export function CylinderCheck({ site, cylinderTypes, gases }: { site: CheckSiteI
                 </div>
               )}
             </Field>
-            <Field label="Water capacity" error={errors.waterCapacityL} hint={selectedType ? `From the cylinder type (${selectedType.name}).` : 'Stamped on the cylinder shoulder.'}>
-              {(c) => <UnitInput {...c} {...register('waterCapacityL')} unit="L" inputMode="decimal" readOnly={!!selectedType} className={cn(selectedType && '[&_input]:bg-surface-sunken')} />}
+            <Field
+              label="Water capacity"
+              error={errors.waterCapacityL}
+              hint={selectedType ? `From the cylinder type (${selectedType.name}).` : 'Stamped on the cylinder shoulder.'}
+            >
+              {(c) => (
+                <UnitInput
+                  {...c}
+                  {...register('waterCapacityL')}
+                  unit="L"
+                  inputMode="decimal"
+                  readOnly={!!selectedType}
+                  className={cn(selectedType && '[&_input]:bg-surface-sunken')}
+                />
+              )}
             </Field>
           </CardBody>
         </Card>
@@ -146,7 +170,8 @@ export function CylinderCheck({ site, cylinderTypes, gases }: { site: CheckSiteI
             {liquefied ? (
               <>
                 <Alert tone="info" title="Weigh it: the gauge does not show the contents">
-                  While liquid remains, the gauge shows only the vapour pressure, which stays the same until the cylinder is nearly empty. Only the weight tells how much is left.
+                  While liquid remains, the gauge shows only the vapour pressure, which stays the same until the cylinder is nearly empty. Only the weight tells
+                  how much is left.
                 </Alert>
                 <div className="grid grid-cols-2 gap-3">
                   <NumberField label="Gross weight" unit={mUnit} error={errors.gross} reg={register('gross')} />
@@ -156,9 +181,20 @@ export function CylinderCheck({ site, cylinderTypes, gases }: { site: CheckSiteI
             ) : (
               <NumberField label="Gauge reading" unit={pUnit} error={errors.gauge} reg={register('gauge')} large />
             )}
-            <NumberField label="Gas temperature" unit={tUnit} error={errors.temperature} reg={register('temperature')} hint={`The store is usually ${defaultTemperature(site)} ${tUnit}. A cylinder brought in from the cold takes hours to warm.`} />
+            <NumberField
+              label="Gas temperature"
+              unit={tUnit}
+              error={errors.temperature}
+              reg={register('temperature')}
+              hint={`The store is usually ${defaultTemperature(site)} ${tUnit}. A cylinder brought in from the cold takes hours to warm.`}
+            />
             {temperatureWarnings.map((c) => (
-              <Alert key={c} tone={/hypoxic/i.test(c) && /condense/i.test(c) ? 'critical' : 'warn'} title={/condense/i.test(c) ? 'The mixture may have separated' : 'Storage temperature'} role="alert">
+              <Alert
+                key={c}
+                tone={/hypoxic/i.test(c) && /condense/i.test(c) ? 'critical' : 'warn'}
+                title={/condense/i.test(c) ? 'The mixture may have separated' : 'Storage temperature'}
+                role="alert"
+              >
                 {c}
               </Alert>
             ))}
@@ -176,14 +212,27 @@ export function CylinderCheck({ site, cylinderTypes, gases }: { site: CheckSiteI
                   type="button"
                   aria-pressed={values.flowLMin === String(f)}
                   onClick={() => setValue('flowLMin', String(f), { shouldDirty: true })}
-                  className={cn('min-h-11 min-w-14 rounded-lg border px-3 font-bold', values.flowLMin === String(f) ? 'border-primary bg-primary text-primary-fg' : 'border-line-strong bg-surface text-primary hover:bg-primary-soft')}
+                  className={cn(
+                    'min-h-11 min-w-14 rounded-lg border px-3 font-bold',
+                    values.flowLMin === String(f)
+                      ? 'border-primary bg-primary text-primary-fg'
+                      : 'border-line-strong bg-surface text-primary hover:bg-primary-soft',
+                  )}
                 >
                   {f}
                   <span className="sr-only"> litres per minute</span>
                 </button>
               ))}
             </div>
-            {!liquefied && <NumberField label="Change the cylinder at" unit={pUnit} error={errors.reserve} reg={register('reserve')} hint="The reserve your local practice keeps (gauge). Blank: 200 psi (13.8 bar), the residual US EMS guidance keeps; 0 runs the time to empty." />}
+            {!liquefied && (
+              <NumberField
+                label="Change the cylinder at"
+                unit={pUnit}
+                error={errors.reserve}
+                reg={register('reserve')}
+                hint="The reserve your local practice keeps (gauge). Blank: 200 psi (13.8 bar), the residual US EMS guidance keeps; 0 runs the time to empty."
+              />
+            )}
           </CardBody>
         </Card>
       </form>
@@ -218,10 +267,33 @@ export function CylinderCheck({ site, cylinderTypes, gases }: { site: CheckSiteI
   );
 }
 
-function NumberField({ label, unit, error, reg, hint, large = false }: { label: string; unit: string; error?: string; reg: UseFormRegisterReturn; hint?: ReactNode; large?: boolean }) {
+function NumberField({
+  label,
+  unit,
+  error,
+  reg,
+  hint,
+  large = false,
+}: {
+  label: string;
+  unit: string;
+  error?: string;
+  reg: UseFormRegisterReturn;
+  hint?: ReactNode;
+  large?: boolean;
+}) {
   return (
     <Field label={label} error={error} hint={hint}>
-      {(c) => <UnitInput {...c} {...reg} unit={unit} inputMode="decimal" autoComplete="off" className={cn(large && '[&_input]:min-h-14 [&_input]:text-2xl [&_input]:font-bold')} />}
+      {(c) => (
+        <UnitInput
+          {...c}
+          {...reg}
+          unit={unit}
+          inputMode="decimal"
+          autoComplete="off"
+          className={cn(large && '[&_input]:min-h-14 [&_input]:text-2xl [&_input]:font-bold')}
+        />
+      )}
     </Field>
   );
 }
@@ -244,7 +316,10 @@ function volume(l: number, us: boolean): string {
 
 function StickyTime({ r }: { r: CompressedCheck | LiquefiedCheck }) {
   return (
-    <div className="fixed inset-x-0 bottom-0 z-30 border-t-2 border-primary bg-surface px-4 py-2 shadow-[0_-4px_12px_rgb(0_0_0/0.08)] lg:hidden" aria-hidden="true">
+    <div
+      className="fixed inset-x-0 bottom-0 z-30 border-t-2 border-primary bg-surface px-4 py-2 shadow-[0_-4px_12px_rgb(0_0_0/0.08)] lg:hidden"
+      aria-hidden="true"
+    >
       <p className="text-xs font-bold text-fg-muted uppercase">Time remaining at {formatNumber(r.flowLMin, 1)} L/min</p>
       <p className="text-3xl font-black tabular">{formatDurationMinutes(r.minutes)}</p>
     </div>
@@ -268,7 +343,11 @@ function Results({ r, fillPressureBar, shownAbove }: { r: CompressedCheck | Liqu
           </p>
           <p className="mt-1 text-fg-muted">
             at {formatNumber(r.flowLMin, 1)} L/min
-            {r.kind === 'compressed' ? (r.reserveBar > 0 ? `, until the gauge reads ${pressure(r.reserveBar)}${r.reserveBasis ? ` (default: ${r.reserveBasis})` : ''}` : ', until empty') : ', until the cylinder is empty'}
+            {r.kind === 'compressed'
+              ? r.reserveBar > 0
+                ? `, until the gauge reads ${pressure(r.reserveBar)}${r.reserveBasis ? ` (default: ${r.reserveBasis})` : ''}`
+                : ', until empty'
+              : ', until the cylinder is empty'}
             {clock && !noGas && (
               <>
                 {' '}
@@ -295,7 +374,11 @@ function Results({ r, fillPressureBar, shownAbove }: { r: CompressedCheck | Liqu
         </div>
       )}
 
-      {r.kind === 'compressed' ? <CompressedDetails r={r} fillPressureBar={fillPressureBar} refT={refT} pressure={pressure} /> : <LiquefiedDetails r={r} pressure={pressure} />}
+      {r.kind === 'compressed' ? (
+        <CompressedDetails r={r} fillPressureBar={fillPressureBar} refT={refT} pressure={pressure} />
+      ) : (
+        <LiquefiedDetails r={r} pressure={pressure} />
+      )}
 
       {r.kind === 'compressed' && (
         <Card>
@@ -319,15 +402,25 @@ function Results({ r, fillPressureBar, shownAbove }: { r: CompressedCheck | Liqu
           <ul className="flex flex-col gap-1">
             <li>Gas: {gasLabel(r.gas)}</li>
             <li>Water capacity: {formatNumber(r.waterCapacityL, 1)} L</li>
-            {r.kind === 'compressed' ? <li>Gauge: {pressure(r.contents.gaugeBar)} ({formatNumber(r.contents.pressureBarAbs, 2)} bar absolute)</li> : <li>Contents by weight: {formatKg(r.contents.massKg)}</li>}
+            {r.kind === 'compressed' ? (
+              <li>
+                Gauge: {pressure(r.contents.gaugeBar)} ({formatNumber(r.contents.pressureBarAbs, 2)} bar absolute)
+              </li>
+            ) : (
+              <li>Contents by weight: {formatKg(r.contents.massKg)}</li>
+            )}
             <li>
               Gas temperature: {formatNumber(r.temperatureC, 1)} °C{u.us && ` (${formatNumber(celsiusToFahrenheit(r.temperatureC), 0)} °F)`}
             </li>
-            <li>Flow: {formatNumber(r.flowLMin, 1)} L/min{r.kind === 'compressed' && `; reserve ${pressure(r.reserveBar)}`}</li>
+            <li>
+              Flow: {formatNumber(r.flowLMin, 1)} L/min{r.kind === 'compressed' && `; reserve ${pressure(r.reserveBar)}`}
+            </li>
             <li>Atmospheric pressure at the site: {formatNumber(u.atmosphericBar, 4)} bar</li>
             <li>Free gas stated at {referenceLabel(u.reference)}</li>
           </ul>
-          <p className="mt-3 rounded-lg bg-surface-sunken px-3 py-2 font-mono text-xs">{r.kind === 'compressed' ? `real gas: ${r.method}; ideal: pV = nRT` : `contents: ${r.method}`}</p>
+          <p className="mt-3 rounded-lg bg-surface-sunken px-3 py-2 font-mono text-xs">
+            {r.kind === 'compressed' ? `real gas: ${r.method}; ideal: pV = nRT` : `contents: ${r.method}`}
+          </p>
         </CardBody>
       </Card>
     </>
@@ -344,7 +437,17 @@ function Stat({ label, value, note }: { label: string; value: ReactNode; note?: 
   );
 }
 
-function CompressedDetails({ r, fillPressureBar, refT, pressure }: { r: CompressedCheck; fillPressureBar: number | null; refT: string; pressure: (bar: number) => string }) {
+function CompressedDetails({
+  r,
+  fillPressureBar,
+  refT,
+  pressure,
+}: {
+  r: CompressedCheck;
+  fillPressureBar: number | null;
+  refT: string;
+  pressure: (bar: number) => string;
+}) {
   const c = r.contents;
   const diff = c.idealFreeGasL > 0 ? ((c.freeGasL - c.idealFreeGasL) / c.idealFreeGasL) * 100 : 0;
   const eqBar = r.units.us ? r.equivalentGauge * BAR_PER_PSI : r.equivalentGauge;
@@ -356,7 +459,11 @@ function CompressedDetails({ r, fillPressureBar, refT, pressure }: { r: Compress
       <CardBody className="flex flex-col gap-4">
         <dl className="grid gap-2 sm:grid-cols-2">
           <Stat label="Free gas (real gas)" value={volume(c.freeGasL, r.units.us)} note="down to atmospheric pressure" />
-          <Stat label="Ideal gas (pV = nRT)" value={volume(c.idealFreeGasL, r.units.us)} note={c.freeGasL > 0 ? `real gas is ${diff >= 0 ? '+' : ''}${formatNumber(diff, 1)} % on this` : undefined} />
+          <Stat
+            label="Ideal gas (pV = nRT)"
+            value={volume(c.idealFreeGasL, r.units.us)}
+            note={c.freeGasL > 0 ? `real gas is ${diff >= 0 ? '+' : ''}${formatNumber(diff, 1)} % on this` : undefined}
+          />
           <Stat label="Compressibility Z" value={formatSignificant(c.Z, 4)} note="Z = pV/(nRT); 1 for an ideal gas" />
           <Stat label="Gas mass" value={formatKg(c.massKg)} />
         </dl>
@@ -367,7 +474,12 @@ function CompressedDetails({ r, fillPressureBar, refT, pressure }: { r: Compress
             {tempDiffers ? (
               <>
                 A cylinder reads lower when cold and higher when warm, with the same gas inside.
-                {share !== null && fillPressureBar !== null && <> This is {formatNumber(share)} % of the {pressure(fillPressureBar)} fill.</>}
+                {share !== null && fillPressureBar !== null && (
+                  <>
+                    {' '}
+                    This is {formatNumber(share)} % of the {pressure(fillPressureBar)} fill.
+                  </>
+                )}
               </>
             ) : (
               'The gas is at the reference temperature: the reading needs no correction.'
@@ -388,9 +500,19 @@ function LiquefiedDetails({ r, pressure }: { r: LiquefiedCheck; pressure: (bar: 
         <dl className="grid gap-2 sm:grid-cols-2">
           <Stat label="Gas mass" value={formatKg(c.massKg)} note={r.units.us ? `${formatNumber(c.massKg / KG_PER_LB, 1)} lb` : undefined} />
           <Stat label="Free gas (real gas)" value={volume(c.freeGasL, r.units.us)} />
-          <Stat label="Liquid left" value={c.liquidPresent ? `yes, ${formatNumber(c.liquidVolumeFraction * 100)} % of the volume` : 'no'} note={c.liquidPresent ? 'the gauge stays at the vapour pressure' : 'the pressure now falls as gas is drawn'} />
+          <Stat
+            label="Liquid left"
+            value={c.liquidPresent ? `yes, ${formatNumber(c.liquidVolumeFraction * 100)} % of the volume` : 'no'}
+            note={c.liquidPresent ? 'the gauge stays at the vapour pressure' : 'the pressure now falls as gas is drawn'}
+          />
           <Stat label="Filling ratio" value={`${formatNumber(c.fillingRatioKgPerL, 3)} kg/L`} />
-          {c.pressureBarAbs !== null && <Stat label="Expected gauge" value={pressure(c.pressureBarAbs - r.units.atmosphericBar)} note={c.liquidPresent ? 'vapour pressure: it says nothing about the contents' : undefined} />}
+          {c.pressureBarAbs !== null && (
+            <Stat
+              label="Expected gauge"
+              value={pressure(c.pressureBarAbs - r.units.atmosphericBar)}
+              note={c.liquidPresent ? 'vapour pressure: it says nothing about the contents' : undefined}
+            />
+          )}
         </dl>
       </CardBody>
     </Card>

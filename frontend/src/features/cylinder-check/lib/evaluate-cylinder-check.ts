@@ -1,5 +1,13 @@
 import { InvalidInputError } from '@common/api/errors';
-import { DEFAULT_RESERVE_GAUGE_BAR, DEFAULT_RESERVE_SOURCE, compressedContents, cylinderDuration, liquefiedContents, type CompressedContents, type LiquefiedContents } from '@common/gas/contents';
+import {
+  DEFAULT_RESERVE_GAUGE_BAR,
+  DEFAULT_RESERVE_SOURCE,
+  compressedContents,
+  cylinderDuration,
+  liquefiedContents,
+  type CompressedContents,
+  type LiquefiedContents,
+} from '@common/gas/contents';
 import { methodFor } from '@common/gas/equations';
 import { GAS_INFO, MAX_PRESSURE_BAR_ABS, isGasCode, isLiquefiedGas, type GasCode, type LiquefiedGasCode } from '@common/gas/gases';
 import { mixtureCautions } from '@common/gas/mixture-cautions';
@@ -87,8 +95,7 @@ export interface LiquefiedCheck extends Common {
 }
 
 export type CheckOutcome =
-  | { ok: true; result: CompressedCheck | LiquefiedCheck }
-  | { ok: false; errors: Partial<Record<CheckField, string>>; missing: CheckField[]; general?: string };
+  { ok: true; result: CompressedCheck | LiquefiedCheck } | { ok: false; errors: Partial<Record<CheckField, string>>; missing: CheckField[]; general?: string };
 
 export function unitsFor(site: CheckSite): Units {
   const us = site.unitSystem === 'us';
@@ -156,13 +163,17 @@ export function evaluateCylinderCheck(values: CheckValues, site: CheckSite): Che
     return n;
   };
 
-  const waterCapacityL = need('waterCapacityL', 'Water capacity', (n) => (n <= 0 ? 'must be more than 0 L' : n > 150 ? 'above 150 L is not a cylinder: check the figure' : null));
+  const waterCapacityL = need('waterCapacityL', 'Water capacity', (n) =>
+    n <= 0 ? 'must be more than 0 L' : n > 150 ? 'above 150 L is not a cylinder: check the figure' : null,
+  );
   const temperatureTyped = need('temperature', 'Temperature', () => null);
   const temperatureC = Number.isFinite(temperatureTyped) ? (units.us ? fahrenheitToCelsius(temperatureTyped) : temperatureTyped) : NaN;
   if (Number.isFinite(temperatureC) && (temperatureC < -40 || temperatureC > 65)) {
     errors.temperature = units.us ? 'must be between −40 and 149 °F' : 'must be between −40 and 65 °C';
   }
-  const flowLMin = need('flowLMin', 'Flow', (n) => (n <= 0 ? 'must be more than 0 L/min' : n > MAX_FLOW_L_MIN ? `above ${MAX_FLOW_L_MIN} L/min: check the figure` : null));
+  const flowLMin = need('flowLMin', 'Flow', (n) =>
+    n <= 0 ? 'must be more than 0 L/min' : n > MAX_FLOW_L_MIN ? `above ${MAX_FLOW_L_MIN} L/min: check the figure` : null,
+  );
 
   const toBar = (p: number) => (units.us ? p * BAR_PER_PSI : p);
   const fromBar = (bar: number) => (units.us ? bar / BAR_PER_PSI : bar);
@@ -183,7 +194,9 @@ export function evaluateCylinderCheck(values: CheckValues, site: CheckSite): Che
       errors.gross = 'is less than the tare: weigh again, or check the stamped tare';
     }
   } else {
-    const gauge = need('gauge', 'Gauge reading', (n) => (n < 0 ? 'cannot be below 0 on the gauge' : n > maxGauge ? `above ${Math.round(maxGauge)} ${units.pressure}: check the reading` : null));
+    const gauge = need('gauge', 'Gauge reading', (n) =>
+      n < 0 ? 'cannot be below 0 on the gauge' : n > maxGauge ? `above ${Math.round(maxGauge)} ${units.pressure}: check the reading` : null,
+    );
     gaugeBar = toBar(gauge);
     // blank: the stated default residual (200 psi, 13.8 bar), shown beside the result
     reserveDefaulted = values.reserve.trim() === '';
@@ -198,7 +211,15 @@ export function evaluateCylinderCheck(values: CheckValues, site: CheckSite): Che
 
   try {
     if (liquefied) {
-      const input = { gas: gas as LiquefiedGasCode, grossKg, tareKg, waterCapacityL, temperatureC, atmosphericBar: units.atmosphericBar, reference: units.reference };
+      const input = {
+        gas: gas as LiquefiedGasCode,
+        grossKg,
+        tareKg,
+        waterCapacityL,
+        temperatureC,
+        atmosphericBar: units.atmosphericBar,
+        reference: units.reference,
+      };
       const contents = liquefiedContents(input);
       const duration = cylinderDuration({ ...input, flowLMin });
       return {
@@ -243,7 +264,11 @@ export function evaluateCylinderCheck(values: CheckValues, site: CheckSite): Che
           return { low: (duration.minutes * contents.Z) / zr.high, high: (duration.minutes * contents.Z) / zr.low, method: zr.method };
         })(),
         equivalentGauge: fromBar(contents.equivalentGaugeBarAtReferenceTemperature),
-        chart: contentsCurve({ gas, waterCapacityL, temperatureC, atmosphericBar: units.atmosphericBar, reference: units.reference }, toBar(roundUp(fromBar(Math.max(gaugeBar, 200)), units.us ? 500 : 50)), fromBar),
+        chart: contentsCurve(
+          { gas, waterCapacityL, temperatureC, atmosphericBar: units.atmosphericBar, reference: units.reference },
+          toBar(roundUp(fromBar(Math.max(gaugeBar, 200)), units.us ? 500 : 50)),
+          fromBar,
+        ),
       },
     };
   } catch (e) {
@@ -253,7 +278,9 @@ export function evaluateCylinderCheck(values: CheckValues, site: CheckSite): Che
         const field = ENGINE_PATH_TO_FIELD[d.path.split('.')[0]];
         if (field) fieldErrors[field] = d.message;
       }
-      return Object.keys(fieldErrors).length > 0 ? { ok: false, errors: fieldErrors, missing: [], general: e.message } : { ok: false, errors: {}, missing: [], general: e.message };
+      return Object.keys(fieldErrors).length > 0
+        ? { ok: false, errors: fieldErrors, missing: [], general: e.message }
+        : { ok: false, errors: {}, missing: [], general: e.message };
     }
     return { ok: false, errors: {}, missing: [], general: 'These values cannot be computed. Check them and try again.' };
   }
@@ -275,7 +302,8 @@ export function contentsCurve(
     const gaugeBar = (top * i) / (points - 1);
     try {
       const c = compressedContents({ ...input, gaugeBar });
-      if (Number.isFinite(c.freeGasL) && Number.isFinite(c.idealFreeGasL)) out.push({ pressure: fromBar(gaugeBar), realL: c.freeGasL, idealL: c.idealFreeGasL });
+      if (Number.isFinite(c.freeGasL) && Number.isFinite(c.idealFreeGasL))
+        out.push({ pressure: fromBar(gaugeBar), realL: c.freeGasL, idealL: c.idealFreeGasL });
     } catch {
       // a state the engine cannot compute (near condensation) is left out of the curve
     }

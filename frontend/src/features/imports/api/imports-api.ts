@@ -17,7 +17,12 @@ export function isBusy(status: ImportStatus | undefined): boolean {
 export const importsQueries = {
   all: () => ['imports'] as const,
   /** What can be uploaded: fixed by the server's release, fresh for an hour. */
-  kinds: () => queryOptions({ queryKey: [...importsQueries.all(), 'kinds'] as const, queryFn: ({ signal }) => api.get<ImportKinds>('/import-kinds', { signal }), staleTime: 3_600_000 }),
+  kinds: () =>
+    queryOptions({
+      queryKey: [...importsQueries.all(), 'kinds'] as const,
+      queryFn: ({ signal }) => api.get<ImportKinds>('/import-kinds', { signal }),
+      staleTime: 3_600_000,
+    }),
   /** The site's uploads: polled every 2 s while one of them is being checked or imported. */
   list: (siteId: number) =>
     queryOptions({
@@ -35,8 +40,18 @@ export const importsQueries = {
       refetchInterval: (q) => (isBusy(q.state.data?.status) ? 1_000 : false),
     }),
   /** Targets change when a facilities manager edits sources or wards: fresh for a minute. */
-  sources: (siteId: number) => queryOptions({ queryKey: [...importsQueries.all(), 'sources', siteId] as const, queryFn: ({ signal }) => api.get<TargetSource[]>(`/sites/${siteId}/sources`, { signal }), staleTime: 60_000 }),
-  wards: (siteId: number) => queryOptions({ queryKey: [...importsQueries.all(), 'wards', siteId] as const, queryFn: ({ signal }) => api.get<TargetWard[]>(`/sites/${siteId}/wards`, { signal }), staleTime: 60_000 }),
+  sources: (siteId: number) =>
+    queryOptions({
+      queryKey: [...importsQueries.all(), 'sources', siteId] as const,
+      queryFn: ({ signal }) => api.get<TargetSource[]>(`/sites/${siteId}/sources`, { signal }),
+      staleTime: 60_000,
+    }),
+  wards: (siteId: number) =>
+    queryOptions({
+      queryKey: [...importsQueries.all(), 'wards', siteId] as const,
+      queryFn: ({ signal }) => api.get<TargetWard[]>(`/sites/${siteId}/wards`, { signal }),
+      staleTime: 60_000,
+    }),
 };
 
 export interface UploadInput {

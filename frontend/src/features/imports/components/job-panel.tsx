@@ -76,7 +76,14 @@ export function ProgressBar({ job }: { job: ImportJob }) {
           {formatNumber(job.processedRows)} of {formatNumber(job.totalRows)} rows · {pct} %
         </span>
       </div>
-      <div role="progressbar" aria-label={what} aria-valuemin={0} aria-valuemax={100} aria-valuenow={pct} className="h-4 w-full overflow-hidden rounded-full border border-line-strong bg-surface-sunken">
+      <div
+        role="progressbar"
+        aria-label={what}
+        aria-valuemin={0}
+        aria-valuemax={100}
+        aria-valuenow={pct}
+        className="h-4 w-full overflow-hidden rounded-full border border-line-strong bg-surface-sunken"
+      >
         <div className="h-full bg-primary transition-[width] duration-700" style={{ width: `${Math.max(2, pct)}%` }} />
       </div>
     </div>
@@ -101,8 +108,18 @@ export function JobPanel({ id, onNew }: { id: number; onNew: () => void }) {
   const cancel = useCancel(id);
   const [askCancel, setAskCancel] = useState(false);
   const [problem, setProblem] = useState<string | null>(null);
-  if (q.isPending) return <Card><LoadingState label="Loading the upload…" /></Card>;
-  if (q.isError) return <Card><ErrorState error={q.error} onRetry={() => q.refetch()} /></Card>;
+  if (q.isPending)
+    return (
+      <Card>
+        <LoadingState label="Loading the upload…" />
+      </Card>
+    );
+  if (q.isError)
+    return (
+      <Card>
+        <ErrorState error={q.error} onRetry={() => q.refetch()} />
+      </Card>
+    );
   const job = q.data;
   const act = async (fn: () => Promise<unknown>) => {
     setProblem(null);
@@ -149,10 +166,21 @@ export function JobPanel({ id, onNew }: { id: number; onNew: () => void }) {
         {job.errors.length > 0 && (
           <div className="flex flex-col gap-2">
             <h3 className="text-base font-bold">
-              {job.errorCount > job.errors.length ? `The first ${job.errors.length} of ${formatNumber(job.errorCount)} errors` : `${job.errors.length} error${job.errors.length === 1 ? '' : 's'}`}
+              {job.errorCount > job.errors.length
+                ? `The first ${job.errors.length} of ${formatNumber(job.errorCount)} errors`
+                : `${job.errors.length} error${job.errors.length === 1 ? '' : 's'}`}
             </h3>
             <div className="hidden sm:block">
-              <Table caption="Errors in the file" head={['Row', 'Column', 'Value', 'What is wrong']} rows={job.errors.map((e) => [e.row ? formatNumber(e.row) : '–', e.column, e.value ? <code className="break-all">{e.value}</code> : <span className="text-fg-muted">(empty)</span>, e.reason])} />
+              <Table
+                caption="Errors in the file"
+                head={['Row', 'Column', 'Value', 'What is wrong']}
+                rows={job.errors.map((e) => [
+                  e.row ? formatNumber(e.row) : '–',
+                  e.column,
+                  e.value ? <code className="break-all">{e.value}</code> : <span className="text-fg-muted">(empty)</span>,
+                  e.reason,
+                ])}
+              />
             </div>
             {/* phones: one line of words per error instead of a four-column table */}
             <ul className="flex flex-col divide-y divide-line rounded-lg border border-line sm:hidden" aria-label="Errors in the file">
@@ -239,10 +267,18 @@ function Preview({ job }: { job: ImportJob }) {
         {p.targets.length ? ` · ${p.targets.map((t) => `${t.name}: ${formatNumber(t.rows)} rows`).join(' · ')}` : ''}
       </p>
       <div className="hidden sm:block">
-        <Table caption="Preview of the first rows" head={['Row', 'Time (site)', 'Goes to', 'Reading', 'Contents']} rows={p.rows.map((r) => [formatNumber(r.row), r.time, r.target ?? '', r.reading, r.contents ?? '–'])} />
+        <Table
+          caption="Preview of the first rows"
+          head={['Row', 'Time (site)', 'Goes to', 'Reading', 'Contents']}
+          rows={p.rows.map((r) => [formatNumber(r.row), r.time, r.target ?? '', r.reading, r.contents ?? '–'])}
+        />
       </div>
       <div className="sm:hidden">
-        <Table caption="Preview of the first rows" head={['Row', 'Time (site)', 'Reading']} rows={p.rows.map((r) => [formatNumber(r.row), r.time, `${r.reading}${r.contents ? ` = ${r.contents}` : ''}`])} />
+        <Table
+          caption="Preview of the first rows"
+          head={['Row', 'Time (site)', 'Reading']}
+          rows={p.rows.map((r) => [formatNumber(r.row), r.time, `${r.reading}${r.contents ? ` = ${r.contents}` : ''}`])}
+        />
       </div>
     </div>
   );
@@ -273,12 +309,24 @@ function MappingForm({ job, onDone }: { job: ImportJob; onDone?: () => void }) {
   const remap = useRemap(job.id);
   const sources = useQuery(importsQueries.sources(job.siteId));
   const wards = useQuery(importsQueries.wards(job.siteId));
-  const fitting = (sources.data ?? []).filter((x) => (job.kind === 'tank_readings' ? x.type === 'bulk_liquid' : job.kind === 'store_counts' ? x.type === 'cylinder_store' || x.type === 'emergency_reserve' : true));
+  const fitting = (sources.data ?? []).filter((x) =>
+    job.kind === 'tank_readings'
+      ? x.type === 'bulk_liquid'
+      : job.kind === 'store_counts'
+        ? x.type === 'cylinder_store' || x.type === 'emergency_reserve'
+        : true,
+  );
   const submit = async () => {
     setProblem(null);
     const clean = Object.fromEntries(Object.entries(mapping).filter(([, h]) => h));
     try {
-      await remap.mutateAsync({ mapping: clean, unit: unit || undefined, dateOrder, sourceId: target.startsWith('s') ? Number(target.slice(1)) : undefined, wardId: target.startsWith('w') ? Number(target.slice(1)) : undefined });
+      await remap.mutateAsync({
+        mapping: clean,
+        unit: unit || undefined,
+        dateOrder,
+        sourceId: target.startsWith('s') ? Number(target.slice(1)) : undefined,
+        wardId: target.startsWith('w') ? Number(target.slice(1)) : undefined,
+      });
       onDone?.();
     } catch (e) {
       setProblem(errorMessage(e));
@@ -318,11 +366,19 @@ function MappingForm({ job, onDone }: { job: ImportJob; onDone?: () => void }) {
           </Field>
         ))}
         {job.kind !== 'historic_usage' && (
-          <Field label={job.kind === 'tank_readings' ? 'Tank' : job.kind === 'store_counts' ? 'Cylinder store' : 'Meter on'} hint={job.kind === 'flow_meter_totals' ? 'The ward or source the meter measures.' : 'Used where the file has no Tank / Store column.'}>
+          <Field
+            label={job.kind === 'tank_readings' ? 'Tank' : job.kind === 'store_counts' ? 'Cylinder store' : 'Meter on'}
+            hint={job.kind === 'flow_meter_totals' ? 'The ward or source the meter measures.' : 'Used where the file has no Tank / Store column.'}
+          >
             {(p) => (
               <Select {...p} value={target} onChange={(e) => setTarget(e.target.value)}>
                 <option value="">{job.kind === 'flow_meter_totals' ? 'Choose…' : 'From the file'}</option>
-                {job.kind === 'flow_meter_totals' && (wards.data ?? []).map((w) => <option key={`w${w.id}`} value={`w${w.id}`}>{w.name}</option>)}
+                {job.kind === 'flow_meter_totals' &&
+                  (wards.data ?? []).map((w) => (
+                    <option key={`w${w.id}`} value={`w${w.id}`}>
+                      {w.name}
+                    </option>
+                  ))}
                 {fitting.map((x) => (
                   <option key={`s${x.id}`} value={`s${x.id}`}>
                     {x.name}

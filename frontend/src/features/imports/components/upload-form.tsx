@@ -20,8 +20,18 @@ const KIND_HELP: Record<ImportKind, string> = {
 
 /** Units offered when the file has no unit column. */
 function unitsFor(kind: ImportKind, calibrationUnit: string | null): { value: string; label: string }[] {
-  if (kind === 'tank_readings') return [{ value: '%', label: '% level' }, { value: 'kg', label: 'kg' }, { value: 'L', label: 'L of liquid' }, ...(calibrationUnit ? [{ value: calibrationUnit, label: `${calibrationUnit} (differential pressure)` }] : [])];
-  if (kind === 'flow_meter_totals' || kind === 'historic_usage') return [{ value: 'm3', label: 'm³ of free gas' }, { value: 'L', label: 'L of free gas' }];
+  if (kind === 'tank_readings')
+    return [
+      { value: '%', label: '% level' },
+      { value: 'kg', label: 'kg' },
+      { value: 'L', label: 'L of liquid' },
+      ...(calibrationUnit ? [{ value: calibrationUnit, label: `${calibrationUnit} (differential pressure)` }] : []),
+    ];
+  if (kind === 'flow_meter_totals' || kind === 'historic_usage')
+    return [
+      { value: 'm3', label: 'm³ of free gas' },
+      { value: 'L', label: 'L of free gas' },
+    ];
   return [];
 }
 
@@ -69,7 +79,10 @@ export function UploadForm({ siteId, maxMb, onUploaded }: { siteId: number; maxM
 
   return (
     <Card>
-      <CardHeader title="Upload a CSV file" description={`Comma or semicolon separated, UTF-8, up to ${maxMb} MB. Nothing is written until you have seen the check and confirmed.`} />
+      <CardHeader
+        title="Upload a CSV file"
+        description={`Comma or semicolon separated, UTF-8, up to ${maxMb} MB. Nothing is written until you have seen the check and confirmed.`}
+      />
       <CardBody>
         <form
           className="flex flex-col gap-4"
@@ -82,7 +95,11 @@ export function UploadForm({ siteId, maxMb, onUploaded }: { siteId: number; maxM
             <legend className="mb-1 text-sm font-bold">What the file holds</legend>
             <div className="grid gap-2 sm:grid-cols-2">
               {IMPORT_KINDS.map((k) => (
-                <label key={k} htmlFor={`import-kind-${k}`} className={`flex min-h-11 cursor-pointer gap-3 rounded-lg border p-3 ${k === kind ? 'border-primary bg-primary-soft' : 'border-line-strong bg-surface'}`}>
+                <label
+                  key={k}
+                  htmlFor={`import-kind-${k}`}
+                  className={`flex min-h-11 cursor-pointer gap-3 rounded-lg border p-3 ${k === kind ? 'border-primary bg-primary-soft' : 'border-line-strong bg-surface'}`}
+                >
                   <input
                     id={`import-kind-${k}`}
                     type="radio"
@@ -106,16 +123,41 @@ export function UploadForm({ siteId, maxMb, onUploaded }: { siteId: number; maxM
           </fieldset>
           <div className="grid gap-4 sm:grid-cols-3">
             {kind !== 'historic_usage' && (
-              <Field label={kind === 'tank_readings' ? 'Tank' : kind === 'store_counts' ? 'Cylinder store' : 'Meter on'} hint={kind === 'flow_meter_totals' ? 'The ward (or source) the meter measures.' : 'Or a Tank / Store column in the file.'}>
+              <Field
+                label={kind === 'tank_readings' ? 'Tank' : kind === 'store_counts' ? 'Cylinder store' : 'Meter on'}
+                hint={kind === 'flow_meter_totals' ? 'The ward (or source) the meter measures.' : 'Or a Tank / Store column in the file.'}
+              >
                 {(p) => (
                   <Select {...p} value={target} onChange={(e) => setTarget(e.target.value)}>
                     <option value="">{kind === 'flow_meter_totals' ? 'Choose…' : 'From the file'}</option>
-                    {kind === 'tank_readings' && tanks.map((s) => <option key={s.id} value={`s${s.id}`}>{s.name}</option>)}
-                    {kind === 'store_counts' && stores.map((s) => <option key={s.id} value={`s${s.id}`}>{s.name}</option>)}
+                    {kind === 'tank_readings' &&
+                      tanks.map((s) => (
+                        <option key={s.id} value={`s${s.id}`}>
+                          {s.name}
+                        </option>
+                      ))}
+                    {kind === 'store_counts' &&
+                      stores.map((s) => (
+                        <option key={s.id} value={`s${s.id}`}>
+                          {s.name}
+                        </option>
+                      ))}
                     {kind === 'flow_meter_totals' && (
                       <>
-                        <optgroup label="Wards">{(wards.data ?? []).map((w) => <option key={w.id} value={`w${w.id}`}>{w.name}</option>)}</optgroup>
-                        <optgroup label="Sources">{(sources.data ?? []).map((s) => <option key={s.id} value={`s${s.id}`}>{s.name}</option>)}</optgroup>
+                        <optgroup label="Wards">
+                          {(wards.data ?? []).map((w) => (
+                            <option key={w.id} value={`w${w.id}`}>
+                              {w.name}
+                            </option>
+                          ))}
+                        </optgroup>
+                        <optgroup label="Sources">
+                          {(sources.data ?? []).map((s) => (
+                            <option key={s.id} value={`s${s.id}`}>
+                              {s.name}
+                            </option>
+                          ))}
+                        </optgroup>
                       </>
                     )}
                   </Select>
@@ -146,7 +188,11 @@ export function UploadForm({ siteId, maxMb, onUploaded }: { siteId: number; maxM
               )}
             </Field>
           </div>
-          <Field label="CSV file" hint={file ? `${file.name}, ${formatBytes(file.size)}` : 'Exported from the telemetry portal or a spreadsheet.'} error={tooBig ? `This file is ${formatBytes(file!.size)}: above the ${maxMb} MB limit. Split it, e.g. one file per month.` : undefined}>
+          <Field
+            label="CSV file"
+            hint={file ? `${file.name}, ${formatBytes(file.size)}` : 'Exported from the telemetry portal or a spreadsheet.'}
+            error={tooBig ? `This file is ${formatBytes(file!.size)}: above the ${maxMb} MB limit. Split it, e.g. one file per month.` : undefined}
+          >
             {(p) => <Input {...p} type="file" accept=".csv,text/csv,text/plain" onChange={(e) => setFile(e.target.files?.[0] ?? null)} className="py-2" />}
           </Field>
           {problem && (
@@ -159,7 +205,11 @@ export function UploadForm({ siteId, maxMb, onUploaded }: { siteId: number; maxM
               <Icon name="upload" />
               Upload and check
             </Button>
-            <a href={templateUrl(siteId, kind)} download className="inline-flex min-h-11 items-center gap-2 rounded-lg px-3 font-bold text-primary underline-offset-4 hover:underline">
+            <a
+              href={templateUrl(siteId, kind)}
+              download
+              className="inline-flex min-h-11 items-center gap-2 rounded-lg px-3 font-bold text-primary underline-offset-4 hover:underline"
+            >
               <Icon name="download" />
               Template for {IMPORT_KIND_LABELS[kind].toLowerCase()}
             </a>

@@ -35,7 +35,19 @@ export function UploadsScreen({ siteId }: { siteId: number }) {
   return (
     <div className="grid gap-5 xl:grid-cols-[minmax(0,1fr)_22rem]">
       <div className="flex min-w-0 flex-col gap-5">
-        {jobId ? <JobPanel key={jobId} id={jobId} onNew={() => open(null)} /> : kinds.isPending ? <Card><LoadingState /></Card> : kinds.isError ? <Card><ErrorState error={kinds.error} onRetry={() => kinds.refetch()} /></Card> : <UploadForm siteId={siteId} maxMb={kinds.data.maxMb} onUploaded={(job) => open(job.id)} />}
+        {jobId ? (
+          <JobPanel key={jobId} id={jobId} onNew={() => open(null)} />
+        ) : kinds.isPending ? (
+          <Card>
+            <LoadingState />
+          </Card>
+        ) : kinds.isError ? (
+          <Card>
+            <ErrorState error={kinds.error} onRetry={() => kinds.refetch()} />
+          </Card>
+        ) : (
+          <UploadForm siteId={siteId} maxMb={kinds.data.maxMb} onUploaded={(job) => open(job.id)} />
+        )}
         <Card>
           <CardHeader title="Recent uploads" description="Checked and imported in the background; each keeps its file until it is imported or discarded." />
           {list.isPending ? (
@@ -48,7 +60,12 @@ export function UploadsScreen({ siteId }: { siteId: number }) {
             <ul className="divide-y divide-line">
               {list.data.map((j) => (
                 <li key={j.id}>
-                  <button type="button" onClick={() => open(j.id)} aria-current={j.id === jobId || undefined} className="flex min-h-14 w-full flex-wrap items-center justify-between gap-2 px-4 py-2 text-left hover:bg-primary-soft aria-[current]:bg-primary-soft sm:px-5">
+                  <button
+                    type="button"
+                    onClick={() => open(j.id)}
+                    aria-current={j.id === jobId || undefined}
+                    className="flex min-h-14 w-full flex-wrap items-center justify-between gap-2 px-4 py-2 text-left hover:bg-primary-soft aria-[current]:bg-primary-soft sm:px-5"
+                  >
                     <span className="min-w-0">
                       <span className="block truncate font-bold">{j.file?.name ?? `Upload ${j.id}`}</span>
                       <span className="block text-sm text-fg-muted">
@@ -69,7 +86,11 @@ export function UploadsScreen({ siteId }: { siteId: number }) {
         <ul className="divide-y divide-line">
           {EXPORT_TABLES.map((t) => (
             <li key={t}>
-              <a href={exportUrl(siteId, t)} download className="flex min-h-12 items-center justify-between gap-3 px-4 py-2 font-bold text-primary hover:bg-primary-soft sm:px-5">
+              <a
+                href={exportUrl(siteId, t)}
+                download
+                className="flex min-h-12 items-center justify-between gap-3 px-4 py-2 font-bold text-primary hover:bg-primary-soft sm:px-5"
+              >
                 {EXPORT_LABELS[t]}
                 <Icon name="download" />
               </a>

@@ -17,7 +17,12 @@ export const mailQueries = {
       placeholderData: keepPreviousData,
     }),
   /** A received message never changes. */
-  detail: (id: number) => queryOptions({ queryKey: [...mailQueries.all(), 'detail', id] as const, queryFn: ({ signal }) => api.get<MailMessageView>(`/mail/${id}`, { signal }), staleTime: Infinity }),
+  detail: (id: number) =>
+    queryOptions({
+      queryKey: [...mailQueries.all(), 'detail', id] as const,
+      queryFn: ({ signal }) => api.get<MailMessageView>(`/mail/${id}`, { signal }),
+      staleTime: Infinity,
+    }),
 };
 
 /** A plain link downloads the file with the session cookie; no script touches its bytes. */

@@ -23,21 +23,38 @@ export function MailList() {
   // the server lists newest first and does not sort otherwise: the headers are not sort buttons
   const columns = useMemo(
     () => [
-      col.accessor('receivedAt', { header: 'Received', enableSorting: false, cell: (info) => <span className="tabular sm:whitespace-nowrap">{formatDateTime(info.getValue())}</span> }),
+      col.accessor('receivedAt', {
+        header: 'Received',
+        enableSorting: false,
+        cell: (info) => <span className="tabular sm:whitespace-nowrap">{formatDateTime(info.getValue())}</span>,
+      }),
       col.accessor('subject', {
         header: 'Subject',
         enableSorting: false,
         cell: (info) => (
           <span>
-            <Link to={`/admin/mail/${info.row.original.id}`} className="inline-flex min-h-11 items-center font-bold text-primary underline-offset-2 hover:underline">
+            <Link
+              to={`/admin/mail/${info.row.original.id}`}
+              className="inline-flex min-h-11 items-center font-bold text-primary underline-offset-2 hover:underline"
+            >
               {info.getValue() || '(no subject)'}
             </Link>
             <span className="block text-xs wrap-anywhere text-fg-muted md:hidden">to {info.row.original.to}</span>
           </span>
         ),
       }),
-      col.accessor('to', { header: 'To', enableSorting: false, cell: (info) => <span className="wrap-anywhere">{info.getValue()}</span>, meta: { className: 'hidden md:table-cell' } }),
-      col.accessor('from', { header: 'From', enableSorting: false, cell: (info) => <span className="wrap-anywhere">{info.getValue()}</span>, meta: { className: 'hidden xl:table-cell' } }),
+      col.accessor('to', {
+        header: 'To',
+        enableSorting: false,
+        cell: (info) => <span className="wrap-anywhere">{info.getValue()}</span>,
+        meta: { className: 'hidden md:table-cell' },
+      }),
+      col.accessor('from', {
+        header: 'From',
+        enableSorting: false,
+        cell: (info) => <span className="wrap-anywhere">{info.getValue()}</span>,
+        meta: { className: 'hidden xl:table-cell' },
+      }),
       col.accessor('attachments', {
         header: 'Files',
         enableSorting: false,
@@ -53,7 +70,12 @@ export function MailList() {
             '–'
           ),
       }),
-      col.accessor('sizeBytes', { header: 'Size', enableSorting: false, meta: { numeric: true, className: 'hidden sm:table-cell' }, cell: (info) => formatBytes(info.getValue()) }),
+      col.accessor('sizeBytes', {
+        header: 'Size',
+        enableSorting: false,
+        meta: { numeric: true, className: 'hidden sm:table-cell' },
+        cell: (info) => formatBytes(info.getValue()),
+      }),
     ],
     [],
   );

@@ -85,7 +85,13 @@ function Message({ m }: { m: MailMessage }) {
             <div className="flex flex-col gap-2">
               <Alert tone="info">Shown in a locked frame: scripts, forms and links inside the message do not run.</Alert>
               {/* sandbox="" : no scripts, no same origin, no forms, no navigation */}
-              <iframe title={`Message: ${m.subject}`} sandbox="" srcDoc={m.html} referrerPolicy="no-referrer" className="h-[60vh] w-full rounded-lg border border-line bg-white" />
+              <iframe
+                title={`Message: ${m.subject}`}
+                sandbox=""
+                srcDoc={m.html}
+                referrerPolicy="no-referrer"
+                className="h-[60vh] w-full rounded-lg border border-line bg-white"
+              />
             </div>
           ) : (
             <p className="text-fg-muted">The message has no body.</p>

@@ -14,15 +14,40 @@ export const ordersQueries = {
   all: () => ['orders'] as const,
   /** Requests change when someone approves elsewhere: fresh for 15 s, refetched on focus. */
   requests: (p: RequestListParams) =>
-    queryOptions({ queryKey: [...ordersQueries.all(), 'requests', p] as const, queryFn: ({ signal }) => api.get<Page<RequestRow>>('/requests', { signal, query: { status: p.status, page: p.page, pageSize: 25 } }), staleTime: 15_000, placeholderData: keepPreviousData }),
-  request: (id: number) => queryOptions({ queryKey: [...ordersQueries.all(), 'request', id] as const, queryFn: ({ signal }) => api.get<RequestDetail>(`/requests/${id}`, { signal }), staleTime: 10_000 }),
+    queryOptions({
+      queryKey: [...ordersQueries.all(), 'requests', p] as const,
+      queryFn: ({ signal }) => api.get<Page<RequestRow>>('/requests', { signal, query: { status: p.status, page: p.page, pageSize: 25 } }),
+      staleTime: 15_000,
+      placeholderData: keepPreviousData,
+    }),
+  request: (id: number) =>
+    queryOptions({
+      queryKey: [...ordersQueries.all(), 'request', id] as const,
+      queryFn: ({ signal }) => api.get<RequestDetail>(`/requests/${id}`, { signal }),
+      staleTime: 10_000,
+    }),
   orders: (p: RequestListParams) =>
-    queryOptions({ queryKey: [...ordersQueries.all(), 'orders', p] as const, queryFn: ({ signal }) => api.get<Page<OrderRow>>('/orders', { signal, query: { status: p.status, page: p.page, pageSize: 25 } }), staleTime: 15_000, placeholderData: keepPreviousData }),
+    queryOptions({
+      queryKey: [...ordersQueries.all(), 'orders', p] as const,
+      queryFn: ({ signal }) => api.get<Page<OrderRow>>('/orders', { signal, query: { status: p.status, page: p.page, pageSize: 25 } }),
+      staleTime: 15_000,
+      placeholderData: keepPreviousData,
+    }),
   /** An order's e-mail goes in the background: poll while it is queued. */
   order: (id: number) =>
-    queryOptions({ queryKey: [...ordersQueries.all(), 'order', id] as const, queryFn: ({ signal }) => api.get<OrderDetail>(`/orders/${id}`, { signal }), staleTime: 5_000, refetchInterval: (q) => (q.state.data?.status === 'approved' ? 5_000 : false) }),
+    queryOptions({
+      queryKey: [...ordersQueries.all(), 'order', id] as const,
+      queryFn: ({ signal }) => api.get<OrderDetail>(`/orders/${id}`, { signal }),
+      staleTime: 5_000,
+      refetchInterval: (q) => (q.state.data?.status === 'approved' ? 5_000 : false),
+    }),
   /** Spend moves only with orders and counts: a minute is fresh enough. */
-  spend: (siteId: number | null) => queryOptions({ queryKey: [...ordersQueries.all(), 'spend', siteId] as const, queryFn: ({ signal }) => api.get<SpendReport>('/spend', { signal, query: { siteId } }), staleTime: 60_000 }),
+  spend: (siteId: number | null) =>
+    queryOptions({
+      queryKey: [...ordersQueries.all(), 'spend', siteId] as const,
+      queryFn: ({ signal }) => api.get<SpendReport>('/spend', { signal, query: { siteId } }),
+      staleTime: 60_000,
+    }),
 };
 
 export function spendCsvUrl(siteId: number | null): string {
@@ -45,7 +70,12 @@ export function useRequestDecision(id: number) {
   const qc = useQueryClient();
   return useMutation({
     mutationFn: (d: Decision) => {
-      const body = d.kind === 'cancel' ? { reason: d.reason ?? '', version: d.version } : d.kind === 'submit' ? { version: d.version } : { comment: d.comment ?? '', version: d.version };
+      const body =
+        d.kind === 'cancel'
+          ? { reason: d.reason ?? '', version: d.version }
+          : d.kind === 'submit'
+            ? { version: d.version }
+            : { comment: d.comment ?? '', version: d.version };
       return api.post<RequestDetail>(`/requests/${id}/${d.kind}`, { ...body, idempotencyKey: d.key });
     },
     onSuccess: async (data) => {

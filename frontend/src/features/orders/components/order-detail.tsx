@@ -72,10 +72,18 @@ export function OrderDetailView({ id }: { id: number }) {
               </div>
             </dl>
             <div className="flex flex-wrap gap-2">
-              <a className="inline-flex min-h-11 items-center gap-2 rounded-lg border border-line-strong px-4 font-bold text-primary hover:bg-primary-soft" href={orderPdfUrl(o.id)} target="_blank" rel="noreferrer">
+              <a
+                className="inline-flex min-h-11 items-center gap-2 rounded-lg border border-line-strong px-4 font-bold text-primary hover:bg-primary-soft"
+                href={orderPdfUrl(o.id)}
+                target="_blank"
+                rel="noreferrer"
+              >
                 <Icon name="paperclip" /> Open the PDF
               </a>
-              <a className="inline-flex min-h-11 items-center gap-2 rounded-lg border border-line-strong px-4 font-bold text-primary hover:bg-primary-soft" href={orderPdfUrl(o.id, true)}>
+              <a
+                className="inline-flex min-h-11 items-center gap-2 rounded-lg border border-line-strong px-4 font-bold text-primary hover:bg-primary-soft"
+                href={orderPdfUrl(o.id, true)}
+              >
                 <Icon name="download" /> Download
               </a>
               <Link className="inline-flex min-h-11 items-center px-2 font-bold text-primary underline" to={`/orders/requests/${o.request.id}`}>
@@ -89,7 +97,14 @@ export function OrderDetailView({ id }: { id: number }) {
           <CardBody className="flex flex-col gap-2">
             {o.emails.map((e) => (
               <div key={e.id} className="text-sm">
-                <span className="font-bold">{e.status === 'sent' ? `Sent ${formatDateTime(e.sentAt)}` : e.status === 'failed' ? 'Failed: an administrator can send it again' : `Queued${e.attempts ? ` (attempt ${e.attempts + 1} at ${formatDateTime(e.nextAttemptAt)})` : ''}`}</span> to {e.to}
+                <span className="font-bold">
+                  {e.status === 'sent'
+                    ? `Sent ${formatDateTime(e.sentAt)}`
+                    : e.status === 'failed'
+                      ? 'Failed: an administrator can send it again'
+                      : `Queued${e.attempts ? ` (attempt ${e.attempts + 1} at ${formatDateTime(e.nextAttemptAt)})` : ''}`}
+                </span>{' '}
+                to {e.to}
                 {e.cc && `, copy to ${e.cc}`}
                 {e.lastError && e.status !== 'sent' && <div className="text-critical">{e.lastError}</div>}
               </div>
@@ -109,7 +124,8 @@ export function OrderDetailView({ id }: { id: number }) {
               <div>
                 <dt className="text-sm text-fg-muted">Delivered</dt>
                 <dd className="font-bold">
-                  {formatOrderQuantity(o.delivery.quantity, o.delivery.unit)} of {formatOrderQuantity(o.quantity, o.unit)} · {formatDateTime(o.delivery.deliveredAt)}
+                  {formatOrderQuantity(o.delivery.quantity, o.delivery.unit)} of {formatOrderQuantity(o.quantity, o.unit)} ·{' '}
+                  {formatDateTime(o.delivery.deliveredAt)}
                 </dd>
               </div>
               <div>
@@ -163,9 +179,15 @@ function DeliveryForm({ o }: { o: OrderDetail }) {
           <Field label="Delivery-note number">{(c) => <Input {...c} value={note} onChange={(e) => setNote(e.target.value)} required maxLength={60} />}</Field>
           <Field label="Delivered at">{(c) => <Input {...c} type="datetime-local" value={at} onChange={(e) => setAt(e.target.value)} required />}</Field>
           <Field label={`Delivered (${o.unit === 'kg' ? 'kg' : 'cylinders'})`} hint={`Ordered: ${formatOrderQuantity(o.quantity, o.unit)}`}>
-            {(c) => <Input {...c} type="number" min={0} step={o.unit === 'kg' ? 'any' : 1} value={quantity} onChange={(e) => setQuantity(e.target.value)} required />}
+            {(c) => (
+              <Input {...c} type="number" min={0} step={o.unit === 'kg' ? 'any' : 1} value={quantity} onChange={(e) => setQuantity(e.target.value)} required />
+            )}
           </Field>
-          {o.unit === 'cylinders' && <Field label="Empty cylinders collected">{(c) => <Input {...c} type="number" min={0} step={1} value={empties} onChange={(e) => setEmpties(e.target.value)} />}</Field>}
+          {o.unit === 'cylinders' && (
+            <Field label="Empty cylinders collected">
+              {(c) => <Input {...c} type="number" min={0} step={1} value={empties} onChange={(e) => setEmpties(e.target.value)} />}
+            </Field>
+          )}
           {short && <Alert tone="warn">A short delivery closes the order in part; if the source still runs low, Plenum raises a new request.</Alert>}
           <div>
             <Button type="submit" busy={record.isPending}>

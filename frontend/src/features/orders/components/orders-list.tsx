@@ -29,17 +29,50 @@ export function OrdersList() {
         header: 'Order',
         enableSorting: false,
         cell: (i) => (
-          <Link to={`/orders/purchase-orders/${i.row.original.id}`} className="inline-flex min-h-11 items-center font-bold text-primary underline-offset-2 hover:underline">
+          <Link
+            to={`/orders/purchase-orders/${i.row.original.id}`}
+            className="inline-flex min-h-11 items-center font-bold text-primary underline-offset-2 hover:underline"
+          >
             {i.getValue()}
           </Link>
         ),
       }),
-      col.accessor('sourceName', { header: 'For', enableSorting: false, cell: (i) => <span><span className="font-bold">{i.getValue()}</span><span className="block text-xs text-fg-muted">{i.row.original.siteName} · {i.row.original.description}</span></span> }),
+      col.accessor('sourceName', {
+        header: 'For',
+        enableSorting: false,
+        cell: (i) => (
+          <span>
+            <span className="font-bold">{i.getValue()}</span>
+            <span className="block text-xs text-fg-muted">
+              {i.row.original.siteName} · {i.row.original.description}
+            </span>
+          </span>
+        ),
+      }),
       col.accessor('supplierName', { header: 'Supplier', enableSorting: false, meta: { className: 'hidden lg:table-cell' } }),
-      col.accessor('quantity', { header: 'Quantity', enableSorting: false, meta: { numeric: true }, cell: (i) => formatOrderQuantity(i.getValue(), i.row.original.unit) }),
-      col.accessor('totalMinor', { header: 'Total', enableSorting: false, meta: { numeric: true }, cell: (i) => formatMoney(i.getValue(), i.row.original.currency) }),
-      col.accessor('windowStart', { header: 'Delivery from', enableSorting: false, meta: { className: 'hidden md:table-cell' }, cell: (i) => <span className="tabular">{formatDateTime(i.getValue())}</span> }),
-      col.accessor('status', { header: 'Status', enableSorting: false, cell: (i) => <OrderStatusBadge status={i.getValue()} text={i.row.original.statusText} /> }),
+      col.accessor('quantity', {
+        header: 'Quantity',
+        enableSorting: false,
+        meta: { numeric: true },
+        cell: (i) => formatOrderQuantity(i.getValue(), i.row.original.unit),
+      }),
+      col.accessor('totalMinor', {
+        header: 'Total',
+        enableSorting: false,
+        meta: { numeric: true },
+        cell: (i) => formatMoney(i.getValue(), i.row.original.currency),
+      }),
+      col.accessor('windowStart', {
+        header: 'Delivery from',
+        enableSorting: false,
+        meta: { className: 'hidden md:table-cell' },
+        cell: (i) => <span className="tabular">{formatDateTime(i.getValue())}</span>,
+      }),
+      col.accessor('status', {
+        header: 'Status',
+        enableSorting: false,
+        cell: (i) => <OrderStatusBadge status={i.getValue()} text={i.row.original.statusText} />,
+      }),
     ],
     [],
   );
@@ -63,8 +96,21 @@ export function OrdersList() {
         <ErrorState error={list.error} onRetry={() => list.refetch()} />
       ) : (
         <>
-          <DataTable caption="Purchase orders" columns={columns} data={list.data.items} getRowId={(r) => String(r.id)} sorting={[]} empty={<EmptyState title="No purchase orders yet">An approved request becomes a numbered purchase order, e-mailed to the supplier.</EmptyState>} />
-          <Pagination page={list.data.page} pageSize={list.data.pageSize} total={list.data.total} onPage={(p) => setSearch({ status: params.status, page: String(p) })} busy={list.isPlaceholderData} />
+          <DataTable
+            caption="Purchase orders"
+            columns={columns}
+            data={list.data.items}
+            getRowId={(r) => String(r.id)}
+            sorting={[]}
+            empty={<EmptyState title="No purchase orders yet">An approved request becomes a numbered purchase order, e-mailed to the supplier.</EmptyState>}
+          />
+          <Pagination
+            page={list.data.page}
+            pageSize={list.data.pageSize}
+            total={list.data.total}
+            onPage={(p) => setSearch({ status: params.status, page: String(p) })}
+            busy={list.isPlaceholderData}
+          />
         </>
       )}
     </Card>

@@ -12,7 +12,17 @@ export function OrdersTabs() {
   return (
     <nav aria-label="Orders" className="flex flex-wrap gap-1 border-b border-line">
       {TABS.map((t) => (
-        <NavLink key={t.to} to={t.to} end={t.end} className={({ isActive }) => cn('-mb-px inline-flex min-h-11 items-center border-b-2 px-4 font-bold', isActive ? 'border-primary text-primary' : 'border-transparent text-fg-muted hover:text-primary')}>
+        <NavLink
+          key={t.to}
+          to={t.to}
+          end={t.end}
+          className={({ isActive }) =>
+            cn(
+              '-mb-px inline-flex min-h-11 items-center border-b-2 px-4 font-bold',
+              isActive ? 'border-primary text-primary' : 'border-transparent text-fg-muted hover:text-primary',
+            )
+          }
+        >
           {t.label}
         </NavLink>
       ))}

@@ -32,13 +32,19 @@ export function RequestDetailView({ id }: { id: number }) {
     <div className="grid gap-5 lg:grid-cols-[minmax(0,3fr)_minmax(0,2fr)]">
       <div className="flex flex-col gap-5">
         <Card>
-          <CardHeader title={`${r.reference} · ${r.sourceName}`} description={`${r.siteName} · ${r.description}`} actions={<OrderStatusBadge status={r.status} text={r.statusText} />} />
+          <CardHeader
+            title={`${r.reference} · ${r.sourceName}`}
+            description={`${r.siteName} · ${r.description}`}
+            actions={<OrderStatusBadge status={r.status} text={r.statusText} />}
+          />
           <CardBody>
             <dl className="grid grid-cols-2 gap-4 sm:grid-cols-3">
               <Fact label="Quantity">{formatOrderQuantity(r.quantity, r.unit)}</Fact>
               <Fact label="Suggested">{formatOrderQuantity(r.suggestedQuantity, r.unit)}</Fact>
               <Fact label="Total">{r.totalMinor === null ? 'no price' : formatMoney(r.totalMinor, r.currency)}</Fact>
-              <Fact label="Unit price">{r.unitPriceMinor === null ? '–' : `${formatMoney(r.unitPriceMinor, r.currency)} per ${r.unit === 'kg' ? 'kg' : 'cylinder'}`}</Fact>
+              <Fact label="Unit price">
+                {r.unitPriceMinor === null ? '–' : `${formatMoney(r.unitPriceMinor, r.currency)} per ${r.unit === 'kg' ? 'kg' : 'cylinder'}`}
+              </Fact>
               <Fact label="Supplier">{r.supplierName ?? '–'}</Fact>
               <Fact label="Needed by">{formatDateTime(r.neededBy)}</Fact>
               {r.trigger?.daysOfStock !== undefined && <Fact label="Days of stock when raised">{formatDays(r.trigger.daysOfStock)}</Fact>}
@@ -114,7 +120,13 @@ function DecisionPanel({ r }: { r: RequestDetail }) {
           setError(null);
           setComment('');
           setKey(newIdempotencyKey(`req-${r.id}`));
-          toast.ok(kind === 'approve' ? (d.status === 'approved' ? `Approved: ${d.order?.poNumber ?? 'order'} is on its way to the supplier` : 'First approval recorded: a second officer must approve') : `Request ${kind === 'submit' ? 'submitted' : kind === 'reject' ? 'rejected' : 'cancelled'}`);
+          toast.ok(
+            kind === 'approve'
+              ? d.status === 'approved'
+                ? `Approved: ${d.order?.poNumber ?? 'order'} is on its way to the supplier`
+                : 'First approval recorded: a second officer must approve'
+              : `Request ${kind === 'submit' ? 'submitted' : kind === 'reject' ? 'rejected' : 'cancelled'}`,
+          );
         },
         onError: (e) => setError(isApiError(e) ? e.message : errorMessage(e)),
       },
@@ -124,7 +136,10 @@ function DecisionPanel({ r }: { r: RequestDetail }) {
   return (
     <div className="flex flex-col gap-5">
       <Card>
-        <CardHeader title="Decision" description={r.myApprovalLimit ? `Your approval limit: ${formatMoney(r.myApprovalLimit.limitMinor, r.myApprovalLimit.currency)}` : undefined} />
+        <CardHeader
+          title="Decision"
+          description={r.myApprovalLimit ? `Your approval limit: ${formatMoney(r.myApprovalLimit.limitMinor, r.myApprovalLimit.currency)}` : undefined}
+        />
         <CardBody className="flex flex-col gap-4">
           {r.approvals.length > 0 && (
             <Alert tone="info" title="Approvals so far">
@@ -176,16 +191,32 @@ function DecisionPanel({ r }: { r: RequestDetail }) {
       </Card>
       {a.changeQuantity.allowed && (
         <Card>
-          <CardHeader title="Change the quantity" description={`Suggested: ${formatOrderQuantity(r.suggestedQuantity, r.unit)}. A change clears approvals given so far.`} />
+          <CardHeader
+            title="Change the quantity"
+            description={`Suggested: ${formatOrderQuantity(r.suggestedQuantity, r.unit)}. A change clears approvals given so far.`}
+          />
           <CardBody>
             <form
               className="flex flex-col gap-3"
               onSubmit={(e) => {
                 e.preventDefault();
-                change.mutate({ quantity: Number(quantity), reason, version: r.version }, { onSuccess: () => { setReason(''); toast.ok('Quantity changed'); }, onError: (err) => toast.error(errorMessage(err)) });
+                change.mutate(
+                  { quantity: Number(quantity), reason, version: r.version },
+                  {
+                    onSuccess: () => {
+                      setReason('');
+                      toast.ok('Quantity changed');
+                    },
+                    onError: (err) => toast.error(errorMessage(err)),
+                  },
+                );
               }}
             >
-              <Field label={`Quantity (${r.unit})`}>{(c) => <Input {...c} type="number" min={0} step={r.unit === 'kg' ? 1 : 1} value={quantity} onChange={(e) => setQuantity(e.target.value)} required />}</Field>
+              <Field label={`Quantity (${r.unit})`}>
+                {(c) => (
+                  <Input {...c} type="number" min={0} step={r.unit === 'kg' ? 1 : 1} value={quantity} onChange={(e) => setQuantity(e.target.value)} required />
+                )}
+              </Field>
               <Field label="Reason">{(c) => <Input {...c} value={reason} onChange={(e) => setReason(e.target.value)} minLength={3} required />}</Field>
               <div>
                 <Button type="submit" variant="secondary" busy={change.isPending}>

@@ -44,10 +44,15 @@ export function RequestsList({ canScan }: { canScan: boolean }) {
         enableSorting: false,
         cell: (i) => (
           <span>
-            <Link to={`/orders/requests/${i.row.original.id}`} className="inline-flex min-h-11 items-center font-bold text-primary underline-offset-2 hover:underline">
+            <Link
+              to={`/orders/requests/${i.row.original.id}`}
+              className="inline-flex min-h-11 items-center font-bold text-primary underline-offset-2 hover:underline"
+            >
               {i.getValue()}
             </Link>
-            <span className="block text-xs text-fg-muted">{i.row.original.origin === 'auto' ? 'Raised by Plenum' : `By ${i.row.original.requestedBy?.name ?? 'hand'}`}</span>
+            <span className="block text-xs text-fg-muted">
+              {i.row.original.origin === 'auto' ? 'Raised by Plenum' : `By ${i.row.original.requestedBy?.name ?? 'hand'}`}
+            </span>
           </span>
         ),
       }),
@@ -63,10 +68,29 @@ export function RequestsList({ canScan }: { canScan: boolean }) {
           </span>
         ),
       }),
-      col.accessor('quantity', { header: 'Quantity', enableSorting: false, meta: { numeric: true }, cell: (i) => formatOrderQuantity(i.getValue(), i.row.original.unit) }),
-      col.accessor('totalMinor', { header: 'Total', enableSorting: false, meta: { numeric: true }, cell: (i) => (i.getValue() === null ? <span className="text-fg-muted">no price</span> : formatMoney(i.getValue(), i.row.original.currency)) }),
-      col.accessor('status', { header: 'Status', enableSorting: false, cell: (i) => <OrderStatusBadge status={i.getValue()} text={i.row.original.statusText} /> }),
-      col.accessor('createdAt', { header: 'Raised', enableSorting: false, meta: { className: 'hidden md:table-cell' }, cell: (i) => <span className="tabular">{formatDateTime(i.getValue())}</span> }),
+      col.accessor('quantity', {
+        header: 'Quantity',
+        enableSorting: false,
+        meta: { numeric: true },
+        cell: (i) => formatOrderQuantity(i.getValue(), i.row.original.unit),
+      }),
+      col.accessor('totalMinor', {
+        header: 'Total',
+        enableSorting: false,
+        meta: { numeric: true },
+        cell: (i) => (i.getValue() === null ? <span className="text-fg-muted">no price</span> : formatMoney(i.getValue(), i.row.original.currency)),
+      }),
+      col.accessor('status', {
+        header: 'Status',
+        enableSorting: false,
+        cell: (i) => <OrderStatusBadge status={i.getValue()} text={i.row.original.statusText} />,
+      }),
+      col.accessor('createdAt', {
+        header: 'Raised',
+        enableSorting: false,
+        meta: { className: 'hidden md:table-cell' },
+        cell: (i) => <span className="tabular">{formatDateTime(i.getValue())}</span>,
+      }),
       col.accessor('order', {
         header: 'Order',
         enableSorting: false,
@@ -103,7 +127,12 @@ export function RequestsList({ canScan }: { canScan: boolean }) {
             busy={scan.isPending}
             onClick={() =>
               scan.mutate(undefined, {
-                onSuccess: (r) => toast.ok(r.raised.length ? `${r.raised.length} new request${r.raised.length === 1 ? '' : 's'} raised from the forecast` : 'No source crosses its reorder level without an open request'),
+                onSuccess: (r) =>
+                  toast.ok(
+                    r.raised.length
+                      ? `${r.raised.length} new request${r.raised.length === 1 ? '' : 's'} raised from the forecast`
+                      : 'No source crosses its reorder level without an open request',
+                  ),
                 onError: (e) => toast.error(errorMessage(e)),
               })
             }
@@ -131,7 +160,13 @@ export function RequestsList({ canScan }: { canScan: boolean }) {
               </EmptyState>
             }
           />
-          <Pagination page={list.data.page} pageSize={list.data.pageSize} total={list.data.total} onPage={(p) => setSearch({ status: params.status, page: String(p) })} busy={list.isPlaceholderData} />
+          <Pagination
+            page={list.data.page}
+            pageSize={list.data.pageSize}
+            total={list.data.total}
+            onPage={(p) => setSearch({ status: params.status, page: String(p) })}
+            busy={list.isPlaceholderData}
+          />
         </>
       )}
     </Card>

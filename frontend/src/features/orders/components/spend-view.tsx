@@ -23,16 +23,45 @@ export function SpendView({ siteId }: { siteId: number | null }) {
   const data = q.data;
   const currency = data?.currencies[0] ?? 'GBP';
   const rows = useMemo(() => (data ? data.rows.filter((r) => r.currency === currency) : []), [data, currency]);
-  const byMonth = useMemo(() => (data ? data.months.map((month) => ({ month, orders: rows.filter((r) => r.month === month).reduce((s, r) => s + r.orderedMinor, 0) / 100, rental: rows.filter((r) => r.month === month).reduce((s, r) => s + r.rentalMinor, 0) / 100 })) : []), [data, rows]);
+  const byMonth = useMemo(
+    () =>
+      data
+        ? data.months.map((month) => ({
+            month,
+            orders: rows.filter((r) => r.month === month).reduce((s, r) => s + r.orderedMinor, 0) / 100,
+            rental: rows.filter((r) => r.month === month).reduce((s, r) => s + r.rentalMinor, 0) / 100,
+          }))
+        : [],
+    [data, rows],
+  );
   const gases = useMemo(() => [...new Set(rows.map((r) => r.gasCode))], [rows]);
-  const byMonthGas = useMemo(() => (data ? data.months.map((month) => Object.fromEntries([['month', month], ...gases.map((g) => [g, rows.filter((r) => r.month === month && r.gasCode === g).reduce((s, r) => s + r.orderedMinor + r.rentalMinor, 0) / 100])])) : []), [data, rows, gases]);
+  const byMonthGas = useMemo(
+    () =>
+      data
+        ? data.months.map((month) =>
+            Object.fromEntries([
+              ['month', month],
+              ...gases.map((g) => [g, rows.filter((r) => r.month === month && r.gasCode === g).reduce((s, r) => s + r.orderedMinor + r.rentalMinor, 0) / 100]),
+            ]),
+          )
+        : [],
+    [data, rows, gases],
+  );
   if (q.isPending) return <LoadingState label="Loading spend…" />;
   if (q.isError) return <ErrorState error={q.error} onRetry={() => q.refetch()} />;
   if (!rows.length) return <EmptyState title="No spend yet">Orders and cylinder rental appear here by month.</EmptyState>;
   const total = rows.reduce((s, r) => s + r.orderedMinor + r.rentalMinor, 0);
   const rental = rows.reduce((s, r) => s + r.rentalMinor, 0);
-  const bySupplier = sumBy(rows, (r) => r.supplierName, (r) => r.orderedMinor + r.rentalMinor);
-  const bySite = sumBy(rows, (r) => r.siteName, (r) => r.orderedMinor + r.rentalMinor);
+  const bySupplier = sumBy(
+    rows,
+    (r) => r.supplierName,
+    (r) => r.orderedMinor + r.rentalMinor,
+  );
+  const bySite = sumBy(
+    rows,
+    (r) => r.siteName,
+    (r) => r.orderedMinor + r.rentalMinor,
+  );
   const money = (v: number) => formatMoney(Math.round(v * 100), currency);
   return (
     <div className="flex flex-col gap-5">
@@ -41,13 +70,21 @@ export function SpendView({ siteId }: { siteId: number | null }) {
           {data!.from} to {data!.to}: {formatMoney(total, currency)} in all, of which cylinder rental {formatMoney(rental, currency)}. Amounts in {currency}
           {data!.currencies.length > 1 ? ` (other currencies are in the CSV)` : ''}.
         </p>
-        <a className="inline-flex min-h-11 items-center gap-2 rounded-lg border border-line-strong px-4 font-bold text-primary hover:bg-primary-soft" href={spendCsvUrl(siteId)}>
+        <a
+          className="inline-flex min-h-11 items-center gap-2 rounded-lg border border-line-strong px-4 font-bold text-primary hover:bg-primary-soft"
+          href={spendCsvUrl(siteId)}
+        >
           <Icon name="download" /> Export CSV
         </a>
       </div>
       <Card>
         <CardBody>
-          <ChartFrame title="Spend by month" caption="Orders placed and cylinder rental (cylinders on site × days × the supplier’s daily rate)" summary={`Monthly spend from ${data!.from} to ${data!.to}; total ${formatMoney(total, currency)}.`} height={280}>
+          <ChartFrame
+            title="Spend by month"
+            caption="Orders placed and cylinder rental (cylinders on site × days × the supplier’s daily rate)"
+            summary={`Monthly spend from ${data!.from} to ${data!.to}; total ${formatMoney(total, currency)}.`}
+            height={280}
+          >
             <ResponsiveContainer width="100%" height="100%">
               <BarChart data={byMonth} margin={{ top: 8, right: 8, bottom: 0, left: 8 }}>
                 <CartesianGrid strokeDasharray="3 3" vertical={false} />
@@ -90,12 +127,14 @@ export function SpendView({ siteId }: { siteId: number | null }) {
             <CardBody>
               <table className="w-full tabular">
                 <tbody>
-                  {[...(m as Map<string, number>)].sort((a, b) => b[1] - a[1]).map(([k, v]) => (
-                    <tr key={k} className="border-t border-line">
-                      <td className="py-2">{k}</td>
-                      <td className="py-2 text-right font-bold">{formatMoney(v, currency)}</td>
-                    </tr>
-                  ))}
+                  {[...(m as Map<string, number>)]
+                    .sort((a, b) => b[1] - a[1])
+                    .map(([k, v]) => (
+                      <tr key={k} className="border-t border-line">
+                        <td className="py-2">{k}</td>
+                        <td className="py-2 text-right font-bold">{formatMoney(v, currency)}</td>
+                      </tr>
+                    ))}
                 </tbody>
               </table>
             </CardBody>

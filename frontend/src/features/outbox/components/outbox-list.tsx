@@ -18,7 +18,12 @@ import { OUTBOX_FILTERS, outboxListParams, outboxQueries, useRetryOutbox, type O
 
 const col = createColumnHelper<OutboxMessage>();
 
-const KIND_TEXT: Record<OutboxMessage['kind'], string> = { purchase_order: 'Purchase order', rejection: 'Rejection notice', alert: 'Stock alert', digest: 'Daily digest' };
+const KIND_TEXT: Record<OutboxMessage['kind'], string> = {
+  purchase_order: 'Purchase order',
+  rejection: 'Rejection notice',
+  alert: 'Stock alert',
+  digest: 'Daily digest',
+};
 
 const FILTER_TEXT: Record<OutboxFilter, string> = { all: 'All messages', attention: 'Needs attention', pending: 'Queued', failed: 'Failed', sent: 'Sent' };
 
@@ -96,13 +101,24 @@ export function OutboxList() {
           );
         },
       }),
-      col.accessor('attempts', { header: 'Attempts', enableSorting: false, meta: { numeric: true, className: 'hidden sm:table-cell' }, cell: (i) => <span className="tabular">{i.getValue()}</span> }),
-      col.accessor('nextAttemptAt', { header: 'Next try', enableSorting: false, meta: { className: 'hidden md:table-cell' }, cell: (i) => <NextTry m={i.row.original} /> }),
+      col.accessor('attempts', {
+        header: 'Attempts',
+        enableSorting: false,
+        meta: { numeric: true, className: 'hidden sm:table-cell' },
+        cell: (i) => <span className="tabular">{i.getValue()}</span>,
+      }),
+      col.accessor('nextAttemptAt', {
+        header: 'Next try',
+        enableSorting: false,
+        meta: { className: 'hidden md:table-cell' },
+        cell: (i) => <NextTry m={i.row.original} />,
+      }),
       col.accessor('lastError', {
         header: 'Last error',
         enableSorting: false,
         meta: { className: 'hidden lg:table-cell' },
-        cell: (i) => (i.getValue() ? <span className="block max-w-80 text-xs wrap-anywhere text-critical">{i.getValue()}</span> : <span className="text-fg-muted">–</span>),
+        cell: (i) =>
+          i.getValue() ? <span className="block max-w-80 text-xs wrap-anywhere text-critical">{i.getValue()}</span> : <span className="text-fg-muted">–</span>,
       }),
       col.display({
         id: 'actions',
@@ -117,7 +133,12 @@ export function OutboxList() {
                 size="sm"
                 busy={retry.isPending && retry.variables === m.id}
                 aria-label={`Retry “${m.subject}”`}
-                onClick={() => retry.mutate(m.id, { onSuccess: () => toast.ok('Queued again: it goes with the next pass of the mail worker.'), onError: (e) => toast.error(errorMessage(e)) })}
+                onClick={() =>
+                  retry.mutate(m.id, {
+                    onSuccess: () => toast.ok('Queued again: it goes with the next pass of the mail worker.'),
+                    onError: (e) => toast.error(errorMessage(e)),
+                  })
+                }
               >
                 <Icon name="refresh" className="size-4" />
                 Retry
@@ -153,9 +174,14 @@ export function OutboxList() {
         <p className="flex flex-wrap items-center gap-2 border-b border-line bg-critical-soft px-4 py-2 text-sm">
           <Icon name="alert" className="size-4 text-critical" />
           <span>
-            <span className="font-bold">{counts.attention === 1 ? '1 message needs' : `${counts.attention} messages need`} attention</span> (failed, or still failing after several tries).
+            <span className="font-bold">{counts.attention === 1 ? '1 message needs' : `${counts.attention} messages need`} attention</span> (failed, or still
+            failing after several tries).
           </span>
-          <button type="button" className="min-h-11 font-bold text-primary underline-offset-2 hover:underline" onClick={() => setSearch({ status: 'attention' }, { replace: true })}>
+          <button
+            type="button"
+            className="min-h-11 font-bold text-primary underline-offset-2 hover:underline"
+            onClick={() => setSearch({ status: 'attention' }, { replace: true })}
+          >
             Show them
           </button>
         </p>
@@ -173,12 +199,29 @@ export function OutboxList() {
             getRowId={(m) => String(m.id)}
             sorting={[]}
             empty={
-              <EmptyState title={params.status === 'all' ? 'No outgoing mail yet' : params.status === 'attention' ? 'Nothing needs attention' : `No ${FILTER_TEXT[params.status].toLowerCase()} messages`} icon={params.status === 'all' ? 'mail' : 'check'}>
-                {params.status === 'all' ? 'Purchase orders, rejection notices and stock alerts are queued here before they are sent.' : 'Every message was sent or is waiting for its next try.'}
+              <EmptyState
+                title={
+                  params.status === 'all'
+                    ? 'No outgoing mail yet'
+                    : params.status === 'attention'
+                      ? 'Nothing needs attention'
+                      : `No ${FILTER_TEXT[params.status].toLowerCase()} messages`
+                }
+                icon={params.status === 'all' ? 'mail' : 'check'}
+              >
+                {params.status === 'all'
+                  ? 'Purchase orders, rejection notices and stock alerts are queued here before they are sent.'
+                  : 'Every message was sent or is waiting for its next try.'}
               </EmptyState>
             }
           />
-          <Pagination page={list.data.page} pageSize={list.data.pageSize} total={list.data.total} onPage={(p) => setSearch({ status: params.status, page: String(p) })} busy={list.isPlaceholderData} />
+          <Pagination
+            page={list.data.page}
+            pageSize={list.data.pageSize}
+            total={list.data.total}
+            onPage={(p) => setSearch({ status: params.status, page: String(p) })}
+            busy={list.isPlaceholderData}
+          />
         </>
       )}
     </Card>

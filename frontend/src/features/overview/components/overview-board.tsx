@@ -27,7 +27,12 @@ export function OverviewBoard() {
   const [siteId, setSiteId] = useState<number | 'all'>('all');
   const ranked = useMemo(() => (overview.data ? rankSources(overview.data) : []), [overview.data]);
 
-  if (overview.isPending) return <Card><LoadingState label="Loading the supply overview…" /></Card>;
+  if (overview.isPending)
+    return (
+      <Card>
+        <LoadingState label="Loading the supply overview…" />
+      </Card>
+    );
   if (overview.isError) {
     const notReady = overview.error instanceof ApiError && (overview.error.status === 404 || overview.error.status === 501);
     return (
@@ -79,7 +84,12 @@ export function OverviewBoard() {
           </p>
         </div>
         {sites.length > 1 && (
-          <Select aria-label="Show sources of" value={String(siteId)} onChange={(e) => setSiteId(e.target.value === 'all' ? 'all' : Number(e.target.value))} className="w-full sm:w-64">
+          <Select
+            aria-label="Show sources of"
+            value={String(siteId)}
+            onChange={(e) => setSiteId(e.target.value === 'all' ? 'all' : Number(e.target.value))}
+            className="w-full sm:w-64"
+          >
             <option value="all">All my sites</option>
             {sites.map((s) => (
               <option key={s.id} value={s.id}>
@@ -92,12 +102,19 @@ export function OverviewBoard() {
 
       <p className="flex items-start gap-2 text-sm text-fg-muted">
         <Icon name="info" className="mt-0.5 size-4 shrink-0" />
-        {overview.data.caution ?? 'Planning estimate only: check against the site’s own records and the supplier’s figures; the site’s authorised person decides.'}
+        {overview.data.caution ??
+          'Planning estimate only: check against the site’s own records and the supplier’s figures; the site’s authorised person decides.'}
       </p>
 
       <ul className={cn('grid grid-cols-2 gap-2', tiles.length > 4 ? 'sm:grid-cols-5' : 'sm:grid-cols-4')} aria-label="Sources by status">
         {tiles.map((st) => (
-          <li key={st} className={cn('flex items-center justify-between gap-2 rounded-lg border px-3 py-2', counts[st] === 0 ? 'border-line bg-surface-sunken text-fg-muted' : TILE[st])}>
+          <li
+            key={st}
+            className={cn(
+              'flex items-center justify-between gap-2 rounded-lg border px-3 py-2',
+              counts[st] === 0 ? 'border-line bg-surface-sunken text-fg-muted' : TILE[st],
+            )}
+          >
             <span className="font-bold">{SOURCE_STATUS[st].label}</span>
             <span className="text-2xl font-black tabular">{counts[st]}</span>
           </li>

@@ -11,8 +11,19 @@ import type { RankedSource } from '../lib/rank-sources';
 // the chart library is large: the cards show their figures at once and the lines follow
 const TrendSparkline = lazy(() => import('./trend-sparkline').then((m) => ({ default: m.TrendSparkline })));
 
-const TYPE_LABEL: Record<RankedSource['type'], string> = { bulk_liquid: 'Bulk liquid tank', manifold: 'Cylinder manifold', cylinder_store: 'Cylinder store', emergency_reserve: 'Emergency reserve' };
-const EDGE: Record<RankedSource['status'], string> = { critical: 'border-l-critical', reorder: 'border-l-warn', watch: 'border-l-watch', unknown: 'border-l-line-strong', ok: 'border-l-ok' };
+const TYPE_LABEL: Record<RankedSource['type'], string> = {
+  bulk_liquid: 'Bulk liquid tank',
+  manifold: 'Cylinder manifold',
+  cylinder_store: 'Cylinder store',
+  emergency_reserve: 'Emergency reserve',
+};
+const EDGE: Record<RankedSource['status'], string> = {
+  critical: 'border-l-critical',
+  reorder: 'border-l-warn',
+  watch: 'border-l-watch',
+  unknown: 'border-l-line-strong',
+  ok: 'border-l-ok',
+};
 
 function gasName(code: string): string {
   return isGasCode(code) ? GAS_INFO[code].name : code;
@@ -34,11 +45,16 @@ function ReorderLine({ s }: { s: RankedSource }) {
 export function SourceCard({ s, showSite }: { s: RankedSource; showSite: boolean }) {
   const fill = s.contents !== null && s.capacity && s.capacity > 0 ? Math.max(0, Math.min(1, s.contents / s.capacity)) : null;
   return (
-    <article className={cn('relative flex flex-col gap-3 rounded-card border border-l-[6px] border-line bg-surface p-4 shadow-card', EDGE[s.status])} aria-labelledby={`source-${s.siteId}-${s.id}`}>
+    <article
+      className={cn('relative flex flex-col gap-3 rounded-card border border-l-[6px] border-line bg-surface p-4 shadow-card', EDGE[s.status])}
+      aria-labelledby={`source-${s.siteId}-${s.id}`}
+    >
       <header className="flex flex-wrap items-start justify-between gap-2">
         <div className="min-w-0">
           <h3 id={`source-${s.siteId}-${s.id}`} className="text-lg leading-tight">
-            <Link to={`/sources/${s.id}`} className="text-primary underline-offset-2 after:absolute after:inset-0 hover:underline">{s.name}</Link>
+            <Link to={`/sources/${s.id}`} className="text-primary underline-offset-2 after:absolute after:inset-0 hover:underline">
+              {s.name}
+            </Link>
           </h3>
           <p className="text-sm text-fg-muted">
             {gasName(s.gasCode)} · {TYPE_LABEL[s.type] ?? s.type}

@@ -3,7 +3,24 @@ import type { Overview, OverviewSource } from '../api/overview-api';
 import { countByStatus, rankSources } from './rank-sources';
 
 function source(id: number, status: OverviewSource['status'], daysOfStock: number | null, name = `S${id}`): OverviewSource {
-  return { id, name, type: 'manifold', gasCode: 'O2', unit: 'L', contents: 1, capacity: null, daysOfStock, emptyAt: null, reorderAt: null, status, statusText: status, firstRisk: null, trend: [], leadTimeHours: 48, note: null };
+  return {
+    id,
+    name,
+    type: 'manifold',
+    gasCode: 'O2',
+    unit: 'L',
+    contents: 1,
+    capacity: null,
+    daysOfStock,
+    emptyAt: null,
+    reorderAt: null,
+    status,
+    statusText: status,
+    firstRisk: null,
+    trend: [],
+    leadTimeHours: 48,
+    note: null,
+  };
 }
 
 describe('rankSources', () => {
@@ -11,8 +28,22 @@ describe('rankSources', () => {
     generatedAt: '2026-12-02T03:00:00Z',
     caution: 'Planning estimate only.',
     sites: [
-      { id: 1, name: 'A', timeZone: 'Europe/London', referenceCode: '15C', computedAt: '2026-12-02T03:00:00Z', sources: [source(1, 'ok', 40), source(2, 'watch', 9), source(3, 'critical', 1.5)] },
-      { id: 2, name: 'B', timeZone: 'Europe/London', referenceCode: '15C', computedAt: '2026-12-02T03:00:00Z', sources: [source(4, 'reorder', 3), source(5, 'critical', 0.4), source(6, 'watch', null), source(7, 'unknown', null)] },
+      {
+        id: 1,
+        name: 'A',
+        timeZone: 'Europe/London',
+        referenceCode: '15C',
+        computedAt: '2026-12-02T03:00:00Z',
+        sources: [source(1, 'ok', 40), source(2, 'watch', 9), source(3, 'critical', 1.5)],
+      },
+      {
+        id: 2,
+        name: 'B',
+        timeZone: 'Europe/London',
+        referenceCode: '15C',
+        computedAt: '2026-12-02T03:00:00Z',
+        sources: [source(4, 'reorder', 3), source(5, 'critical', 0.4), source(6, 'watch', null), source(7, 'unknown', null)],
+      },
     ],
   };
 

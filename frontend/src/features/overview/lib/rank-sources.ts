@@ -17,7 +17,5 @@ export function rankSources(overview: Overview): RankedSource[] {
   const all = overview.sites.flatMap((s) => s.sources.map((src) => ({ ...src, siteId: s.id, siteName: s.name, timeZone: s.timeZone })));
   const days = (s: RankedSource) => (typeof s.daysOfStock === 'number' && Number.isFinite(s.daysOfStock) ? s.daysOfStock : Infinity);
   const reorder = (s: RankedSource) => (s.reorderAt ? Date.parse(s.reorderAt) : Infinity);
-  return all.sort(
-    (a, b) => compareStatus(a.status, b.status) || days(a) - days(b) || reorder(a) - reorder(b) || a.name.localeCompare(b.name),
-  );
+  return all.sort((a, b) => compareStatus(a.status, b.status) || days(a) - days(b) || reorder(a) - reorder(b) || a.name.localeCompare(b.name));
 }

@@ -13,7 +13,13 @@ import { ChartFrame, LegendItem } from '@/components/ui/chart-frame';
 import { Dialog } from '@/components/ui/dialog';
 import { Icon } from '@/components/ui/icons';
 import { ErrorState, LoadingState } from '@/components/ui/states';
-import { reconciliationQueries, useSetCorrection, type SiteReconciliation, type SourceReconciliation, type WardReconciliation } from '../api/reconciliation-api';
+import {
+  reconciliationQueries,
+  useSetCorrection,
+  type SiteReconciliation,
+  type SourceReconciliation,
+  type WardReconciliation,
+} from '../api/reconciliation-api';
 
 const COLOURS = { measured: 'var(--color-series-real)', modelled: 'var(--color-series-ideal)' };
 
@@ -24,7 +30,12 @@ const ratioText = (r: number | null) => (r === null ? '–' : `${formatNumber(r 
 function RatioBadge({ ratio }: { ratio: number | null }) {
   if (ratio === null) return <Badge tone="neutral">no measure</Badge>;
   const off = Math.abs(ratio - 1);
-  if (off < 0.005) return <Badge tone="ok" icon="check">as modelled</Badge>;
+  if (off < 0.005)
+    return (
+      <Badge tone="ok" icon="check">
+        as modelled
+      </Badge>
+    );
   return (
     <Badge tone={off <= 0.05 ? 'ok' : off <= 0.15 ? 'watch' : 'warn'} icon={off <= 0.05 ? 'check' : 'alert'}>
       {ratio >= 1 ? `${formatNumber((ratio - 1) * 100)} % above model` : `${formatNumber((1 - ratio) * 100)} % below model`}
@@ -41,8 +52,18 @@ export function ReconciliationPanel({ siteId, roles }: { siteId: number; roles: 
   const [days, setDays] = useState(28);
   const q = useQuery(reconciliationQueries.site(siteId, days));
   const [selected, setSelected] = useState<number | null>(null);
-  if (q.isPending) return <Card><LoadingState label="Comparing measured use with the model…" /></Card>;
-  if (q.isError) return <Card><ErrorState error={q.error} onRetry={() => q.refetch()} /></Card>;
+  if (q.isPending)
+    return (
+      <Card>
+        <LoadingState label="Comparing measured use with the model…" />
+      </Card>
+    );
+  if (q.isError)
+    return (
+      <Card>
+        <ErrorState error={q.error} onRetry={() => q.refetch()} />
+      </Card>
+    );
   const d = q.data;
   const measuredSources = d.sources.filter((s) => s.measuredLPerDay !== null);
   const source = d.sources.find((s) => s.id === selected) ?? measuredSources[0] ?? d.sources[0];
@@ -82,11 +103,20 @@ export function ReconciliationPanel({ siteId, roles }: { siteId: number; roles: 
                   <td className="px-3 py-2 tabular">{m3(s.measuredLPerDay)}</td>
                   <td className="px-3 py-2 tabular">{m3(s.modelledLPerDay)}</td>
                   <td className="px-3 py-2">{s.measuredLPerDay === null ? <span className="text-fg-muted">{s.note}</span> : <RatioBadge ratio={s.ratio} />}</td>
-                  <td className="px-3 py-2 tabular">{s.demandCv.measured ? formatNumber(s.demandCv.cv, 2) : <span className="text-fg-muted">0.20 (default)</span>}</td>
-                  <td className="px-3 py-2 tabular">{s.forecastBasis === 'scaled' ? `× ${formatNumber(s.acceptedFactor, 2)}` : s.forecastBasis === 'measured' ? 'measured' : 'model'}</td>
+                  <td className="px-3 py-2 tabular">
+                    {s.demandCv.measured ? formatNumber(s.demandCv.cv, 2) : <span className="text-fg-muted">0.20 (default)</span>}
+                  </td>
+                  <td className="px-3 py-2 tabular">
+                    {s.forecastBasis === 'scaled' ? `× ${formatNumber(s.acceptedFactor, 2)}` : s.forecastBasis === 'measured' ? 'measured' : 'model'}
+                  </td>
                   <td className="px-3 py-2">
                     {s.daily.length > 0 && (
-                      <Button size="sm" variant={s.id === source?.id ? 'primary' : 'ghost'} onClick={() => setSelected(s.id)} aria-pressed={s.id === source?.id}>
+                      <Button
+                        size="sm"
+                        variant={s.id === source?.id ? 'primary' : 'ghost'}
+                        onClick={() => setSelected(s.id)}
+                        aria-pressed={s.id === source?.id}
+                      >
                         Chart
                       </Button>
                     )}
@@ -122,7 +152,8 @@ function SourceCard({ source, data, canAccept }: { source: SourceReconciliation;
   const apply = async () => {
     setProblem(null);
     try {
-      if (confirm === 'accept' && source.suggestedFactor !== null) await set.mutateAsync({ sourceId: source.id, factor: source.suggestedFactor, basis: 'scaled' });
+      if (confirm === 'accept' && source.suggestedFactor !== null)
+        await set.mutateAsync({ sourceId: source.id, factor: source.suggestedFactor, basis: 'scaled' });
       if (confirm === 'revert') await set.mutateAsync({ sourceId: source.id, factor: 1, basis: 'model' });
       setConfirm(null);
     } catch (e) {
@@ -155,7 +186,16 @@ function SourceCard({ source, data, canAccept }: { source: SourceReconciliation;
               <YAxis domain={[0, Math.ceil(max * 1.15)]} tickFormatter={(v: number) => formatNumber(v)} width={48} tick={{ fontSize: 12 }} unit="" />
               <Tooltip formatter={(v) => `${formatNumber(Number(v), 1)} m³`} labelFormatter={(v) => DateTime.fromISO(String(v)).toFormat('cccc d LLLL')} />
               <Line type="monotone" dataKey="measured" name="Measured" stroke={COLOURS.measured} strokeWidth={2.5} dot={false} isAnimationActive={false} />
-              <Line type="stepAfter" dataKey="modelled" name="Model" stroke={COLOURS.modelled} strokeWidth={2} strokeDasharray="6 4" dot={false} isAnimationActive={false} />
+              <Line
+                type="stepAfter"
+                dataKey="modelled"
+                name="Model"
+                stroke={COLOURS.modelled}
+                strokeWidth={2}
+                strokeDasharray="6 4"
+                dot={false}
+                isAnimationActive={false}
+              />
             </LineChart>
           </ResponsiveContainer>
         </ChartFrame>
@@ -203,7 +243,8 @@ function SourceCard({ source, data, canAccept }: { source: SourceReconciliation;
             <ul className="mt-1 space-y-1">
               {detail.data.corrections.map((c) => (
                 <li key={c.at}>
-                  {formatDateTime(c.at, data.site.timeZone)}: × {formatNumber(c.factor, 2)} ({c.basis}){c.previousFactor !== null ? `, was × ${formatNumber(c.previousFactor, 2)}` : ''}
+                  {formatDateTime(c.at, data.site.timeZone)}: × {formatNumber(c.factor, 2)} ({c.basis})
+                  {c.previousFactor !== null ? `, was × ${formatNumber(c.previousFactor, 2)}` : ''}
                   {c.by ? ` · ${c.by}` : ''}
                 </li>
               ))}
@@ -228,7 +269,9 @@ function SourceCard({ source, data, canAccept }: { source: SourceReconciliation;
       >
         {confirm === 'accept' ? (
           <p>
-            The forecast of {source.name} will use the modelled demand of {source.wardsFed.map((w) => w.name).join(', ') || 'its wards'} × {formatNumber(source.suggestedFactor ?? 1, 2)}: measured {m3(source.measuredLPerDay)} against {m3(source.modelledLPerDay)} a day over the last {data.days} days. The change is recorded in the audit log and can be undone here.
+            The forecast of {source.name} will use the modelled demand of {source.wardsFed.map((w) => w.name).join(', ') || 'its wards'} ×{' '}
+            {formatNumber(source.suggestedFactor ?? 1, 2)}: measured {m3(source.measuredLPerDay)} against {m3(source.modelledLPerDay)} a day over the last{' '}
+            {data.days} days. The change is recorded in the audit log and can be undone here.
           </p>
         ) : (
           <p>The forecast goes back to the modelled demand without a factor. The change is recorded in the audit log.</p>
@@ -246,11 +289,18 @@ function WardsCard({ wards }: { wards: WardReconciliation[] }) {
       <ul className="divide-y divide-line">
         {wards.map((w) => (
           <li key={w.id}>
-            <button type="button" aria-expanded={open === w.id} onClick={() => setOpen(open === w.id ? null : w.id)} className="flex min-h-14 w-full flex-wrap items-center justify-between gap-2 px-4 py-2 text-left hover:bg-primary-soft sm:px-5">
+            <button
+              type="button"
+              aria-expanded={open === w.id}
+              onClick={() => setOpen(open === w.id ? null : w.id)}
+              className="flex min-h-14 w-full flex-wrap items-center justify-between gap-2 px-4 py-2 text-left hover:bg-primary-soft sm:px-5"
+            >
               <span className="min-w-0">
                 <span className="block font-bold">{w.name}</span>
                 <span className="block text-sm text-fg-muted">
-                  {w.measuredLPerDay === null ? 'No reports, meter or history in this period' : `${m3(w.measuredLPerDay)} a day (${w.basis}) · model ${m3(w.modelledLPerDay)}`}
+                  {w.measuredLPerDay === null
+                    ? 'No reports, meter or history in this period'
+                    : `${m3(w.measuredLPerDay)} a day (${w.basis}) · model ${m3(w.modelledLPerDay)}`}
                 </span>
               </span>
               <RatioBadge ratio={w.ratio} />
@@ -258,7 +308,9 @@ function WardsCard({ wards }: { wards: WardReconciliation[] }) {
             {open === w.id && (
               <div className="grid gap-4 px-4 pb-4 sm:grid-cols-2 sm:px-5">
                 <div>
-                  <h3 className="text-sm font-bold">Patients per device ({w.reports} report{w.reports === 1 ? '' : 's'})</h3>
+                  <h3 className="text-sm font-bold">
+                    Patients per device ({w.reports} report{w.reports === 1 ? '' : 's'})
+                  </h3>
                   <table className="mt-1 w-full text-sm">
                     <thead>
                       <tr className="text-left text-fg-muted">

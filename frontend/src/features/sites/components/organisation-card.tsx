@@ -18,7 +18,13 @@ export function OrganisationCard({ onRenamed }: { onRenamed?: () => void }) {
     <Card>
       <CardHeader title="Organisation" description="The name shown to everyone in your organisation." />
       <CardBody>
-        {org.isPending ? <LoadingState /> : org.isError ? <ErrorState error={org.error} onRetry={() => org.refetch()} /> : <RenameForm key={org.data.name} org={org.data} onRenamed={onRenamed} />}
+        {org.isPending ? (
+          <LoadingState />
+        ) : org.isError ? (
+          <ErrorState error={org.error} onRetry={() => org.refetch()} />
+        ) : (
+          <RenameForm key={org.data.name} org={org.data} onRenamed={onRenamed} />
+        )}
       </CardBody>
     </Card>
   );

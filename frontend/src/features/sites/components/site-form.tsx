@@ -9,7 +9,20 @@ import { FormActions } from '@/components/ui/dialog';
 import { Field, Input, Select, Textarea, UnitInput } from '@/components/ui/field';
 import { useSaveSite, type Site } from '../api/sites-api';
 
-const FIELDS = ['name', 'kind', 'address', 'timeZone', 'referenceCode', 'unitSystem', 'altitudeM', 'atmosphericBar', 'currency', 'cylinderColours', 'storeTemperatureC', 'beds'] as const;
+const FIELDS = [
+  'name',
+  'kind',
+  'address',
+  'timeZone',
+  'referenceCode',
+  'unitSystem',
+  'altitudeM',
+  'atmosphericBar',
+  'currency',
+  'cylinderColours',
+  'storeTemperatureC',
+  'beds',
+] as const;
 const optionalNumber = (v: unknown) => (v === '' || v === null || v === undefined ? null : Number(v));
 
 export const REFERENCE_LABELS: Record<Site['referenceCode'], string> = {
@@ -153,10 +166,22 @@ export function SiteForm({ initial, onDone, onSaved }: { initial: Site | null; o
         <Field label="Altitude" error={e.altitudeM?.message}>
           {(c) => <UnitInput {...c} {...register('altitudeM')} unit="m" inputMode="decimal" />}
         </Field>
-        <Field label="Atmospheric pressure" hint={initial ? `Now ${initial.atmosphericBar.toFixed(4)} bar. Leave empty to compute it from the altitude.` : 'Leave empty to compute it from the altitude.'} error={e.atmosphericBar?.message}>
+        <Field
+          label="Atmospheric pressure"
+          hint={
+            initial
+              ? `Now ${initial.atmosphericBar.toFixed(4)} bar. Leave empty to compute it from the altitude.`
+              : 'Leave empty to compute it from the altitude.'
+          }
+          error={e.atmosphericBar?.message}
+        >
           {(c) => <UnitInput {...c} {...register('atmosphericBar', { setValueAs: optionalNumber })} unit="bar" inputMode="decimal" />}
         </Field>
-        <Field label="Cylinder store temperature" hint="The usual temperature of the store: the cylinder check starts from it." error={e.storeTemperatureC?.message}>
+        <Field
+          label="Cylinder store temperature"
+          hint="The usual temperature of the store: the cylinder check starts from it."
+          error={e.storeTemperatureC?.message}
+        >
           {(c) => <UnitInput {...c} {...register('storeTemperatureC')} unit="°C" inputMode="decimal" />}
         </Field>
       </div>

@@ -32,8 +32,16 @@ export function SitesAdmin({ onSiteSaved }: { onSiteSaved?: () => void }) {
       col.accessor('timeZone', { header: 'Time zone', meta: { className: 'hidden md:table-cell' } }),
       col.accessor('beds', { header: 'Beds', meta: { numeric: true, className: 'hidden sm:table-cell' }, cell: (info) => formatNumber(info.getValue()) }),
       col.accessor('referenceCode', { header: 'Free gas at', meta: { className: 'hidden md:table-cell' }, cell: (info) => REF_SHORT[info.getValue()] }),
-      col.accessor('unitSystem', { header: 'Units', meta: { className: 'hidden md:table-cell' }, cell: (info) => (info.getValue() === 'us' ? 'US' : 'Metric') }),
-      col.accessor('cylinderColours', { header: 'Colours', meta: { className: 'hidden lg:table-cell' }, cell: (info) => (info.getValue() === 'CGA_C9' ? 'CGA C-9' : 'ISO 32') }),
+      col.accessor('unitSystem', {
+        header: 'Units',
+        meta: { className: 'hidden md:table-cell' },
+        cell: (info) => (info.getValue() === 'us' ? 'US' : 'Metric'),
+      }),
+      col.accessor('cylinderColours', {
+        header: 'Colours',
+        meta: { className: 'hidden lg:table-cell' },
+        cell: (info) => (info.getValue() === 'CGA_C9' ? 'CGA C-9' : 'ISO 32'),
+      }),
       col.accessor('storeTemperatureC', { header: 'Store', meta: { numeric: true }, cell: (info) => `${formatNumber(info.getValue(), 1)} °C` }),
       col.accessor('atmosphericBar', {
         header: 'Atmosphere',

@@ -1,10 +1,29 @@
 import { keepPreviousData, queryOptions, useMutation, useQueryClient } from '@tanstack/react-query';
 import type { DemandLineView, OverviewSource, SourceDetail } from '@common/schemas/forecast.schema';
-import type { DeliveryInput, DeliveryView, ForecastBasis, ReadingInput, ReadingKind, ReadingView, ScenarioView, SourceInput, SourceType, SourceView, WardView } from '@common/schemas/supply.schema';
+import type {
+  DeliveryInput,
+  DeliveryView,
+  ForecastBasis,
+  ReadingInput,
+  ReadingKind,
+  ReadingView,
+  ScenarioView,
+  SourceInput,
+  SourceType,
+  SourceView,
+  WardView,
+} from '@common/schemas/supply.schema';
 import { api } from '@/lib/api-client';
 
 export type { DemandLineView, ForecastBasis, ReadingKind, SourceDetail, SourceType };
-export type { SourceView as Source, OverviewSource as Outlook, ScenarioView as Scenario, WardView as WardSummary, ReadingView as Reading, DeliveryView as Delivery };
+export type {
+  SourceView as Source,
+  OverviewSource as Outlook,
+  ScenarioView as Scenario,
+  WardView as WardSummary,
+  ReadingView as Reading,
+  DeliveryView as Delivery,
+};
 
 export const sourcesQueries = {
   all: () => ['sources'] as const,
@@ -21,7 +40,11 @@ export const sourcesQueries = {
     }),
   /** The sources of a site change when a facilities manager edits one: fresh for a minute. */
   site: (siteId: number) =>
-    queryOptions({ queryKey: [...sourcesQueries.all(), 'site', siteId] as const, queryFn: ({ signal }) => api.get<SourceView[]>(`/sites/${siteId}/sources`, { signal }), staleTime: 60_000 }),
+    queryOptions({
+      queryKey: [...sourcesQueries.all(), 'site', siteId] as const,
+      queryFn: ({ signal }) => api.get<SourceView[]>(`/sites/${siteId}/sources`, { signal }),
+      staleTime: 60_000,
+    }),
 };
 
 /** Where the forecast of a source is downloaded as CSV (hourly contents and demand). */
@@ -58,5 +81,9 @@ export function useCancelDelivery(onSaved?: () => void) {
 }
 
 export function useSaveSource(siteId: number, onSaved?: () => void) {
-  return useSourcesMutation(({ id, body }: { id?: number; body: SourceInput }) => (id ? api.put<SourceView>(`/sources/${id}`, body) : api.post<SourceView>(`/sites/${siteId}/sources`, body)), onSaved);
+  return useSourcesMutation(
+    ({ id, body }: { id?: number; body: SourceInput }) =>
+      id ? api.put<SourceView>(`/sources/${id}`, body) : api.post<SourceView>(`/sites/${siteId}/sources`, body),
+    onSaved,
+  );
 }

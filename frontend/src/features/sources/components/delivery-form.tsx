@@ -40,7 +40,11 @@ export function DeliveryForm({ detail, onDone, onSaved }: { detail: SourceDetail
     defaultValues: { dueAt: toLocalInput(tomorrow.toJSDate(), tz), amount: BLANK, reference: '' },
   });
   const e = formState.errors;
-  const dueError = e.dueAt ? (/ISO|offset/i.test(e.dueAt.message ?? '') ? 'enter the date and time the delivery is due, at the site' : e.dueAt.message) : undefined;
+  const dueError = e.dueAt
+    ? /ISO|offset/i.test(e.dueAt.message ?? '')
+      ? 'enter the date and time the delivery is due, at the site'
+      : e.dueAt.message
+    : undefined;
 
   const onSubmit = handleSubmit((body) => {
     setBanner(null);
@@ -66,8 +70,20 @@ export function DeliveryForm({ detail, onDone, onSaved }: { detail: SourceDetail
       <Field label="Due at" hint={`Site time (${tz}).`} error={dueError}>
         {(c) => <Input {...c} {...register('dueAt')} type="datetime-local" />}
       </Field>
-      <Field label={bulk ? 'Liquid delivered' : 'Full cylinders delivered'} hint={bulk && source.capacityKg ? `The tank holds ${source.capacityKg.toLocaleString('en-GB')} kg when full.` : undefined} error={e.amount?.message}>
-        {(c) => <UnitInput {...c} {...register('amount', { valueAsNumber: true })} unit={bulk ? 'kg' : 'cylinders'} inputMode={bulk ? 'decimal' : 'numeric'} autoComplete="off" />}
+      <Field
+        label={bulk ? 'Liquid delivered' : 'Full cylinders delivered'}
+        hint={bulk && source.capacityKg ? `The tank holds ${source.capacityKg.toLocaleString('en-GB')} kg when full.` : undefined}
+        error={e.amount?.message}
+      >
+        {(c) => (
+          <UnitInput
+            {...c}
+            {...register('amount', { valueAsNumber: true })}
+            unit={bulk ? 'kg' : 'cylinders'}
+            inputMode={bulk ? 'decimal' : 'numeric'}
+            autoComplete="off"
+          />
+        )}
       </Field>
       <Field label="Reference" hint="Optional: the supplier’s order or delivery number." error={e.reference?.message}>
         {(c) => <Input {...c} {...register('reference')} maxLength={120} />}

@@ -89,10 +89,45 @@ export function DepletionChart({ detail, height = 300 }: { detail: SourceDetail;
       <ResponsiveContainer width="100%" height="100%">
         <ComposedChart data={data} margin={{ top: 10, right: 12, bottom: 0, left: 4 }} accessibilityLayer={false}>
           <CartesianGrid stroke="var(--color-line)" strokeDasharray="2 4" vertical={false} />
-          <XAxis dataKey="t" type="number" scale="time" domain={[start, end]} ticks={ticks} tickFormatter={(t: number) => formatTick(t, tz)} tick={{ fontSize: 12, fill: 'var(--color-fg-muted)' }} minTickGap={16} />
-          <YAxis domain={[0, axis.top]} ticks={axis.ticks} tickFormatter={(v: number) => formatNumber(v)} width={unit === 'L' ? 76 : 56} tick={{ fontSize: 12, fill: 'var(--color-fg-muted)' }} />
-          {bandFrom !== null && bandTo !== null && <ReferenceArea x1={bandFrom} x2={Math.max(bandTo, bandFrom + 3_600_000)} fill={COLOURS.band} fillOpacity={0.12} stroke={COLOURS.band} strokeOpacity={0.3} ifOverflow="extendDomain" />}
-          <Area type="linear" dataKey="contents" stroke={COLOURS.contents} strokeWidth={2} fill={COLOURS.contents} fillOpacity={0.12} isAnimationActive={false} dot={false} activeDot={{ r: 4 }} />
+          <XAxis
+            dataKey="t"
+            type="number"
+            scale="time"
+            domain={[start, end]}
+            ticks={ticks}
+            tickFormatter={(t: number) => formatTick(t, tz)}
+            tick={{ fontSize: 12, fill: 'var(--color-fg-muted)' }}
+            minTickGap={16}
+          />
+          <YAxis
+            domain={[0, axis.top]}
+            ticks={axis.ticks}
+            tickFormatter={(v: number) => formatNumber(v)}
+            width={unit === 'L' ? 76 : 56}
+            tick={{ fontSize: 12, fill: 'var(--color-fg-muted)' }}
+          />
+          {bandFrom !== null && bandTo !== null && (
+            <ReferenceArea
+              x1={bandFrom}
+              x2={Math.max(bandTo, bandFrom + 3_600_000)}
+              fill={COLOURS.band}
+              fillOpacity={0.12}
+              stroke={COLOURS.band}
+              strokeOpacity={0.3}
+              ifOverflow="extendDomain"
+            />
+          )}
+          <Area
+            type="linear"
+            dataKey="contents"
+            stroke={COLOURS.contents}
+            strokeWidth={2}
+            fill={COLOURS.contents}
+            fillOpacity={0.12}
+            isAnimationActive={false}
+            dot={false}
+            activeDot={{ r: 4 }}
+          />
           {reorderLevel !== null && <ReferenceLine y={reorderLevel} stroke={COLOURS.reorder} strokeWidth={2} strokeDasharray="6 4" ifOverflow="extendDomain" />}
           {placed.map((t, i) => (
             <ReferenceLine key={`p${i}`} x={t} stroke={COLOURS.placed} strokeDasharray="3 3" strokeOpacity={0.8} />

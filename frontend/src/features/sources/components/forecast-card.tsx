@@ -26,12 +26,21 @@ const EVENT_LABEL: Record<string, string> = {
 const SHOWN_EVENTS = 8;
 
 /** The forecast: which scenario, the depletion chart, the orders the rule places and the manifold's changeovers. */
-export function ForecastCard({ detail, onScenarioChange, updating }: { detail: SourceDetail; onScenarioChange: (id: number | null) => void; updating: boolean }) {
+export function ForecastCard({
+  detail,
+  onScenarioChange,
+  updating,
+}: {
+  detail: SourceDetail;
+  onScenarioChange: (id: number | null) => void;
+  updating: boolean;
+}) {
   const tz = detail.site.timeZone;
   const [allEvents, setAllEvents] = useState(false);
   const chosen = detail.scenarios.find((s) => s.id === detail.scenarioId) ?? null;
   const events = allEvents ? detail.manifoldEvents : detail.manifoldEvents.slice(0, SHOWN_EVENTS);
-  const qty = (o: SourceDetail['orders'][number]) => (o.quantity === null ? '–' : o.quantityUnit === 'kg' ? formatKg(o.quantity) : `${formatNumber(o.quantity)} cylinders`);
+  const qty = (o: SourceDetail['orders'][number]) =>
+    o.quantity === null ? '–' : o.quantityUnit === 'kg' ? formatKg(o.quantity) : `${formatNumber(o.quantity)} cylinders`;
 
   return (
     <Card>
@@ -40,9 +49,7 @@ export function ForecastCard({ detail, onScenarioChange, updating }: { detail: S
         description={`Hour by hour over the next ${Math.max(1, Math.round(detail.series.contents.length / 24))} days, in ${tz} time.`}
         actions={
           <label className="flex w-full flex-col gap-1 sm:w-72">
-            <span className="flex items-center gap-2 text-sm font-bold">
-              Scenario {updating && <Spinner className="size-4" />}
-            </span>
+            <span className="flex items-center gap-2 text-sm font-bold">Scenario {updating && <Spinner className="size-4" />}</span>
             <Select value={detail.scenarioId ?? ''} onChange={(e) => onScenarioChange(e.target.value ? Number(e.target.value) : null)}>
               <option value="">Baseline (no scenario)</option>
               {detail.scenarios.map((s) => (
@@ -82,9 +89,15 @@ export function ForecastCard({ detail, onScenarioChange, updating }: { detail: S
                 <caption className="sr-only">Planned orders</caption>
                 <thead>
                   <tr className="border-b border-line-strong text-fg-muted">
-                    <th scope="col" className="px-2 py-2">Placed</th>
-                    <th scope="col" className="px-2 py-2">Arrives</th>
-                    <th scope="col" className="px-2 py-2 text-right">Quantity</th>
+                    <th scope="col" className="px-2 py-2">
+                      Placed
+                    </th>
+                    <th scope="col" className="px-2 py-2">
+                      Arrives
+                    </th>
+                    <th scope="col" className="px-2 py-2 text-right">
+                      Quantity
+                    </th>
                   </tr>
                 </thead>
                 <tbody>
@@ -98,7 +111,9 @@ export function ForecastCard({ detail, onScenarioChange, updating }: { detail: S
                 </tbody>
               </table>
             </div>
-            {detail.orders.length > 6 && <p className="pt-1 text-sm text-fg-muted">…and {detail.orders.length - 6} more in the horizon (all are in the CSV export).</p>}
+            {detail.orders.length > 6 && (
+              <p className="pt-1 text-sm text-fg-muted">…and {detail.orders.length - 6} more in the horizon (all are in the CSV export).</p>
+            )}
           </section>
         )}
 
@@ -107,10 +122,15 @@ export function ForecastCard({ detail, onScenarioChange, updating }: { detail: S
             <h3 id="manifold-events" className="font-bold">
               Changeovers and bank replacements
             </h3>
-            <p className="pb-2 text-sm text-fg-muted">When the duty bank reaches the changeover pressure the manifold switches banks; the empty bank is replaced with full cylinders.</p>
+            <p className="pb-2 text-sm text-fg-muted">
+              When the duty bank reaches the changeover pressure the manifold switches banks; the empty bank is replaced with full cylinders.
+            </p>
             <ol className="divide-y divide-line rounded-lg border border-line">
               {events.map((ev, i) => (
-                <li key={i} className={`flex flex-wrap items-baseline justify-between gap-x-4 gap-y-0.5 px-3 py-2 text-sm ${ev.kind === 'supply_lost' ? 'bg-critical-soft' : ''}`}>
+                <li
+                  key={i}
+                  className={`flex flex-wrap items-baseline justify-between gap-x-4 gap-y-0.5 px-3 py-2 text-sm ${ev.kind === 'supply_lost' ? 'bg-critical-soft' : ''}`}
+                >
                   <span className={`font-bold ${ev.kind === 'supply_lost' ? 'text-critical' : ''}`}>
                     {EVENT_LABEL[ev.kind] ?? ev.kind} {ev.bank}
                     {ev.cylinders ? ` (${ev.cylinders} cylinders)` : ''}

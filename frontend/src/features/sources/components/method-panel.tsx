@@ -60,9 +60,13 @@ export function MethodPanel({ detail }: { detail: SourceDetail }) {
           {source.type === 'bulk_liquid' && source.gasCode === 'O2' && (
             <div>
               <dt className="text-fg-muted">Litres of liquid converted at</dt>
-              <dd className="font-bold tabular">{loxDensityAtTankPressureKgPerL(source.operatingPressureBar ?? DEFAULT_TANK_OPERATING_GAUGE_BAR).toFixed(3)} kg/L</dd>
+              <dd className="font-bold tabular">
+                {loxDensityAtTankPressureKgPerL(source.operatingPressureBar ?? DEFAULT_TANK_OPERATING_GAUGE_BAR).toFixed(3)} kg/L
+              </dd>
               <dd>
-                saturated liquid oxygen at {source.operatingPressureBar ?? DEFAULT_TANK_OPERATING_GAUGE_BAR} bar g ({source.operatingPressureBar == null ? DEFAULT_TANK_OPERATING_SOURCE : 'the tank’s working pressure'}), from the reference equation of state (Schmidt &amp; Wagner 1985)
+                saturated liquid oxygen at {source.operatingPressureBar ?? DEFAULT_TANK_OPERATING_GAUGE_BAR} bar g (
+                {source.operatingPressureBar == null ? DEFAULT_TANK_OPERATING_SOURCE : 'the tank’s working pressure'}), from the reference equation of state
+                (Schmidt &amp; Wagner 1985)
               </dd>
             </div>
           )}
@@ -100,9 +104,15 @@ export function MethodPanel({ detail }: { detail: SourceDetail }) {
                 <caption className="sr-only">Demand lines of this source</caption>
                 <thead>
                   <tr className="border-b border-line-strong text-fg-muted">
-                    <th scope="col" className="px-2 py-2">Line</th>
-                    <th scope="col" className="px-2 py-2 text-right">Flow</th>
-                    <th scope="col" className="px-2 py-2">When</th>
+                    <th scope="col" className="px-2 py-2">
+                      Line
+                    </th>
+                    <th scope="col" className="px-2 py-2 text-right">
+                      Flow
+                    </th>
+                    <th scope="col" className="px-2 py-2">
+                      When
+                    </th>
                   </tr>
                 </thead>
                 <tbody>

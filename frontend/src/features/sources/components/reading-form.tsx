@@ -33,7 +33,21 @@ interface ReadingFormValues {
   note: string;
 }
 
-const FIELDS = ['kind', 'value', 'dutyBar', 'standbyBar', 'spareFull', 'full', 'inUseGauges', 'inUseGaugeBar', 'inUseNetKg', 'empty', 'takenAt', 'method', 'note'] as const;
+const FIELDS = [
+  'kind',
+  'value',
+  'dutyBar',
+  'standbyBar',
+  'spareFull',
+  'full',
+  'inUseGauges',
+  'inUseGaugeBar',
+  'inUseNetKg',
+  'empty',
+  'takenAt',
+  'method',
+  'note',
+] as const;
 
 const KIND_LABEL: Record<ReadingKind, string> = {
   level_percent: 'Level %',
@@ -48,7 +62,12 @@ const KIND_LABEL: Record<ReadingKind, string> = {
 function kindsFor(source: SourceDetail['source']): ReadingKind[] {
   switch (source.type) {
     case 'bulk_liquid':
-      return ['level_percent', 'kg', ...(source.gasCode === 'O2' ? (['litres_liquid'] as const) : []), ...(source.calibration?.length ? (['calibration'] as const) : [])];
+      return [
+        'level_percent',
+        'kg',
+        ...(source.gasCode === 'O2' ? (['litres_liquid'] as const) : []),
+        ...(source.calibration?.length ? (['calibration'] as const) : []),
+      ];
     case 'manifold':
       return ['bank_gauges'];
     case 'emergency_reserve':
@@ -99,7 +118,11 @@ export function ReadingForm({ detail, onSaved }: { detail: SourceDetail; onSaved
     method: 'manual',
     note: '',
   });
-  const { register, handleSubmit, setError, control, formState, reset, setValue } = useForm<ReadingFormValues, unknown, ReturnType<typeof readingInputSchema.parse>>({
+  const { register, handleSubmit, setError, control, formState, reset, setValue } = useForm<
+    ReadingFormValues,
+    unknown,
+    ReturnType<typeof readingInputSchema.parse>
+  >({
     resolver: bodyResolver<ReadingFormValues, typeof readingInputSchema>(
       readingInputSchema,
       (v) => toBody(v, tz, weighed),
@@ -132,7 +155,11 @@ export function ReadingForm({ detail, onSaved }: { detail: SourceDetail; onSaved
       preview = `≈ ${formatKg(loxLitresToKg(value, density))} of liquid oxygen at ${density.toFixed(3)} kg/L (saturated liquid at ${pressure} bar g${source.operatingPressureBar == null ? ', the default working pressure' : ''})`;
     }
   }
-  const takenAtError = e.takenAt ? (/ISO|offset/i.test(e.takenAt.message ?? '') ? 'enter the date and time the reading was taken, at the site' : e.takenAt.message) : undefined;
+  const takenAtError = e.takenAt
+    ? /ISO|offset/i.test(e.takenAt.message ?? '')
+      ? 'enter the date and time the reading was taken, at the site'
+      : e.takenAt.message
+    : undefined;
 
   return (
     <form onSubmit={onSubmit} noValidate className="flex flex-col gap-4" aria-label="Enter a reading">
@@ -205,13 +232,29 @@ export function ReadingForm({ detail, onSaved }: { detail: SourceDetail; onSaved
           </div>
           <fieldset className="flex flex-col gap-2">
             <legend className="pb-1 text-sm font-bold">{weighed ? 'Cylinders in use: weigh each (gross − tare)' : 'Cylinders in use: one gauge each'}</legend>
-            {weighed && <p className="text-sm text-fg-muted">A liquefied gas’s gauge shows the vapour pressure, not the contents, while any liquid is left: weigh the cylinder and enter gross − tare.</p>}
+            {weighed && (
+              <p className="text-sm text-fg-muted">
+                A liquefied gas’s gauge shows the vapour pressure, not the contents, while any liquid is left: weigh the cylinder and enter gross − tare.
+              </p>
+            )}
             {gauges.fields.length === 0 && <p className="text-sm text-fg-muted">None in use. Add one row per part-used cylinder.</p>}
             <ul className="grid gap-2 sm:grid-cols-2">
               {gauges.fields.map((f, i) => (
                 <li key={f.id} className="flex items-start gap-2">
-                  <Field label={weighed ? `Cylinder ${i + 1} net weight` : `Cylinder ${i + 1} gauge`} error={e.inUseGauges?.[i]?.bar?.message} className="flex-1">
-                    {(c) => <UnitInput {...c} {...register(`inUseGauges.${i}.bar`, { valueAsNumber: true })} unit={weighed ? 'kg' : 'bar'} inputMode="decimal" autoComplete="off" />}
+                  <Field
+                    label={weighed ? `Cylinder ${i + 1} net weight` : `Cylinder ${i + 1} gauge`}
+                    error={e.inUseGauges?.[i]?.bar?.message}
+                    className="flex-1"
+                  >
+                    {(c) => (
+                      <UnitInput
+                        {...c}
+                        {...register(`inUseGauges.${i}.bar`, { valueAsNumber: true })}
+                        unit={weighed ? 'kg' : 'bar'}
+                        inputMode="decimal"
+                        autoComplete="off"
+                      />
+                    )}
                   </Field>
                   <Button variant="ghost" size="sm" className="mt-7" onClick={() => gauges.remove(i)} aria-label={`Remove cylinder ${i + 1}`}>
                     <Icon name="close" className="size-4" />
@@ -235,7 +278,12 @@ export function ReadingForm({ detail, onSaved }: { detail: SourceDetail; onSaved
           {(c) => (
             <div className="flex gap-2">
               <Input {...c} {...register('takenAt')} type="datetime-local" max={toLocalInput(new Date(), tz)} className="min-w-0 flex-1" />
-              <Button variant="secondary" size="sm" className="shrink-0 self-stretch" onClick={() => setValue('takenAt', toLocalInput(new Date(), tz), { shouldValidate: formState.isSubmitted })}>
+              <Button
+                variant="secondary"
+                size="sm"
+                className="shrink-0 self-stretch"
+                onClick={() => setValue('takenAt', toLocalInput(new Date(), tz), { shouldValidate: formState.isSubmitted })}
+              >
                 Now
               </Button>
             </div>
@@ -263,8 +311,14 @@ export function ReadingForm({ detail, onSaved }: { detail: SourceDetail; onSaved
         </Button>
         <p className="text-sm text-fg-muted">The forecast of this source starts again from the newest reading.</p>
       </div>
-      {source.type !== 'bulk_liquid' && <p className="text-xs text-fg-muted">Gauges in bar (gauge pressure). Contents are worked out with the real-gas equation of state at the source’s temperature.</p>}
-      {kind === 'level_percent' && source.capacityKg === null && <p className="text-xs text-warn">This tank has no capacity set: a level cannot be turned into kg.</p>}
+      {source.type !== 'bulk_liquid' && (
+        <p className="text-xs text-fg-muted">
+          Gauges in bar (gauge pressure). Contents are worked out with the real-gas equation of state at the source’s temperature.
+        </p>
+      )}
+      {kind === 'level_percent' && source.capacityKg === null && (
+        <p className="text-xs text-warn">This tank has no capacity set: a level cannot be turned into kg.</p>
+      )}
     </form>
   );
 }

@@ -45,9 +45,22 @@ export function ReadingsCard({ detail, meId }: { detail: SourceDetail; meId: num
           );
         },
       }),
-      col.accessor('contents', { header: unit === 'kg' ? 'Contents' : 'Free gas', meta: { numeric: true }, cell: (info) => <span className="whitespace-nowrap">{unit === 'kg' ? formatKg(info.getValue()) : formatLitres(info.getValue())}</span> }),
-      col.accessor('method', { header: 'Method', meta: { className: 'hidden md:table-cell' }, cell: (info) => READING_METHOD_LABEL[info.getValue()] ?? info.getValue() }),
-      col.display({ id: 'who', header: 'Who', meta: { className: 'hidden md:table-cell' }, cell: (info) => who(info.row.original) ?? (info.row.original.method === 'telemetry' ? 'Feed' : '–') }),
+      col.accessor('contents', {
+        header: unit === 'kg' ? 'Contents' : 'Free gas',
+        meta: { numeric: true },
+        cell: (info) => <span className="whitespace-nowrap">{unit === 'kg' ? formatKg(info.getValue()) : formatLitres(info.getValue())}</span>,
+      }),
+      col.accessor('method', {
+        header: 'Method',
+        meta: { className: 'hidden md:table-cell' },
+        cell: (info) => READING_METHOD_LABEL[info.getValue()] ?? info.getValue(),
+      }),
+      col.display({
+        id: 'who',
+        header: 'Who',
+        meta: { className: 'hidden md:table-cell' },
+        cell: (info) => who(info.row.original) ?? (info.row.original.method === 'telemetry' ? 'Feed' : '–'),
+      }),
     ];
   }, [tz, unit, calibrationUnit, meId]);
 

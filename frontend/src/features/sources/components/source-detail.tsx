@@ -45,7 +45,11 @@ export function SourceDetailScreen({
   if (q.isError) {
     return (
       <Card>
-        <ErrorState error={q.error} title="This source could not be loaded" onRetry={isApiError(q.error) && q.error.status === 404 ? undefined : () => q.refetch()} />
+        <ErrorState
+          error={q.error}
+          title="This source could not be loaded"
+          onRetry={isApiError(q.error) && q.error.status === 404 ? undefined : () => q.refetch()}
+        />
       </Card>
     );
   }
@@ -102,7 +106,16 @@ export function SourceDetailScreen({
         <div className="flex min-w-0 flex-col gap-5">
           {can(READING_ROLES) && (
             <Card id="enter-reading" className="scroll-mt-20">
-              <CardHeader title="Enter a reading" description={source.type === 'bulk_liquid' ? 'From the tank’s contents gauge or telemetry.' : source.type === 'manifold' ? 'Both bank gauges and the spare full cylinders.' : 'After the store round: full, in use and empty.'} />
+              <CardHeader
+                title="Enter a reading"
+                description={
+                  source.type === 'bulk_liquid'
+                    ? 'From the tank’s contents gauge or telemetry.'
+                    : source.type === 'manifold'
+                      ? 'Both bank gauges and the spare full cylinders.'
+                      : 'After the store round: full, in use and empty.'
+                }
+              />
               <CardBody>
                 <PanelBoundary bare title="The reading form">
                   <ReadingForm key={source.id} detail={detail} onSaved={onSupplyChanged} />

@@ -40,7 +40,17 @@ const FIELDS = Object.keys(sourceSchema.shape);
 const optionalNumber = (v: unknown) => (v === '' || v === null || v === undefined ? null : Number(v));
 const optionalId = (v: unknown) => (v === '' || v === null || v === undefined ? null : Number(v));
 
-const BULK_ONLY = ['capacityKg', 'evaporationPercentPerDay', 'operatingPressureBar', 'vaporiserM3H', 'vaporiserDerating', 'minLevelAlarmPercent', 'reservePercent', 'calibration', 'calibrationUnit'] as const;
+const BULK_ONLY = [
+  'capacityKg',
+  'evaporationPercentPerDay',
+  'operatingPressureBar',
+  'vaporiserM3H',
+  'vaporiserDerating',
+  'minLevelAlarmPercent',
+  'reservePercent',
+  'calibration',
+  'calibrationUnit',
+] as const;
 const CYLINDER_ONLY = ['cylinderTypeId', 'temperatureC'] as const;
 const MANIFOLD_ONLY = ['regulatorLMin', 'changeoverGaugeBar'] as const;
 
@@ -92,7 +102,12 @@ function defaultsFrom(initial: Source | null): SourceFormValues {
     };
   }
   const { id: _id, siteId: _site, modelCorrectionFactor: _f, ...rest } = initial;
-  return { ...rest, operatingPressureBar: rest.operatingPressureBar ?? null, gasCode: rest.gasCode as SourceFormValues['gasCode'], calibration: rest.calibration ?? [] };
+  return {
+    ...rest,
+    operatingPressureBar: rest.operatingPressureBar ?? null,
+    gasCode: rest.gasCode as SourceFormValues['gasCode'],
+    calibration: rest.calibration ?? [],
+  };
 }
 
 const REORDER_MODE_LABEL: Record<(typeof REORDER_MODES)[number], string> = {
@@ -137,7 +152,10 @@ export function SourceForm({
     defaultValues: defaultsFrom(initial),
   });
   const calibration = useFieldArray({ control, name: 'calibration' });
-  const [type, gasCode, reorderMode, supplierId, calibrationUnit] = useWatch({ control, name: ['type', 'gasCode', 'reorderMode', 'supplierId', 'calibrationUnit'] });
+  const [type, gasCode, reorderMode, supplierId, calibrationUnit] = useWatch({
+    control,
+    name: ['type', 'gasCode', 'reorderMode', 'supplierId', 'calibrationUnit'],
+  });
   const e = formState.errors;
   const bulk = type === 'bulk_liquid';
   const gasTypes = cylinderTypes.filter((c) => c.gasCode === gasCode && (c.active || c.id === initial?.cylinderTypeId));
@@ -208,10 +226,18 @@ export function SourceForm({
           <Field label="Capacity" hint="Liquid the tank holds when full." error={e.capacityKg?.message}>
             {(c) => <UnitInput {...c} {...register('capacityKg', { setValueAs: optionalNumber })} unit="kg" inputMode="decimal" />}
           </Field>
-          <Field label="Normal evaporation rate" hint="From the tank’s data plate or the supplier: % of capacity per day." error={e.evaporationPercentPerDay?.message}>
+          <Field
+            label="Normal evaporation rate"
+            hint="From the tank’s data plate or the supplier: % of capacity per day."
+            error={e.evaporationPercentPerDay?.message}
+          >
             {(c) => <UnitInput {...c} {...register('evaporationPercentPerDay', { setValueAs: optionalNumber })} unit="%/day" inputMode="decimal" />}
           </Field>
-          <Field label="Working pressure" hint="Tank pressure (gauge): litres of liquid are converted at the liquid’s density at this pressure. Empty: 7 bar g, the usual UK relief setting." error={e.operatingPressureBar?.message}>
+          <Field
+            label="Working pressure"
+            hint="Tank pressure (gauge): litres of liquid are converted at the liquid’s density at this pressure. Empty: 7 bar g, the usual UK relief setting."
+            error={e.operatingPressureBar?.message}
+          >
             {(c) => <UnitInput {...c} {...register('operatingPressureBar', { setValueAs: optionalNumber })} unit="bar" inputMode="decimal" />}
           </Field>
           <Field label="Vaporiser rating" hint="Optional; used by the capacity check." error={e.vaporiserM3H?.message}>
@@ -228,16 +254,32 @@ export function SourceForm({
           </Field>
           <div className="flex flex-col gap-2 sm:col-span-2">
             <p className="text-sm font-bold">Calibration table (optional)</p>
-            <p className="text-xs text-fg-muted">For a contents gauge that is not in % or kg (a differential-pressure gauge): each gauge reading with the kg it means, rising down the table.</p>
+            <p className="text-xs text-fg-muted">
+              For a contents gauge that is not in % or kg (a differential-pressure gauge): each gauge reading with the kg it means, rising down the table.
+            </p>
             <Field label="Gauge unit" error={e.calibrationUnit?.message} className="sm:w-64">
-              {(c) => <Input {...c} {...register('calibrationUnit', { setValueAs: (v) => (v === '' || v === null || v === undefined ? null : String(v)) })} placeholder="e.g. inH2O, mbar" maxLength={24} />}
+              {(c) => (
+                <Input
+                  {...c}
+                  {...register('calibrationUnit', { setValueAs: (v) => (v === '' || v === null || v === undefined ? null : String(v)) })}
+                  placeholder="e.g. inH2O, mbar"
+                  maxLength={24}
+                />
+              )}
             </Field>
             {calibration.fields.length > 0 && (
               <ul className="flex flex-col gap-2">
                 {calibration.fields.map((f, i) => (
                   <li key={f.id} className="flex items-start gap-2">
                     <Field label={`Reading ${i + 1}`} error={e.calibration?.[i]?.reading?.message} className="flex-1">
-                      {(c) => <UnitInput {...c} {...register(`calibration.${i}.reading`, { valueAsNumber: true })} unit={calibrationUnit || 'gauge'} inputMode="decimal" />}
+                      {(c) => (
+                        <UnitInput
+                          {...c}
+                          {...register(`calibration.${i}.reading`, { valueAsNumber: true })}
+                          unit={calibrationUnit || 'gauge'}
+                          inputMode="decimal"
+                        />
+                      )}
                     </Field>
                     <Field label="Contents" error={e.calibration?.[i]?.kg?.message} className="flex-1">
                       {(c) => <UnitInput {...c} {...register(`calibration.${i}.kg`, { valueAsNumber: true })} unit="kg" inputMode="decimal" />}
@@ -261,7 +303,15 @@ export function SourceForm({
       ) : (
         <fieldset className="grid gap-4 sm:grid-cols-2">
           <legend className="pb-2 text-lg font-bold">Cylinders</legend>
-          <Field label="Cylinder type" hint={gasTypes.length === 0 ? `No cylinder types for ${gasName(String(gasCode))} in the catalogue yet: an administrator adds them under Cylinder types.` : undefined} error={e.cylinderTypeId?.message}>
+          <Field
+            label="Cylinder type"
+            hint={
+              gasTypes.length === 0
+                ? `No cylinder types for ${gasName(String(gasCode))} in the catalogue yet: an administrator adds them under Cylinder types.`
+                : undefined
+            }
+            error={e.cylinderTypeId?.message}
+          >
             {(c) => (
               <Select {...c} {...register('cylinderTypeId', { setValueAs: optionalId })}>
                 <option value="">Choose…</option>
@@ -277,13 +327,21 @@ export function SourceForm({
             {(c) => <UnitInput {...c} {...register('temperatureC', { setValueAs: optionalNumber })} unit="°C" inputMode="decimal" />}
           </Field>
           {(type === 'manifold' || type === 'emergency_reserve') && (
-            <Field label="Cylinders per bank" hint={type === 'emergency_reserve' ? 'Only if the reserve is a manifold read by its bank gauges.' : undefined} error={e.cylindersPerBank?.message}>
+            <Field
+              label="Cylinders per bank"
+              hint={type === 'emergency_reserve' ? 'Only if the reserve is a manifold read by its bank gauges.' : undefined}
+              error={e.cylindersPerBank?.message}
+            >
               {(c) => <Input {...c} {...register('cylindersPerBank', { setValueAs: optionalNumber })} inputMode="numeric" />}
             </Field>
           )}
           {type === 'manifold' && (
             <>
-              <Field label="Changeover pressure" hint="Gauge pressure at which the manifold switches to the standby bank." error={e.changeoverGaugeBar?.message}>
+              <Field
+                label="Changeover pressure"
+                hint="Gauge pressure at which the manifold switches to the standby bank."
+                error={e.changeoverGaugeBar?.message}
+              >
                 {(c) => <UnitInput {...c} {...register('changeoverGaugeBar', { setValueAs: optionalNumber })} unit="bar" inputMode="decimal" />}
               </Field>
               <Field label="Regulator capacity" hint="Optional; used by the capacity check." error={e.regulatorLMin?.message}>
@@ -299,7 +357,9 @@ export function SourceForm({
                 <CheckboxGroup
                   className="sm:col-span-2"
                   legend="Backs up"
-                  hint={backUpOptions.length === 0 ? `No other ${gasName(String(gasCode))} source on this site yet.` : 'The sources this reserve takes over from.'}
+                  hint={
+                    backUpOptions.length === 0 ? `No other ${gasName(String(gasCode))} source on this site yet.` : 'The sources this reserve takes over from.'
+                  }
                   options={backUpOptions.map((s) => ({ value: s.id, label: s.name }))}
                   value={(field.value ?? []) as number[]}
                   onChange={field.onChange}
@@ -327,7 +387,11 @@ export function SourceForm({
             </Select>
           )}
         </Field>
-        <Field label="Delivery lead time" hint={supplier ? `Blank: the supplier’s ${supplier.leadTimeHours} h.` : 'Blank: the supplier’s, or 48 h without one.'} error={e.leadTimeHours?.message}>
+        <Field
+          label="Delivery lead time"
+          hint={supplier ? `Blank: the supplier’s ${supplier.leadTimeHours} h.` : 'Blank: the supplier’s, or 48 h without one.'}
+          error={e.leadTimeHours?.message}
+        >
           {(c) => <UnitInput {...c} {...register('leadTimeHours', { setValueAs: optionalNumber })} unit="h" inputMode="numeric" />}
         </Field>
         <Field label="Reorder when" error={e.reorderMode?.message}>
@@ -345,10 +409,25 @@ export function SourceForm({
           <>
             <Field
               label="Reorder level"
-              hint={reorderMode === 'percent' ? (bulk ? 'Of the tank’s capacity.' : 'Of the order-up-to stock.') : reorderMode === 'days' ? 'Days of stock left at the current use.' : undefined}
+              hint={
+                reorderMode === 'percent'
+                  ? bulk
+                    ? 'Of the tank’s capacity.'
+                    : 'Of the order-up-to stock.'
+                  : reorderMode === 'days'
+                    ? 'Days of stock left at the current use.'
+                    : undefined
+              }
               error={e.reorderLevel?.message}
             >
-              {(c) => <UnitInput {...c} {...register('reorderLevel', { setValueAs: optionalNumber })} unit={reorderMode === 'days' ? 'days' : reorderMode === 'percent' ? '%' : amountUnit} inputMode="decimal" />}
+              {(c) => (
+                <UnitInput
+                  {...c}
+                  {...register('reorderLevel', { setValueAs: optionalNumber })}
+                  unit={reorderMode === 'days' ? 'days' : reorderMode === 'percent' ? '%' : amountUnit}
+                  inputMode="decimal"
+                />
+              )}
             </Field>
             <Field label="Order up to" hint={bulk ? 'Contents after the delivery.' : 'Full cylinders after the delivery.'} error={e.orderUpTo?.message}>
               {(c) => <UnitInput {...c} {...register('orderUpTo', { setValueAs: optionalNumber })} unit={amountUnit} inputMode="decimal" />}

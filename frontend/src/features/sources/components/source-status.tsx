@@ -7,7 +7,13 @@ import { Card } from '@/components/ui/card';
 import { Icon } from '@/components/ui/icons';
 import type { SourceDetail } from '../api/sources-api';
 
-const EDGE: Record<SourceDetail['outlook']['status'], string> = { critical: 'border-l-critical', reorder: 'border-l-warn', watch: 'border-l-watch', ok: 'border-l-ok', unknown: 'border-l-line-strong' };
+const EDGE: Record<SourceDetail['outlook']['status'], string> = {
+  critical: 'border-l-critical',
+  reorder: 'border-l-warn',
+  watch: 'border-l-watch',
+  ok: 'border-l-ok',
+  unknown: 'border-l-line-strong',
+};
 
 function Figure({ label, children, sub, className }: { label: string; children: React.ReactNode; sub?: React.ReactNode; className?: string }) {
   return (
@@ -64,10 +70,17 @@ export function SourceStatus({ detail }: { detail: SourceDetail }) {
           <Figure label="Empty around" sub={outlook.emptyAt ? formatRelative(outlook.emptyAt) : undefined}>
             {outlook.emptyAt ? formatDateTime(outlook.emptyAt, tz) : outlook.note ? '–' : 'Not in the forecast'}
           </Figure>
-          <Figure label="Reorder by" sub={outlook.reorderAt ? (reorderPast ? 'the date has passed' : formatRelative(outlook.reorderAt)) : undefined} className={reorderPast ? '[&_dd]:text-critical' : undefined}>
+          <Figure
+            label="Reorder by"
+            sub={outlook.reorderAt ? (reorderPast ? 'the date has passed' : formatRelative(outlook.reorderAt)) : undefined}
+            className={reorderPast ? '[&_dd]:text-critical' : undefined}
+          >
             {outlook.reorderAt ? formatDateTime(outlook.reorderAt, tz) : 'No reorder due'}
           </Figure>
-          <Figure label="Delivery lead time" sub={ownLeadTime ? 'set on this source' : source.supplierName ? `from ${source.supplierName}` : 'default: no supplier set'}>
+          <Figure
+            label="Delivery lead time"
+            sub={ownLeadTime ? 'set on this source' : source.supplierName ? `from ${source.supplierName}` : 'default: no supplier set'}
+          >
             {formatNumber(method.leadTimeHours)} h
           </Figure>
           <Figure label="Supplier">{source.supplierName ?? 'None set'}</Figure>

@@ -75,29 +75,39 @@ export function SourcesAdmin({
           return s.type === 'manifold' && s.cylindersPerBank ? `2 × ${s.cylindersPerBank} × ${t}` : t;
         },
       }),
-      col.display({ id: 'reorder', header: 'Reorder rule', meta: { className: 'hidden md:table-cell' }, cell: (info) => describeReorderRule(info.row.original) }),
+      col.display({
+        id: 'reorder',
+        header: 'Reorder rule',
+        meta: { className: 'hidden md:table-cell' },
+        cell: (info) => describeReorderRule(info.row.original),
+      }),
       ...(suppliers === null
         ? []
         : [
-      col.display({
-        id: 'supplier',
-        header: 'Supplier',
-        meta: { className: 'hidden lg:table-cell' },
-        cell: (info) => {
-          const s = info.row.original;
-          return (
-            <span>
-              {supplierName(s.supplierId) ?? 'None'}
-              {s.leadTimeHours !== null && <span className="block text-xs text-fg-muted">lead time {s.leadTimeHours} h</span>}
-            </span>
-          );
-        },
-      }),
+            col.display({
+              id: 'supplier',
+              header: 'Supplier',
+              meta: { className: 'hidden lg:table-cell' },
+              cell: (info) => {
+                const s = info.row.original;
+                return (
+                  <span>
+                    {supplierName(s.supplierId) ?? 'None'}
+                    {s.leadTimeHours !== null && <span className="block text-xs text-fg-muted">lead time {s.leadTimeHours} h</span>}
+                  </span>
+                );
+              },
+            }),
           ]),
       col.accessor('forecastBasis', {
         header: 'Basis',
         meta: { className: 'hidden xl:table-cell' },
-        cell: (info) => (info.getValue() === 'scaled' ? `Model × ${formatNumber(info.row.original.modelCorrectionFactor, 2)}` : info.getValue() === 'measured' ? 'Measured' : 'Model'),
+        cell: (info) =>
+          info.getValue() === 'scaled'
+            ? `Model × ${formatNumber(info.row.original.modelCorrectionFactor, 2)}`
+            : info.getValue() === 'measured'
+              ? 'Measured'
+              : 'Model',
       }),
       ...(canEdit
         ? [

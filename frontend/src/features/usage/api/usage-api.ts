@@ -8,10 +8,18 @@ export const usageQueries = {
   all: () => ['usage'] as const,
   /** The screen of one ward and day: the filed report or a draft. Fresh for 30 s (a colleague may file). */
   ward: (wardId: number, date?: string) =>
-    queryOptions({ queryKey: [...usageQueries.all(), 'ward', wardId, date ?? 'today'] as const, queryFn: ({ signal }) => api.get<ReportScreenData>(`/wards/${wardId}/usage-reports`, { signal, query: { date, days: 7 } }), staleTime: 30_000 }),
+    queryOptions({
+      queryKey: [...usageQueries.all(), 'ward', wardId, date ?? 'today'] as const,
+      queryFn: ({ signal }) => api.get<ReportScreenData>(`/wards/${wardId}/usage-reports`, { signal, query: { date, days: 7 } }),
+      staleTime: 30_000,
+    }),
   /** Which wards have filed: changes as reports come in, fresh for 30 s. */
   status: (siteId: number, date?: string) =>
-    queryOptions({ queryKey: [...usageQueries.all(), 'status', siteId, date ?? 'today'] as const, queryFn: ({ signal }) => api.get<UsageStatus>(`/sites/${siteId}/usage-status`, { signal, query: { date } }), staleTime: 30_000 }),
+    queryOptions({
+      queryKey: [...usageQueries.all(), 'status', siteId, date ?? 'today'] as const,
+      queryFn: ({ signal }) => api.get<UsageStatus>(`/sites/${siteId}/usage-status`, { signal, query: { date } }),
+      staleTime: 30_000,
+    }),
 };
 
 export function useFileReport(wardId: number) {

@@ -64,12 +64,24 @@ export function DailyReportScreen({ site, roles }: { site: { id: number; name: s
     }
   };
 
-  if (status.isPending) return <Card><LoadingState label="Loading the wards…" /></Card>;
-  if (status.isError) return <Card><ErrorState error={status.error} onRetry={() => status.refetch()} /></Card>;
+  if (status.isPending)
+    return (
+      <Card>
+        <LoadingState label="Loading the wards…" />
+      </Card>
+    );
+  if (status.isError)
+    return (
+      <Card>
+        <ErrorState error={status.error} onRetry={() => status.refetch()} />
+      </Card>
+    );
   if ((!wards.length || wardId === null) && wardLeadOnly(roles)) {
     return (
       <Card>
-        <EmptyState title="No wards granted to you yet">You report for the wards an administrator grants you. Ask an administrator to grant your wards.</EmptyState>
+        <EmptyState title="No wards granted to you yet">
+          You report for the wards an administrator grants you. Ask an administrator to grant your wards.
+        </EmptyState>
       </Card>
     );
   }
@@ -106,11 +118,33 @@ export function DailyReportScreen({ site, roles }: { site: { id: number; name: s
   );
 }
 
-function ReportPanel({ wardId, date, onDate, manager, timeZone }: { wardId: number; date: string | undefined; onDate: (d: string | undefined) => void; manager: boolean; timeZone: string }) {
+function ReportPanel({
+  wardId,
+  date,
+  onDate,
+  manager,
+  timeZone,
+}: {
+  wardId: number;
+  date: string | undefined;
+  onDate: (d: string | undefined) => void;
+  manager: boolean;
+  timeZone: string;
+}) {
   const q = useQuery(usageQueries.ward(wardId, date));
   const [filed, setFiled] = useState<{ report: FiledReport; created: boolean } | null>(null);
-  if (q.isPending) return <Card><LoadingState label="Loading the report…" /></Card>;
-  if (q.isError) return <Card><ErrorState error={q.error} onRetry={() => q.refetch()} /></Card>;
+  if (q.isPending)
+    return (
+      <Card>
+        <LoadingState label="Loading the report…" />
+      </Card>
+    );
+  if (q.isError)
+    return (
+      <Card>
+        <ErrorState error={q.error} onRetry={() => q.refetch()} />
+      </Card>
+    );
   const d = q.data;
   return (
     <div className="flex flex-col gap-4">
@@ -120,7 +154,12 @@ function ReportPanel({ wardId, date, onDate, manager, timeZone }: { wardId: numb
       ) : d.report && !d.report.canEdit ? (
         <ReadOnlyReport data={d} report={d.report} timeZone={timeZone} />
       ) : d.report || d.canCreate ? (
-        <ReportForm key={d.report ? `edit-${d.report.id}-${d.report.updatedAt}` : `new-${d.date}`} data={d} timeZone={timeZone} onFiled={(report, created) => setFiled({ report, created })} />
+        <ReportForm
+          key={d.report ? `edit-${d.report.id}-${d.report.updatedAt}` : `new-${d.date}`}
+          data={d}
+          timeZone={timeZone}
+          onFiled={(report, created) => setFiled({ report, created })}
+        />
       ) : (
         <Alert tone="info" title={`No report for ${dayLabel(d.date, d.today)}`}>
           {d.createRule}
@@ -141,7 +180,10 @@ function DayPicker({ data, onDate, manager }: { data: ReportScreenData; onDate: 
           type="button"
           aria-pressed={day === data.date}
           onClick={() => onDate(i === 0 ? undefined : day)}
-          className={cn('min-h-11 rounded-full border px-3.5 font-bold', day === data.date ? 'border-primary bg-primary text-primary-fg' : 'border-line-strong bg-surface text-primary hover:bg-primary-soft')}
+          className={cn(
+            'min-h-11 rounded-full border px-3.5 font-bold',
+            day === data.date ? 'border-primary bg-primary text-primary-fg' : 'border-line-strong bg-surface text-primary hover:bg-primary-soft',
+          )}
         >
           {i === 0 ? 'Today' : i === 1 ? 'Yesterday' : DateTime.fromISO(day).toFormat('ccc d')}
         </button>
@@ -168,14 +210,18 @@ interface Draft {
 
 function ReportForm({ data, timeZone, onFiled }: { data: ReportScreenData; timeZone: string; onFiled: (r: FiledReport, created: boolean) => void }) {
   const editing = data.report;
-  const initial: Draft = editing ? { devices: editing.devices, cylinders: editing.cylinders, note: editing.note } : { devices: data.draft!.devices, cylinders: data.draft!.cylinders, note: data.draft!.note };
+  const initial: Draft = editing
+    ? { devices: editing.devices, cylinders: editing.cylinders, note: editing.note }
+    : { devices: data.draft!.devices, cylinders: data.draft!.cylinders, note: data.draft!.note };
   // Devices on show: the report's, and those the ward's model has patients on; others can be added.
   const [shown, setShown] = useState<string[]>(() => {
     const list = new Set(initial.devices.map((x) => x.device as string));
     for (const dv of data.devices) if (dv.modelPatients > 0) list.add(dv.device);
     return data.devices.map((dv) => dv.device as string).filter((dv) => list.has(dv));
   });
-  const [devices, setDevices] = useState<Record<string, { now: number; shift: number }>>(() => Object.fromEntries(initial.devices.map((x) => [x.device, { now: x.patientsNow, shift: x.patientsShift }])));
+  const [devices, setDevices] = useState<Record<string, { now: number; shift: number }>>(() =>
+    Object.fromEntries(initial.devices.map((x) => [x.device, { now: x.patientsNow, shift: x.patientsShift }])),
+  );
   const [cylinders, setCylinders] = useState<UsageCylinderLine[]>(initial.cylinders);
   const [note, setNote] = useState(initial.note);
   const [errors, setErrors] = useState<Record<string, string>>({});
@@ -195,7 +241,11 @@ function ReportForm({ data, timeZone, onFiled }: { data: ReportScreenData; timeZ
     });
 
   const body = (): Draft => ({
-    devices: shown.map((device) => ({ device: device as UsageDeviceLine['device'], patientsNow: devices[device]?.now ?? 0, patientsShift: devices[device]?.shift ?? 0 })),
+    devices: shown.map((device) => ({
+      device: device as UsageDeviceLine['device'],
+      patientsNow: devices[device]?.now ?? 0,
+      patientsShift: devices[device]?.shift ?? 0,
+    })),
     cylinders,
     note,
   });
@@ -278,7 +328,13 @@ function ReportForm({ data, timeZone, onFiled }: { data: ReportScreenData; timeZ
             <div className="px-4 py-3 sm:px-5">
               <Field label="Another device">
                 {(p) => (
-                  <Select {...p} value="" onChange={(e) => e.target.value && setShown((s) => data.devices.map((dv) => dv.device as string).filter((dv) => s.includes(dv) || dv === e.target.value))}>
+                  <Select
+                    {...p}
+                    value=""
+                    onChange={(e) =>
+                      e.target.value && setShown((s) => data.devices.map((dv) => dv.device as string).filter((dv) => s.includes(dv) || dv === e.target.value))
+                    }
+                  >
                     <option value="">Add a device…</option>
                     {unusedDevices.map((dv) => (
                       <option key={dv.device} value={dv.device}>
@@ -303,11 +359,25 @@ function ReportForm({ data, timeZone, onFiled }: { data: ReportScreenData; timeZ
               <div key={c.cylinderTypeId} className="flex flex-col gap-3 px-4 py-4 sm:px-5">
                 <div className="flex flex-wrap items-baseline justify-between gap-2">
                   <h3 className="text-base font-bold">{typeName(c.cylinderTypeId)}</h3>
-                  {prev && data.previous && <span className="text-xs text-fg-muted">last report: {prev.used} used, {prev.returned} returned</span>}
+                  {prev && data.previous && (
+                    <span className="text-xs text-fg-muted">
+                      last report: {prev.used} used, {prev.returned} returned
+                    </span>
+                  )}
                 </div>
                 <div className="grid grid-cols-1 gap-2 md:grid-cols-2 md:gap-6">
-                  <Stepper label="Used" max={1000} value={c.used} onChange={(n) => setCylinders((all) => all.map((x, k) => (k === i ? { ...x, used: n } : x)))} />
-                  <Stepper label="Returned" max={1000} value={c.returned} onChange={(n) => setCylinders((all) => all.map((x, k) => (k === i ? { ...x, returned: n } : x)))} />
+                  <Stepper
+                    label="Used"
+                    max={1000}
+                    value={c.used}
+                    onChange={(n) => setCylinders((all) => all.map((x, k) => (k === i ? { ...x, used: n } : x)))}
+                  />
+                  <Stepper
+                    label="Returned"
+                    max={1000}
+                    value={c.returned}
+                    onChange={(n) => setCylinders((all) => all.map((x, k) => (k === i ? { ...x, returned: n } : x)))}
+                  />
                 </div>
               </div>
             );
@@ -316,7 +386,11 @@ function ReportForm({ data, timeZone, onFiled }: { data: ReportScreenData; timeZ
             <div className="px-4 py-3 sm:px-5">
               <Field label="Another cylinder type">
                 {(p) => (
-                  <Select {...p} value="" onChange={(e) => e.target.value && setCylinders((all) => [...all, { cylinderTypeId: Number(e.target.value), used: 0, returned: 0 }])}>
+                  <Select
+                    {...p}
+                    value=""
+                    onChange={(e) => e.target.value && setCylinders((all) => [...all, { cylinderTypeId: Number(e.target.value), used: 0, returned: 0 }])}
+                  >
                     <option value="">Add a cylinder type…</option>
                     {unusedTypes.map((t) => (
                       <option key={t.id} value={t.id}>
@@ -345,7 +419,19 @@ function ReportForm({ data, timeZone, onFiled }: { data: ReportScreenData; timeZ
   );
 }
 
-function Confirmation({ data, filed, created, timeZone, onChange }: { data: ReportScreenData; filed: FiledReport; created: boolean; timeZone: string; onChange: () => void }) {
+function Confirmation({
+  data,
+  filed,
+  created,
+  timeZone,
+  onChange,
+}: {
+  data: ReportScreenData;
+  filed: FiledReport;
+  created: boolean;
+  timeZone: string;
+  onChange: () => void;
+}) {
   const ref = useRef<HTMLDivElement>(null);
   useEffect(() => {
     ref.current?.focus();
@@ -444,7 +530,11 @@ function RecentDays({ data, onDate }: { data: ReportScreenData; onDate: (d: stri
           const r = data.recent.find((x) => x.date === day);
           return (
             <li key={day}>
-              <button type="button" onClick={() => onDate(i === 0 ? undefined : day)} className="flex min-h-12 w-full items-center justify-between gap-3 px-4 py-2 text-left hover:bg-primary-soft sm:px-5">
+              <button
+                type="button"
+                onClick={() => onDate(i === 0 ? undefined : day)}
+                className="flex min-h-12 w-full items-center justify-between gap-3 px-4 py-2 text-left hover:bg-primary-soft sm:px-5"
+              >
                 <span className={cn(day === data.date && 'font-bold')}>{i === 0 ? 'Today' : DateTime.fromISO(day).toFormat('ccc d LLL')}</span>
                 {r ? (
                   <Badge tone="ok" icon="check">
@@ -468,11 +558,19 @@ function StatusBoard({ status, current, onPick }: { status: UsageStatus; current
   const filed = status.wards.filter((w) => w.reportId !== null).length;
   return (
     <Card>
-      <CardHeader title="Reports today" description={`${filed} of ${status.wards.length} wards have filed for ${dayLabel(status.date)}. A reminder goes out at ${status.reminderLocalTime} site time to wards that have not.`} />
+      <CardHeader
+        title="Reports today"
+        description={`${filed} of ${status.wards.length} wards have filed for ${dayLabel(status.date)}. A reminder goes out at ${status.reminderLocalTime} site time to wards that have not.`}
+      />
       <ul className="divide-y divide-line">
         {status.wards.map((w) => (
           <li key={w.wardId}>
-            <button type="button" onClick={() => onPick(w.wardId)} aria-current={w.wardId === current || undefined} className="flex min-h-12 w-full items-center justify-between gap-3 px-4 py-2 text-left hover:bg-primary-soft aria-[current]:bg-primary-soft sm:px-5">
+            <button
+              type="button"
+              onClick={() => onPick(w.wardId)}
+              aria-current={w.wardId === current || undefined}
+              className="flex min-h-12 w-full items-center justify-between gap-3 px-4 py-2 text-left hover:bg-primary-soft aria-[current]:bg-primary-soft sm:px-5"
+            >
               <span className="min-w-0 truncate">{w.name}</span>
               {w.reportId ? (
                 <Badge tone="ok" icon="check">

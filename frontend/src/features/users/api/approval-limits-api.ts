@@ -9,7 +9,12 @@ export type { ApprovalLimitRow };
 export const approvalLimitQueries = {
   all: () => [...usersQueries.all(), 'approval-limits'] as const,
   /** Changes only when an administrator edits a limit or a role: fresh for a minute. */
-  list: () => queryOptions({ queryKey: approvalLimitQueries.all(), queryFn: ({ signal }) => api.get<ApprovalLimitRow[]>('/approval-limits', { signal }), staleTime: 60_000 }),
+  list: () =>
+    queryOptions({
+      queryKey: approvalLimitQueries.all(),
+      queryFn: ({ signal }) => api.get<ApprovalLimitRow[]>('/approval-limits', { signal }),
+      staleTime: 60_000,
+    }),
 };
 
 export function useSetApprovalLimit() {

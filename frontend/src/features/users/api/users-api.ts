@@ -33,7 +33,11 @@ export function useCreateUser() {
 
 export function useUpdateUser() {
   const invalidate = useInvalidateUsers();
-  return useMutation({ mutationFn: ({ id, body }: { id: number; body: UserUpdateInput }) => api.patch<UserRow>(`/users/${id}`, body), meta: { formHandlesErrors: true }, onSuccess: invalidate });
+  return useMutation({
+    mutationFn: ({ id, body }: { id: number; body: UserUpdateInput }) => api.patch<UserRow>(`/users/${id}`, body),
+    meta: { formHandlesErrors: true },
+    onSuccess: invalidate,
+  });
 }
 
 export function useUnlockUser() {

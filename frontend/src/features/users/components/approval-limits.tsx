@@ -35,7 +35,10 @@ export function ApprovalLimits({ siteCurrencies }: { siteCurrencies: string[] })
   const fallback = mainCurrency(siteCurrencies);
   return (
     <Card>
-      <CardHeader title="Approval limits" description="Purchasing officers approve orders up to their limit; above it a second officer whose limit covers the total must approve as well." />
+      <CardHeader
+        title="Approval limits"
+        description="Purchasing officers approve orders up to their limit; above it a second officer whose limit covers the total must approve as well."
+      />
       {limits.isPending ? (
         <LoadingState label="Loading approval limits…" />
       ) : limits.isError ? (
@@ -73,13 +76,30 @@ export function ApprovalLimits({ siteCurrencies }: { siteCurrencies: string[] })
         </ul>
       )}
       <Dialog open={editing !== null} onClose={() => setEditing(null)} title={`Approval limit of ${editing?.name ?? ''}`}>
-        {editing && <ApprovalLimitForm officer={editing} currencies={currencies.length ? currencies : [fallback]} defaultCurrency={editing.currency ?? fallback} onDone={() => setEditing(null)} />}
+        {editing && (
+          <ApprovalLimitForm
+            officer={editing}
+            currencies={currencies.length ? currencies : [fallback]}
+            defaultCurrency={editing.currency ?? fallback}
+            onDone={() => setEditing(null)}
+          />
+        )}
       </Dialog>
     </Card>
   );
 }
 
-function ApprovalLimitForm({ officer, currencies, defaultCurrency, onDone }: { officer: ApprovalLimitRow; currencies: string[]; defaultCurrency: string; onDone: () => void }) {
+function ApprovalLimitForm({
+  officer,
+  currencies,
+  defaultCurrency,
+  onDone,
+}: {
+  officer: ApprovalLimitRow;
+  currencies: string[];
+  defaultCurrency: string;
+  onDone: () => void;
+}) {
   const save = useSetApprovalLimit();
   const [banner, setBanner] = useState<string | null>(null);
   const options = currencies.includes(defaultCurrency) ? currencies : [defaultCurrency, ...currencies];
@@ -111,7 +131,15 @@ function ApprovalLimitForm({ officer, currencies, defaultCurrency, onDone }: { o
       )}
       <div className="grid gap-4 sm:grid-cols-[1fr_8rem]">
         <Field label="Limit per order" hint="The total of one order this officer may approve alone. 0 means they cannot approve." error={e.limitMinor?.message}>
-          {(c) => <Controller control={control} name="limitMinor" render={({ field }) => <MoneyInput {...c} key={currency} currency={currency} value={field.value} onChange={field.onChange} onBlur={field.onBlur} />} />}
+          {(c) => (
+            <Controller
+              control={control}
+              name="limitMinor"
+              render={({ field }) => (
+                <MoneyInput {...c} key={currency} currency={currency} value={field.value} onChange={field.onChange} onBlur={field.onBlur} />
+              )}
+            />
+          )}
         </Field>
         <Field label="Currency" hint={options.length > 1 ? 'As the sites’ orders.' : undefined} error={e.currency?.message}>
           {(c) => (

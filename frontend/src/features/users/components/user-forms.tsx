@@ -24,7 +24,14 @@ const ROLE_HINTS: Record<Role, string> = {
   biomedical_engineer: 'pipeline and manifold capacity',
   administrator: 'users, sites, catalogue',
 };
-const roleOptions = ROLES.map((r) => ({ value: r, label: (<span>{ROLE_LABELS[r]} <span className="text-xs text-fg-muted">({ROLE_HINTS[r]})</span></span>) }));
+const roleOptions = ROLES.map((r) => ({
+  value: r,
+  label: (
+    <span>
+      {ROLE_LABELS[r]} <span className="text-xs text-fg-muted">({ROLE_HINTS[r]})</span>
+    </span>
+  ),
+}));
 const optionalText = (v: unknown) => (v === '' || v === null || v === undefined ? undefined : String(v));
 
 export function UserCreateForm({ sites, onDone }: { sites: SiteOption[]; onDone: () => void }) {
@@ -65,16 +72,34 @@ export function UserCreateForm({ sites, onDone }: { sites: SiteOption[]; onDone:
         <Field label="E-mail" error={e.email?.message}>
           {(c) => <Input {...c} {...register('email')} type="email" autoComplete="off" autoCapitalize="none" spellCheck={false} />}
         </Field>
-        <Field label="First password" hint="At least 10 characters. Tell the person safely; they can change it under Account." error={e.password?.message} className="sm:col-span-2">
+        <Field
+          label="First password"
+          hint="At least 10 characters. Tell the person safely; they can change it under Account."
+          error={e.password?.message}
+          className="sm:col-span-2"
+        >
           {(c) => <Input {...c} {...register('password')} type="password" autoComplete="new-password" />}
         </Field>
       </div>
-      <Controller control={control} name="roles" render={({ field }) => <CheckboxGroup legend="Roles" options={roleOptions} value={(field.value ?? []) as Role[]} onChange={field.onChange} error={e.roles?.message} />} />
+      <Controller
+        control={control}
+        name="roles"
+        render={({ field }) => (
+          <CheckboxGroup legend="Roles" options={roleOptions} value={(field.value ?? []) as Role[]} onChange={field.onChange} error={e.roles?.message} />
+        )}
+      />
       <Controller
         control={control}
         name="siteIds"
         render={({ field }) => (
-          <CheckboxGroup legend="Sites" hint="The person sees only these sites." options={sites.map((s) => ({ value: s.id, label: s.name }))} value={(field.value ?? []) as number[]} onChange={field.onChange} error={e.siteIds?.message} />
+          <CheckboxGroup
+            legend="Sites"
+            hint="The person sees only these sites."
+            options={sites.map((s) => ({ value: s.id, label: s.name }))}
+            value={(field.value ?? []) as number[]}
+            onChange={field.onChange}
+            error={e.siteIds?.message}
+          />
         )}
       />
       <FormActions onCancel={onDone} busy={create.isPending} submitLabel="Add user" />
@@ -121,11 +146,25 @@ export function UserEditForm({ user, sites, onDone, isSelf }: { user: UserRow; s
           {(c) => <Input {...c} {...register('password', { setValueAs: optionalText })} type="password" autoComplete="new-password" />}
         </Field>
       </div>
-      <Controller control={control} name="roles" render={({ field }) => <CheckboxGroup legend="Roles" options={roleOptions} value={(field.value ?? []) as Role[]} onChange={field.onChange} error={e.roles?.message} />} />
+      <Controller
+        control={control}
+        name="roles"
+        render={({ field }) => (
+          <CheckboxGroup legend="Roles" options={roleOptions} value={(field.value ?? []) as Role[]} onChange={field.onChange} error={e.roles?.message} />
+        )}
+      />
       <Controller
         control={control}
         name="siteIds"
-        render={({ field }) => <CheckboxGroup legend="Sites" options={sites.map((s) => ({ value: s.id, label: s.name }))} value={(field.value ?? []) as number[]} onChange={field.onChange} error={e.siteIds?.message} />}
+        render={({ field }) => (
+          <CheckboxGroup
+            legend="Sites"
+            options={sites.map((s) => ({ value: s.id, label: s.name }))}
+            value={(field.value ?? []) as number[]}
+            onChange={field.onChange}
+            error={e.siteIds?.message}
+          />
+        )}
       />
       <Checkbox label="Active (may sign in)" disabled={isSelf} {...register('active')} />
       {isSelf && <p className="text-xs text-fg-muted">You cannot deactivate your own account.</p>}

@@ -41,9 +41,30 @@ export function UsersAdmin({ sites, currentUserId }: { sites: SiteOption[]; curr
           </span>
         ),
       }),
-      col.accessor('email', { header: 'E-mail', cell: (info) => <span className="wrap-anywhere">{info.getValue()}</span>, meta: { className: 'hidden xl:table-cell' } }),
-      col.accessor('roles', { header: 'Roles', enableSorting: false, cell: (info) => info.getValue().map((r) => ROLE_LABELS[r]).join(', ') }),
-      col.accessor('siteIds', { header: 'Sites', enableSorting: false, meta: { className: 'hidden md:table-cell' }, cell: (info) => info.getValue().map((id) => siteName.get(id) ?? `#${id}`).join(', ') || '–' }),
+      col.accessor('email', {
+        header: 'E-mail',
+        cell: (info) => <span className="wrap-anywhere">{info.getValue()}</span>,
+        meta: { className: 'hidden xl:table-cell' },
+      }),
+      col.accessor('roles', {
+        header: 'Roles',
+        enableSorting: false,
+        cell: (info) =>
+          info
+            .getValue()
+            .map((r) => ROLE_LABELS[r])
+            .join(', '),
+      }),
+      col.accessor('siteIds', {
+        header: 'Sites',
+        enableSorting: false,
+        meta: { className: 'hidden md:table-cell' },
+        cell: (info) =>
+          info
+            .getValue()
+            .map((id) => siteName.get(id) ?? `#${id}`)
+            .join(', ') || '–',
+      }),
       col.display({
         id: 'status',
         header: 'Status',
@@ -59,7 +80,11 @@ export function UsersAdmin({ sites, currentUserId }: { sites: SiteOption[]; curr
           return <Badge tone="ok">Active</Badge>;
         },
       }),
-      col.accessor('createdAt', { header: 'Added', meta: { className: 'hidden lg:table-cell' }, cell: (info) => <span className="whitespace-nowrap">{formatDateTime(info.getValue())}</span> }),
+      col.accessor('createdAt', {
+        header: 'Added',
+        meta: { className: 'hidden lg:table-cell' },
+        cell: (info) => <span className="whitespace-nowrap">{formatDateTime(info.getValue())}</span>,
+      }),
       col.display({
         id: 'actions',
         header: () => <span className="sr-only">Actions</span>,
@@ -68,7 +93,12 @@ export function UsersAdmin({ sites, currentUserId }: { sites: SiteOption[]; curr
           return (
             <div className="flex justify-end gap-1">
               {u.locked && (
-                <Button variant="secondary" size="sm" busy={unlock.isPending && unlock.variables === u.id} onClick={() => unlock.mutate(u.id, { onSuccess: () => toast.ok(`${u.name} can sign in again.`) })}>
+                <Button
+                  variant="secondary"
+                  size="sm"
+                  busy={unlock.isPending && unlock.variables === u.id}
+                  onClick={() => unlock.mutate(u.id, { onSuccess: () => toast.ok(`${u.name} can sign in again.`) })}
+                >
                   Unlock
                 </Button>
               )}
@@ -119,7 +149,9 @@ export function UsersAdmin({ sites, currentUserId }: { sites: SiteOption[]; curr
       )}
       <Dialog open={editing !== null} onClose={() => setEditing(null)} title={editing === 'new' ? 'New user' : `Edit ${editing?.name ?? ''}`} wide>
         {editing === 'new' && <UserCreateForm sites={sites} onDone={() => setEditing(null)} />}
-        {editing !== null && editing !== 'new' && <UserEditForm user={editing} sites={sites} isSelf={editing.id === currentUserId} onDone={() => setEditing(null)} />}
+        {editing !== null && editing !== 'new' && (
+          <UserEditForm user={editing} sites={sites} isSelf={editing.id === currentUserId} onDone={() => setEditing(null)} />
+        )}
       </Dialog>
       <Dialog open={wardsOf !== null} onClose={() => setWardsOf(null)} title={`Wards of ${wardsOf?.name ?? ''}`} wide>
         {wardsOf !== null && <UserWardsDialogBody user={wardsOf} onDone={() => setWardsOf(null)} />}

@@ -39,7 +39,9 @@ function UserWardsForm({ user, data, onDone }: { user: UserRow; data: UserWards;
       { id: user.id, body },
       {
         onSuccess: (r) => {
-          toast.ok(r.wardIds.length ? `${user.name} now reports for ${r.wardIds.length} ward${r.wardIds.length === 1 ? '' : 's'}.` : `${user.name} has no wards now.`);
+          toast.ok(
+            r.wardIds.length ? `${user.name} now reports for ${r.wardIds.length} ward${r.wardIds.length === 1 ? '' : 's'}.` : `${user.name} has no wards now.`,
+          );
           onDone();
         },
         onError: (error) => setBanner(applyServerErrors(error, setError, ['wardIds'])),

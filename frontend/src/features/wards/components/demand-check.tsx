@@ -13,17 +13,36 @@ function judge(factor: number): { text: string; tone: string } {
   const off = Math.abs(factor - 1);
   if (off <= 0.1) return { text: 'The model matches the measured use well.', tone: 'text-ok' };
   if (off <= 0.3) return { text: factor > 1 ? 'The ward uses more than modelled.' : 'The ward uses less than modelled.', tone: 'text-watch' };
-  return { text: factor > 1 ? 'The ward uses much more than modelled: check the therapy lines before accepting.' : 'The ward uses much less than modelled: check the therapy lines before accepting.', tone: 'text-warn' };
+  return {
+    text:
+      factor > 1
+        ? 'The ward uses much more than modelled: check the therapy lines before accepting.'
+        : 'The ward uses much less than modelled: check the therapy lines before accepting.',
+    tone: 'text-warn',
+  };
 }
 
 /**
  * Modelled against measured use per gas, and the correction factor that would make the model meet the
  * measurement. Accepting it makes the forecast of the primary source use modelled demand × the factor.
  */
-export function DemandCheck({ detail, sources, canAccept, onSaved }: { detail: WardDetail; sources: SourceOption[]; canAccept: boolean; onSaved?: () => void }) {
+export function DemandCheck({
+  detail,
+  sources,
+  canAccept,
+  onSaved,
+}: {
+  detail: WardDetail;
+  sources: SourceOption[];
+  canAccept: boolean;
+  onSaved?: () => void;
+}) {
   return (
     <Card>
-      <CardHeader title="Modelled and measured use" description="Measured use is the ward’s share of its primary source’s measured use (by modelled share), from recent readings." />
+      <CardHeader
+        title="Modelled and measured use"
+        description="Measured use is the ward’s share of its primary source’s measured use (by modelled share), from recent readings."
+      />
       {detail.perGas.length === 0 ? (
         <EmptyState title="No demand yet" className="py-6">
           Add therapy lines and a primary feed to see the ward’s use.
@@ -76,16 +95,23 @@ function GasRow({ g, source, canAccept, onSaved }: { g: GasDemand; source?: Sour
       {verdict && <p className={`text-sm font-bold ${verdict.tone}`}>{verdict.text}</p>}
       {source && (
         <p className="text-sm text-fg-muted">
-          {inUse !== null ? `The source’s forecast now uses modelled demand × ${formatNumber(inUse, 2)}.` : source.forecastBasis === 'measured' ? 'The source’s forecast uses its measured use directly.' : 'The source’s forecast uses the model as it is.'}
+          {inUse !== null
+            ? `The source’s forecast now uses modelled demand × ${formatNumber(inUse, 2)}.`
+            : source.forecastBasis === 'measured'
+              ? 'The source’s forecast uses its measured use directly.'
+              : 'The source’s forecast uses the model as it is.'}
         </p>
       )}
-      {g.measuredLPerDay === null && <p className="text-sm text-fg-muted">Measured use needs two days or more of readings of a bulk tank that feeds this ward as primary.</p>}
+      {g.measuredLPerDay === null && (
+        <p className="text-sm text-fg-muted">Measured use needs two days or more of readings of a bulk tank that feeds this ward as primary.</p>
+      )}
       {canAccept && rounded !== null && g.primarySource && !alreadyAccepted && (
         <div className="flex flex-wrap items-center gap-2">
           {confirm ? (
             <>
               <span className="text-sm">
-                Forecast {g.primarySource.name} with modelled demand × {formatNumber(rounded, 2)}? It applies to every ward this source feeds, and is recorded in the audit log.
+                Forecast {g.primarySource.name} with modelled demand × {formatNumber(rounded, 2)}? It applies to every ward this source feeds, and is recorded
+                in the audit log.
               </span>
               <Button
                 size="sm"

@@ -80,14 +80,21 @@ function DeviceFlowsForm({ flows, canEdit, onSaved }: { flows: DeviceFlow[]; can
                     {differs && <Badge tone="info">Own value</Badge>}
                   </p>
                   <p className="text-sm text-fg-muted">
-                    Documented default {formatNumber(f.defaultFlowLMin, 1)} L/min (usual range {formatNumber(f.rangeLMin[0], 1)}–{formatNumber(f.rangeLMin[1], 1)}). Source: {f.source}.
+                    Documented default {formatNumber(f.defaultFlowLMin, 1)} L/min (usual range {formatNumber(f.rangeLMin[0], 1)}–
+                    {formatNumber(f.rangeLMin[1], 1)}). Source: {f.source}.
                   </p>
                   {outside && <p className="text-sm font-bold text-warn">Outside the usual range: check with the clinical lead.</p>}
                 </div>
                 <div className="flex flex-col gap-1">
                   {canEdit ? (
                     <>
-                      <UnitInput id={`flow-${f.device}`} {...register(`flows.${i}.flowLMin`, { valueAsNumber: true })} unit="L/min" inputMode="decimal" aria-invalid={err ? true : undefined} />
+                      <UnitInput
+                        id={`flow-${f.device}`}
+                        {...register(`flows.${i}.flowLMin`, { valueAsNumber: true })}
+                        unit="L/min"
+                        inputMode="decimal"
+                        aria-invalid={err ? true : undefined}
+                      />
                       {err && <FieldError>{humaniseMessage(err)}</FieldError>}
                       {differs && (
                         <Button variant="ghost" size="sm" onClick={() => setValue(`flows.${i}.flowLMin`, f.defaultFlowLMin, { shouldDirty: true })}>
@@ -96,9 +103,7 @@ function DeviceFlowsForm({ flows, canEdit, onSaved }: { flows: DeviceFlow[]; can
                       )}
                     </>
                   ) : (
-                    <p className="text-lg font-bold tabular sm:text-right">
-                      {formatNumber(f.flowLMin, 1)} L/min
-                    </p>
+                    <p className="text-lg font-bold tabular sm:text-right">{formatNumber(f.flowLMin, 1)} L/min</p>
                   )}
                 </div>
               </li>

@@ -77,7 +77,8 @@ function FeedsForm({ detail, sources, onSaved }: { detail: WardDetail; sources: 
         toast.ok('Feeds saved.');
         reset(undefined, { keepValues: true });
       },
-      onError: (error) => setBanner(applyServerErrors(error, (name, err) => setError(String(name).replace(/\.gasCode$/, '.sourceId') as never, err), ['feeds'])),
+      onError: (error) =>
+        setBanner(applyServerErrors(error, (name, err) => setError(String(name).replace(/\.gasCode$/, '.sourceId') as never, err), ['feeds'])),
     });
   });
 
@@ -97,7 +98,12 @@ function FeedsForm({ detail, sources, onSaved }: { detail: WardDetail; sources: 
               const sid = values[i]?.sourceId;
               return (
                 <li key={f.id} className="grid grid-cols-[minmax(0,1fr)_auto] items-start gap-x-2 gap-y-3 rounded-lg border border-line bg-surface-sunken p-3">
-                  <Field className="col-span-2" label={`Source ${i + 1}`} hint={sid && Number.isFinite(sid) ? gasName(gasOf(sid)) : undefined} error={e.feeds?.[i]?.sourceId ? (e.feeds[i].sourceId.type === 'server' ? e.feeds[i].sourceId.message : 'choose a source') : undefined}>
+                  <Field
+                    className="col-span-2"
+                    label={`Source ${i + 1}`}
+                    hint={sid && Number.isFinite(sid) ? gasName(gasOf(sid)) : undefined}
+                    error={e.feeds?.[i]?.sourceId ? (e.feeds[i].sourceId.type === 'server' ? e.feeds[i].sourceId.message : 'choose a source') : undefined}
+                  >
                     {(c) => (
                       <Select {...c} {...register(`feeds.${i}.sourceId`, { setValueAs: optionalId })}>
                         <option value="">Choose a source…</option>
@@ -137,7 +143,11 @@ function FeedsForm({ detail, sources, onSaved }: { detail: WardDetail; sources: 
           </ul>
           {e.feeds?.message && <p className="text-sm font-bold text-critical">{e.feeds.message}</p>}
           <div className="flex flex-wrap items-center gap-2">
-            <Button variant="secondary" size="sm" onClick={() => feeds.append({ sourceId: BLANK, role: values.some((v) => v.role === 'primary') ? 'secondary' : 'primary' })}>
+            <Button
+              variant="secondary"
+              size="sm"
+              onClick={() => feeds.append({ sourceId: BLANK, role: values.some((v) => v.role === 'primary') ? 'secondary' : 'primary' })}
+            >
               <Icon name="plus" className="size-4" />
               Add a feed
             </Button>

@@ -18,7 +18,11 @@ const optionalText = (v: unknown) => (v === '' || v === null || v === undefined 
 
 /** Midnight starting tomorrow at the site: a scenario usually starts with a day. */
 function startOfTomorrow(timeZone: string | undefined): string {
-  return DateTime.now().setZone(timeZone ?? 'local').plus({ days: 1 }).startOf('day').toFormat("yyyy-MM-dd'T'HH:mm");
+  return DateTime.now()
+    .setZone(timeZone ?? 'local')
+    .plus({ days: 1 })
+    .startOf('day')
+    .toFormat("yyyy-MM-dd'T'HH:mm");
 }
 
 /** The schema asks for the text a datetime-local input gives; a person only needs to fill it in. */
@@ -52,8 +56,28 @@ export function ScenarioForm({
   const { register, handleSubmit, setError, setValue, control, formState } = useForm({
     resolver: bodyResolver<z.input<typeof scenarioSchema>, typeof scenarioSchema>(scenarioSchema, (v) => v),
     defaultValues: initial
-      ? { name: initial.name, multiplier: initial.multiplier, extraPatients: initial.extraPatients, extraFlowLMin: initial.extraFlowLMin, wardId: initial.wardId, wardChange: initial.wardChange, fromLocal: initial.fromLocal, untilLocal: initial.untilLocal, note: initial.note }
-      : { name: '', multiplier: 1, extraPatients: 0, extraFlowLMin: 0, wardId: defaultWardId, wardChange: null, fromLocal: startOfTomorrow(timeZone), untilLocal: null, note: '' },
+      ? {
+          name: initial.name,
+          multiplier: initial.multiplier,
+          extraPatients: initial.extraPatients,
+          extraFlowLMin: initial.extraFlowLMin,
+          wardId: initial.wardId,
+          wardChange: initial.wardChange,
+          fromLocal: initial.fromLocal,
+          untilLocal: initial.untilLocal,
+          note: initial.note,
+        }
+      : {
+          name: '',
+          multiplier: 1,
+          extraPatients: 0,
+          extraFlowLMin: 0,
+          wardId: defaultWardId,
+          wardChange: null,
+          fromLocal: startOfTomorrow(timeZone),
+          untilLocal: null,
+          note: '',
+        },
   });
   const wardId = useWatch({ control, name: 'wardId' });
   const e = formState.errors;

@@ -85,7 +85,15 @@ export function ScenariosPanel({
       )}
       <Dialog open={editing !== null} onClose={() => setEditing(null)} title={editing === 'new' ? 'New scenario' : `Edit ${editing?.name ?? ''}`}>
         {editing !== null && (
-          <ScenarioForm siteId={siteId} timeZone={timeZone} wards={wards} initial={editing === 'new' ? null : editing} defaultWardId={defaultWardId} onDone={() => setEditing(null)} onSaved={onSaved} />
+          <ScenarioForm
+            siteId={siteId}
+            timeZone={timeZone}
+            wards={wards}
+            initial={editing === 'new' ? null : editing}
+            defaultWardId={defaultWardId}
+            onDone={() => setEditing(null)}
+            onSaved={onSaved}
+          />
         )}
       </Dialog>
     </Card>

@@ -7,7 +7,19 @@ const HOURS = Array.from({ length: 24 }, (_, h) => h);
  * Toggles for the clock hours or weekdays a therapy line runs. `null` means all of them; the last one
  * cannot be switched off, since an empty list would also mean "all" to the demand model.
  */
-export function ChipPicker({ legend, options, value, onChange, total }: { legend: string; options: { value: number; label: string }[]; value: number[] | null; onChange: (next: number[] | null) => void; total: number }) {
+export function ChipPicker({
+  legend,
+  options,
+  value,
+  onChange,
+  total,
+}: {
+  legend: string;
+  options: { value: number; label: string }[];
+  value: number[] | null;
+  onChange: (next: number[] | null) => void;
+  total: number;
+}) {
   const on = new Set(value && value.length ? value : options.map((o) => o.value));
   const toggle = (v: number) => {
     const next = new Set(on);
@@ -44,7 +56,15 @@ export function ChipPicker({ legend, options, value, onChange, total }: { legend
 }
 
 export function HoursPicker({ value, onChange }: { value: number[] | null; onChange: (next: number[] | null) => void }) {
-  return <ChipPicker legend="Hours (local clock; each chip is the hour starting then)" options={HOURS.map((h) => ({ value: h, label: String(h).padStart(2, '0') }))} value={value} onChange={onChange} total={24} />;
+  return (
+    <ChipPicker
+      legend="Hours (local clock; each chip is the hour starting then)"
+      options={HOURS.map((h) => ({ value: h, label: String(h).padStart(2, '0') }))}
+      value={value}
+      onChange={onChange}
+      total={24}
+    />
+  );
 }
 
 export function WeekdaysPicker({ value, onChange }: { value: number[] | null; onChange: (next: number[] | null) => void }) {

@@ -30,7 +30,15 @@ const DAY_SHIFT = [8, 9, 10, 11, 12, 13, 14, 15, 16, 17];
 const WEEKDAYS_ONLY = [1, 2, 3, 4, 5];
 
 function toFormLine(t: TherapyLine): LineValue {
-  return { gasCode: t.gasCode as LineValue['gasCode'], device: t.device, patients: t.patients, flowLMin: t.flowLMin, hours: t.hours, weekdays: t.weekdays, label: t.label };
+  return {
+    gasCode: t.gasCode as LineValue['gasCode'],
+    device: t.device,
+    patients: t.patients,
+    flowLMin: t.flowLMin,
+    hours: t.hours,
+    weekdays: t.weekdays,
+    label: t.label,
+  };
 }
 
 /** The flow a line is planned at: its own, else the organisation's flow for the device. */
@@ -43,7 +51,17 @@ function plannedFlow(line: Pick<LineValue, 'device' | 'flowLMin'>, flows: Device
  * The ward's therapy lines: how many patients are on which device, at what flow, in which hours and on
  * which days. Ward leads and facilities managers keep them; they are the modelled demand.
  */
-export function TherapyEditor({ detail, deviceFlows, canEdit, onSaved }: { detail: WardDetail; deviceFlows: DeviceFlow[]; canEdit: boolean; onSaved?: () => void }) {
+export function TherapyEditor({
+  detail,
+  deviceFlows,
+  canEdit,
+  onSaved,
+}: {
+  detail: WardDetail;
+  deviceFlows: DeviceFlow[];
+  canEdit: boolean;
+  onSaved?: () => void;
+}) {
   const leak = detail.ward.leakagePercent;
   if (!canEdit) {
     return (
@@ -61,7 +79,8 @@ export function TherapyEditor({ detail, deviceFlows, canEdit, onSaved }: { detai
                     {formatNumber(t.patients)} × {t.label || deviceLabel(t.device)} · {gasName(t.gasCode)}
                   </p>
                   <p className="text-sm text-fg-muted">
-                    {formatNumber(flow, 1)} L/min each{t.flowLMin === null ? ' (device flow)' : ''} · {formatHours(t.hours)}, {formatWeekdays(t.weekdays)} · ≈ {formatLitres(flow === null ? null : lineLitresPerDay(t.patients, flow, t.hours, t.weekdays, leak))}/day
+                    {formatNumber(flow, 1)} L/min each{t.flowLMin === null ? ' (device flow)' : ''} · {formatHours(t.hours)}, {formatWeekdays(t.weekdays)} · ≈{' '}
+                    {formatLitres(flow === null ? null : lineLitresPerDay(t.patients, flow, t.hours, t.weekdays, leak))}/day
                   </p>
                 </li>
               );
@@ -89,7 +108,8 @@ function TherapyForm({ detail, deviceFlows, onSaved }: { detail: WardDetail; dev
   values.forEach((l) => {
     const flow = plannedFlow(l, deviceFlows);
     const patients = Number(l.patients);
-    if (flow !== null && Number.isFinite(patients)) totals.set(String(l.gasCode), (totals.get(String(l.gasCode)) ?? 0) + lineLitresPerDay(patients, flow, l.hours ?? null, l.weekdays ?? null, leak));
+    if (flow !== null && Number.isFinite(patients))
+      totals.set(String(l.gasCode), (totals.get(String(l.gasCode)) ?? 0) + lineLitresPerDay(patients, flow, l.hours ?? null, l.weekdays ?? null, leak));
   });
 
   const onSubmit = handleSubmit((body) => {
@@ -105,7 +125,10 @@ function TherapyForm({ detail, deviceFlows, onSaved }: { detail: WardDetail; dev
 
   return (
     <Card>
-      <CardHeader title="Therapy lines" description={`Patients on each device, in the hours and days it runs. Leakage of ${formatNumber(leak, 1)} % is added on top.`} />
+      <CardHeader
+        title="Therapy lines"
+        description={`Patients on each device, in the hours and days it runs. Leakage of ${formatNumber(leak, 1)} % is added on top.`}
+      />
       <form onSubmit={onSubmit} noValidate>
         <CardBody className="flex flex-col gap-4">
           {banner && (
@@ -116,12 +139,25 @@ function TherapyForm({ detail, deviceFlows, onSaved }: { detail: WardDetail; dev
           {lines.fields.length === 0 && <p className="text-fg-muted">No therapy lines: this ward adds no modelled demand.</p>}
           <ol className="flex flex-col gap-3">
             {lines.fields.map((f, i) => (
-              <TherapyLineRow key={f.id} index={i} control={control} register={register} errors={e.lines?.[i]} deviceFlows={deviceFlows} leak={leak} onRemove={() => lines.remove(i)} />
+              <TherapyLineRow
+                key={f.id}
+                index={i}
+                control={control}
+                register={register}
+                errors={e.lines?.[i]}
+                deviceFlows={deviceFlows}
+                leak={leak}
+                onRemove={() => lines.remove(i)}
+              />
             ))}
           </ol>
           {e.lines?.message && <p className="text-sm font-bold text-critical">{e.lines.message}</p>}
           <div>
-            <Button variant="secondary" size="sm" onClick={() => lines.append({ gasCode: 'O2', device: 'nasal_cannula', patients: BLANK, flowLMin: null, hours: null, weekdays: null, label: '' })}>
+            <Button
+              variant="secondary"
+              size="sm"
+              onClick={() => lines.append({ gasCode: 'O2', device: 'nasal_cannula', patients: BLANK, flowLMin: null, hours: null, weekdays: null, label: '' })}
+            >
               <Icon name="plus" className="size-4" />
               Add a therapy line
             </Button>
@@ -209,10 +245,24 @@ function TherapyLineRow({
         </Field>
         <Field
           label="Flow per patient"
-          hint={needsFlow ? 'Required for this device.' : device ? `Blank: ${formatNumber(device.flowLMin, 1)} L/min (${device.edited ? 'your organisation’s flow' : 'documented default'}).` : undefined}
+          hint={
+            needsFlow
+              ? 'Required for this device.'
+              : device
+                ? `Blank: ${formatNumber(device.flowLMin, 1)} L/min (${device.edited ? 'your organisation’s flow' : 'documented default'}).`
+                : undefined
+          }
           error={errors?.flowLMin?.message}
         >
-          {(c) => <UnitInput {...c} {...register(`lines.${i}.flowLMin`, { setValueAs: optionalNumber })} unit="L/min" inputMode="decimal" placeholder={device && !needsFlow ? formatNumber(device.flowLMin, 1) : undefined} />}
+          {(c) => (
+            <UnitInput
+              {...c}
+              {...register(`lines.${i}.flowLMin`, { setValueAs: optionalNumber })}
+              unit="L/min"
+              inputMode="decimal"
+              placeholder={device && !needsFlow ? formatNumber(device.flowLMin, 1) : undefined}
+            />
+          )}
         </Field>
         <Field label="Label" hint="Optional, e.g. “Night CPAP”." error={errors?.label?.message} className="col-span-2 @3xl:col-span-4">
           {(c) => <Input {...c} {...register(`lines.${i}.label`)} maxLength={120} />}
@@ -255,7 +305,9 @@ function TherapyLineRow({
             />
           )}
         />
-        {(errors?.hours?.message || errors?.weekdays?.message) && <p className="text-sm font-bold text-critical">{errors?.hours?.message ?? errors?.weekdays?.message}</p>}
+        {(errors?.hours?.message || errors?.weekdays?.message) && (
+          <p className="text-sm font-bold text-critical">{errors?.hours?.message ?? errors?.weekdays?.message}</p>
+        )}
       </div>
     </li>
   );

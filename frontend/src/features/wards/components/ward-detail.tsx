@@ -24,7 +24,17 @@ import { WardForm } from './ward-form';
  * One ward: its therapy lines (the modelled demand), the sources that feed it, modelled against
  * measured use with the correction a facilities manager may accept, and the scenarios that touch it.
  */
-export function WardDetailScreen({ id, roles, sources, onSupplyChanged }: { id: number; roles: readonly Role[]; sources: SourceOption[]; onSupplyChanged?: () => void }) {
+export function WardDetailScreen({
+  id,
+  roles,
+  sources,
+  onSupplyChanged,
+}: {
+  id: number;
+  roles: readonly Role[];
+  sources: SourceOption[];
+  onSupplyChanged?: () => void;
+}) {
   const q = useQuery(wardsQueries.detail(id));
   const flows = useQuery(wardsQueries.deviceFlows());
   const siteId = q.data?.ward.siteId;
@@ -34,7 +44,11 @@ export function WardDetailScreen({ id, roles, sources, onSupplyChanged }: { id: 
   if (q.isError) {
     return (
       <Card>
-        <ErrorState error={q.error} title="This ward could not be loaded" onRetry={isApiError(q.error) && q.error.status === 404 ? undefined : () => q.refetch()} />
+        <ErrorState
+          error={q.error}
+          title="This ward could not be loaded"
+          onRetry={isApiError(q.error) && q.error.status === 404 ? undefined : () => q.refetch()}
+        />
       </Card>
     );
   }

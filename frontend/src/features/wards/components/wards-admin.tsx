@@ -17,7 +17,17 @@ import { WardForm } from './ward-form';
 const col = createColumnHelper<Ward>();
 
 /** The wards of a site, each linking to its demand; facilities managers add and change them. */
-export function WardsAdmin({ siteId, canEdit, onSaved, grantedOnly = false }: { siteId: number; canEdit: boolean; onSaved?: () => void; grantedOnly?: boolean }) {
+export function WardsAdmin({
+  siteId,
+  canEdit,
+  onSaved,
+  grantedOnly = false,
+}: {
+  siteId: number;
+  canEdit: boolean;
+  onSaved?: () => void;
+  grantedOnly?: boolean;
+}) {
   const wards = useQuery(wardsQueries.site(siteId));
   const [editing, setEditing] = useState<Ward | 'new' | null>(null);
   const columns = useMemo(
@@ -39,7 +49,11 @@ export function WardsAdmin({ siteId, canEdit, onSaved, grantedOnly = false }: { 
         ),
       }),
       col.accessor('beds', { header: 'Beds', meta: { numeric: true }, cell: (info) => formatNumber(info.getValue()) }),
-      col.accessor('leakagePercent', { header: 'Leakage', meta: { numeric: true, className: 'hidden sm:table-cell' }, cell: (info) => `${formatNumber(info.getValue(), 1)} %` }),
+      col.accessor('leakagePercent', {
+        header: 'Leakage',
+        meta: { numeric: true, className: 'hidden sm:table-cell' },
+        cell: (info) => `${formatNumber(info.getValue(), 1)} %`,
+      }),
       ...(canEdit
         ? [
             col.display({

@@ -11,13 +11,33 @@ import { WardsAdmin } from './wards-admin';
 function SiteScenarios({ siteId, timeZone, canEdit, onSaved }: { siteId: number; timeZone: string; canEdit: boolean; onSaved?: () => void }) {
   const scenarios = useQuery(wardsQueries.scenarios(siteId));
   const wards = useQuery(wardsQueries.site(siteId));
-  if (scenarios.isPending) return <Card><LoadingState label="Loading scenarios…" /></Card>;
-  if (scenarios.isError) return <Card><ErrorState error={scenarios.error} onRetry={() => scenarios.refetch()} /></Card>;
+  if (scenarios.isPending)
+    return (
+      <Card>
+        <LoadingState label="Loading scenarios…" />
+      </Card>
+    );
+  if (scenarios.isError)
+    return (
+      <Card>
+        <ErrorState error={scenarios.error} onRetry={() => scenarios.refetch()} />
+      </Card>
+    );
   return <ScenariosPanel siteId={siteId} timeZone={timeZone} scenarios={scenarios.data} wards={wards.data ?? []} canEdit={canEdit} onSaved={onSaved} />;
 }
 
 /** The wards of a site, the scenarios of its forecasts and the organisation's device flows. */
-export function WardsScreen({ siteId, timeZone, roles, onSupplyChanged }: { siteId: number; timeZone: string; roles: readonly Role[]; onSupplyChanged?: () => void }) {
+export function WardsScreen({
+  siteId,
+  timeZone,
+  roles,
+  onSupplyChanged,
+}: {
+  siteId: number;
+  timeZone: string;
+  roles: readonly Role[];
+  onSupplyChanged?: () => void;
+}) {
   const fm = roles.includes('facilities_manager');
   return (
     <div className="flex flex-col gap-5">

@@ -8,7 +8,13 @@
  * @param weekdays ISO weekdays it runs (null or empty: all 7)
  * @param leakagePercent the ward's leakage allowance, %
  */
-export function lineLitresPerDay(patients: number, flowLMin: number, hours: readonly number[] | null, weekdays: readonly number[] | null, leakagePercent: number): number {
+export function lineLitresPerDay(
+  patients: number,
+  flowLMin: number,
+  hours: readonly number[] | null,
+  weekdays: readonly number[] | null,
+  leakagePercent: number,
+): number {
   const h = hours && hours.length ? new Set(hours).size : 24;
   const d = weekdays && weekdays.length ? new Set(weekdays).size : 7;
   return patients * flowLMin * 60 * h * (d / 7) * (1 + leakagePercent / 100);
