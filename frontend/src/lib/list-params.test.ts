@@ -14,4 +14,11 @@ describe('parseListParams', () => {
       expect(parseListParams(new URLSearchParams({ sort: bad }), defaults).sort, bad).toBe('name');
     }
   });
+
+  it('reads only a whole page number from 1 up; anything else is page 1', () => {
+    for (const bad of ['0', '-3', 'abc', '__proto__', '1e400', 'Infinity', 'NaN', '']) {
+      expect(parseListParams(new URLSearchParams({ page: bad }), defaults).page, bad).toBe(1);
+    }
+    expect(parseListParams(new URLSearchParams('page=7'), defaults).page).toBe(7);
+  });
 });

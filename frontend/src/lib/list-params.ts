@@ -15,13 +15,19 @@ export interface ListParams {
   [extra: string]: string | number | undefined;
 }
 
+/** A page number from the address: a whole number from 1 up; anything else (text, 0, -3, 1e400) is page 1. */
+export function pageFromSearch(raw: string | null): number {
+  const n = Math.floor(Number(raw));
+  return Number.isSafeInteger(n) && n >= 1 ? n : 1;
+}
+
 /** `sortKeys`: the keys the list's server sorts by (shared schema); another `sort` in the address is dropped. */
 export function parseListParams(
   search: URLSearchParams,
   defaults: { pageSize?: number; sort?: string; dir?: 'asc' | 'desc'; sortKeys?: readonly string[] } = {},
   extras: readonly string[] = [],
 ): ListParams {
-  const page = Math.max(1, Math.floor(Number(search.get('page')) || 1));
+  const page = pageFromSearch(search.get('page'));
   const pageSize = Math.min(200, Math.max(5, Math.floor(Number(search.get('pageSize')) || defaults.pageSize || 25)));
   const dirRaw = search.get('dir');
   const sortRaw = search.get('sort');

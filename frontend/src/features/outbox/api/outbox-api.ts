@@ -1,6 +1,7 @@
 import { keepPreviousData, queryOptions, useMutation, useQueryClient } from '@tanstack/react-query';
 import type { OutboxMessage, OutboxPage, OutboxStatus } from '@common/schemas/mail.schema';
 import { api } from '@/lib/api-client';
+import { pageFromSearch } from '@/lib/list-params';
 
 export type { OutboxMessage, OutboxPage, OutboxStatus };
 export type OutboxFilter = OutboxStatus | 'attention' | 'all';
@@ -14,7 +15,7 @@ export interface OutboxListParams {
 export function outboxListParams(search: URLSearchParams): OutboxListParams {
   const raw = search.get('status');
   const status = OUTBOX_FILTERS.includes(raw as OutboxFilter) ? (raw as OutboxFilter) : 'all';
-  return { status, page: Math.max(1, Math.floor(Number(search.get('page')) || 1)) };
+  return { status, page: pageFromSearch(search.get('page')) };
 }
 
 export const outboxQueries = {

@@ -25,11 +25,22 @@ const KIND_TEXT: Record<OutboxMessage['kind'], string> = {
   digest: 'Daily digest',
 };
 
-const FILTER_TEXT: Record<OutboxFilter, string> = { all: 'All messages', attention: 'Needs attention', pending: 'Queued', failed: 'Failed', sent: 'Sent' };
+/** Keyed by a value that comes from the address bar, so a Map: `__proto__` or `constructor` finds nothing. */
+const FILTER_TEXT: ReadonlyMap<OutboxFilter, string> = new Map<OutboxFilter, string>([
+  ['all', 'All messages'],
+  ['attention', 'Needs attention'],
+  ['pending', 'Queued'],
+  ['failed', 'Failed'],
+  ['sent', 'Sent'],
+]);
+
+function filterText(f: OutboxFilter): string {
+  return FILTER_TEXT.get(f) ?? 'All messages';
+}
 
 function filterLabel(f: OutboxFilter, counts: OutboxPage['counts'] | undefined): string {
-  if (!counts || f === 'all') return FILTER_TEXT[f];
-  return `${FILTER_TEXT[f]} (${counts[f]})`;
+  if (!counts || f === 'all') return filterText(f);
+  return `${filterText(f)} (${counts[f]})`;
 }
 
 /** A message's state in words, colour and a shape: queued, queued but failing, sent, failed. */
@@ -205,7 +216,7 @@ export function OutboxList() {
                     ? 'No outgoing mail yet'
                     : params.status === 'attention'
                       ? 'Nothing needs attention'
-                      : `No ${FILTER_TEXT[params.status].toLowerCase()} messages`
+                      : `No ${filterText(params.status).toLowerCase()} messages`
                 }
                 icon={params.status === 'all' ? 'mail' : 'check'}
               >
